@@ -86,6 +86,22 @@ class LoadHistory:
         b = self.body
         return (b.zeta_0 - zeta_r) * b.n_xi - (b.xi_0 - xi_r) * b.n_zeta
 
+    def retire(self, xs, zs, gs, gamma_sum):
+        """Wake vortices leave the computation for the far wake at infinity.
+
+        Their share is taken out of the stored impulse sums as if they had
+        always moved with the air at U (exact in the far wake), so the
+        backward differences stay smooth; the caller books ``gamma_sum``
+        with the starting vortex, whose impulse rate is U Gamma.
+        """
+        t_now = self.imp_hist[-1][0] + self.dt if self.imp_hist else 0.0
+        hist = []
+        for (tk, s0, s1x, s1z, s2) in self.imp_hist:
+            x = xs - self.U * (t_now - tk)
+            hist.append((tk, s0 - gs.sum(), s1x - (gs * x).sum(), s1z - (gs * zs).sum(),
+                         s2 - (gs * (x * x + zs * zs)).sum()))
+        self.imp_hist = hist
+
     def add(self, n, t, alpha, h, gamma_b, u_rel, w_rel, xs, zs, gs, gamma_start):
         """Loads at step n; returns a dict of coefficients for this step."""
         b, rho, U, dt, q = self.body, self.rho, self.U, self.dt, self.q

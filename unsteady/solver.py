@@ -179,13 +179,19 @@ class VortexSolver:
         Core radius with which wake and bound vortices act on each other
         (default 0.1 U dt: small, so that the newest vortex's pull on the
         trailing edge is not smeared; common practice).
+    far_wake : float or None
+        Distance behind the trailing edge, in chords, beyond which wake
+        vortices are taken out of the computation and their circulation is
+        booked with the starting vortex at infinity (Kelvin's sum stays
+        exact; their pull on the airfoil, of order Gamma / (2 pi d), is
+        dropped).  None keeps the whole wake.
     t0 : float
         Time of the first row (s).
     """
 
     def __init__(self, body, motion, *, speed, density, dt, steps, wake="free",
                  start="steady", gust=None, shed_offset=0.3, core_radius=None,
-                 body_core_radius=None, t0=0.0):
+                 body_core_radius=None, far_wake=None, t0=0.0):
         self.body = body
         self.motion = motion
         self.U = float(speed)
@@ -200,6 +206,7 @@ class VortexSolver:
         self.r_c = float(core_radius if core_radius is not None else r_wake)
         self.r_b = float(body_core_radius if body_core_radius is not None else r_body)
         self.t0 = float(t0)
+        self.far_wake = None if far_wake is None else float(far_wake) * body.chord
         N = body.n
         # Influence matrix of the bound vortices on the collocation points in
         # body coordinates (invariant under rigid motion): factor once.
@@ -360,6 +367,23 @@ class VortexSolver:
                         wx += dt * vel_u[:m]
                     prev_u[:m] = vel_u[:m]
                     prev_w[:m] = vel_w[:m]
+                    # -- far wake: retire the oldest vortices beyond far_wake
+                    if self.far_wake is not None and m > 1:
+                        x_far = x_te + self.far_wake
+                        k = 0
+                        while k < m - 1 and src_x[N + k] > x_far:
+                            k += 1
+                        if k:
+                            gone = slice(N, N + k)
+                            g_gone = float(src_g[gone].sum())
+                            loads.retire(src_x[gone].copy(), src_z[gone].copy(), src_g[gone].copy(), g_gone)
+                            gamma_start += g_gone
+                            keep = slice(N + k, N + m)
+                            for arr in (src_x, src_z, src_g):
+                                arr[N:N + m - k] = arr[keep].copy()
+                            for arr in (prev_u, prev_w):
+                                arr[:m - k] = arr[k:m].copy()
+                            m -= k
         finally:
             for obs in observers:
                 if hasattr(obs, "on_end"):
