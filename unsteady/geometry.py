@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import difflib
 import math
 import pathlib
 import re
@@ -308,8 +309,9 @@ class CoordinateSection(Section):
     Construction:
 
     1. The outline is a parametric cubic spline through the points
-       (parameter: cumulative chord length); the trailing edge is the
-       midpoint of the end points.
+       (centripetal parameter: the running sum of the square roots of the
+       distances between points, which keeps a coarse nose from looping);
+       the trailing edge is the midpoint of the end points.
     2. In the frame of the current chord (first guess: leading edge at the
        point farthest from the trailing edge) both surfaces are sampled at
        common x and their mean z_m = (z_u + z_l) / 2 is taken.
@@ -327,11 +329,13 @@ class CoordinateSection(Section):
        line's direction at the nose.  Steps 2-4 are repeated in the new
        chord's frame until the leading edge settles.
     5. The section is moved, derotated and scaled so that the leading edge is
-       at (0, 0) and the trailing edge at (1, 0).  Camber and slope are a
+       at (0, 0) and the trailing edge at (1, 0).  The camber is a
        least-squares cubic spline through the corrected mean-line points
        from x = 0.002 aft (knots cosine spaced, their number tied to the
-       density of the data; its end polynomial carries it to the nose) and
-       its derivative.
+       density of the data); ahead of 1 % chord, where the first-order
+       correction fails, it is a parabola through the leading edge fitted to
+       the mean line over 1-10 % chord, blended smoothly into the spline by
+       2 % chord.  The slope is the exact derivative of this camber.
 
     For files built from the NACA 4-digit equations this recovers the
     Report 460 mean line to a few 1e-4 chord.
@@ -388,7 +392,7 @@ class CoordinateSection(Section):
             loop = loop[::-1]
 
         # 1. parametric spline; first guess of the leading edge: the farthest point from the trailing edge
-        s = np.concatenate([[0.0], np.cumsum(np.hypot(*np.diff(loop, axis=0).T))])
+        s = np.concatenate([[0.0], np.cumsum(np.sqrt(np.hypot(*np.diff(loop, axis=0).T)))])
         spline = CubicSpline(s, loop, axis=0)
         te = 0.5 * (loop[0] + loop[-1])
         i = int(np.argmax(np.sum((loop - te) ** 2, axis=1)))
@@ -406,10 +410,7 @@ class CoordinateSection(Section):
             # direction of the mean line at the nose, in file coordinates
             t0 = np.array([frame.ex * math.cos(theta0) - frame.ez * math.sin(theta0),
                            frame.ez * math.cos(theta0) + frame.ex * math.sin(theta0)])
-            near = int(np.argmin(np.abs(s - s_le)))
-            j = int(np.argmin(loop[max(near - 3, 0): near + 4] @ t0)) + max(near - 3, 0)
-            j = min(max(j, 1), len(loop) - 2)
-            s_new = _extreme(spline, s, j, lambda p: -float(p @ t0))
+            s_new = _support(spline, s, s_le, t0)
             moved = float(np.hypot(*(spline(s_new) - spline(s_le)))) / frame.c
             s_le = s_new
             if moved < 1e-10:
@@ -455,9 +456,9 @@ class CoordinateSection(Section):
         z_u, z_l = np.interp(xi, xu, zu), np.interp(xi, xl, zl)
         crossing = (xi > 1e-3) & (xi < 1.0 - 1e-3) & (z_u - z_l < -2e-4)
         if np.any(crossing):
-            x_bad = xi[np.flatnonzero(crossing)[0]]
-            raise _shape_error(f"the surfaces in '{fname}' cross near x = {x_bad:.3f} chord; the upper surface must "
-                               f"stay above the lower one")
+            x_bad = xi[crossing]
+            raise _shape_error(f"the surfaces in '{fname}' cross: the upper surface lies below the lower one between "
+                               f"x = {x_bad[0]:.3f} and {x_bad[-1]:.3f} chord; it must stay above it")
         use = (xi >= cls._X_NOSE) & (xi <= 1.0 - 1e-4)
         xi, z_u, z_l = xi[use], z_u[use], z_l[use]
         x_lo = float(xi[0])
@@ -506,6 +507,17 @@ class CoordinateSection(Section):
         """The normalised surfaces from the file, resampled at n cosine-spaced x (see :meth:`Section.outline`)."""
         x = cosine_nodes(max(int(n), 2) - 1)
         return x, np.interp(x, *self._upper), x.copy(), np.interp(x, *self._lower)
+
+
+def _support(spline, s, s_le, t0):
+    """Parameter of the point of the outline farthest back along -t0, searched near s_le (the nose)."""
+    near = int(np.searchsorted(s, s_le))
+    lo, hi = s[max(near - 8, 0)], s[min(near + 8, len(s) - 1)]
+    u = np.linspace(lo, hi, 801)
+    k = int(np.argmin(spline(u) @ t0))
+    res = minimize_scalar(lambda v: float(spline(v) @ t0), bounds=(u[max(k - 1, 0)], u[min(k + 1, len(u) - 1)]),
+                          method="bounded", options={"xatol": 1e-13 * s[-1]})
+    return float(res.x)
 
 
 def _extreme(spline, s, i, score):
@@ -567,7 +579,8 @@ def section_from_shape(shape: str, base_dir: pathlib.Path | None = None) -> Sect
         if re.match(r"naca", text, flags=re.IGNORECASE):
             raise InputError("shape", f"'{text}' is not a NACA 4-digit designation (NACA and four digits, e.g. "
                                       f"\"naca2412\"); {ALLOWED_SHAPES}")
-        hint = " (did you mean \"flat\"?)" if text.lower() in {"flat plate", "flatplate", "plate", "flat-plate"} else ""
+        near = difflib.get_close_matches(text.lower(), ["flat", "flat plate", "flatplate", "plate"], n=1, cutoff=0.6)
+        hint = " (did you mean \"flat\"?)" if near else ""
         raise InputError("shape", f"unknown shape '{text}'{hint}: no such file '{path}'; {ALLOWED_SHAPES}")
     return CoordinateSection(path)
 
