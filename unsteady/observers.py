@@ -63,6 +63,7 @@ class SnapshotRecorder:
         self.t, self.alpha, self.h, self.offsets = [], [], [], [0]
         self.x, self.z, self.g = [], [], []
         self.x_te = []
+        self.xb, self.zb, self.gb = [], [], []  # bound vortices (for flow pictures)
 
     def on_step(self, s):
         if s.n % self.every and s.n != self.last:
@@ -74,12 +75,17 @@ class SnapshotRecorder:
         self.z.append(s.z_wake.astype(np.float32))
         self.g.append(s.gamma_wake.astype(np.float32))
         self.offsets.append(self.offsets[-1] + s.x_wake.shape[0])
+        self.xb.append(np.asarray(s.x_body, np.float32).copy())
+        self.zb.append(np.asarray(s.z_body, np.float32).copy())
+        self.gb.append(np.asarray(s.gamma_bound, np.float32).copy())
 
     def arrays(self):
         cat = (lambda a: np.concatenate(a) if a else np.zeros(0, np.float32))
         return {"t": np.array(self.t), "alpha": np.array(self.alpha), "h": np.array(self.h),
                 "offsets": np.array(self.offsets, dtype=np.int64),
-                "x": cat(self.x), "z": cat(self.z), "gamma": cat(self.g)}
+                "x": cat(self.x), "z": cat(self.z), "gamma": cat(self.g),
+                "x_body": np.array(self.xb, np.float32), "z_body": np.array(self.zb, np.float32),
+                "gamma_body": np.array(self.gb, np.float32)}
 
 
 class ProgressBar:
