@@ -58,7 +58,8 @@ def naca4_half_thickness(x, t, closed=True):
     """
     x = np.clip(np.asarray(x, dtype=float), 0.0, 1.0)
     a4 = -0.1036 if closed else -0.1015
-    return 5.0 * t * (0.2969 * np.sqrt(x) - 0.1260 * x - 0.3516 * x**2 + 0.2843 * x**3 + a4 * x**4)
+    y_t = 5.0 * t * (0.2969 * np.sqrt(x) - 0.1260 * x - 0.3516 * x**2 + 0.2843 * x**3 + a4 * x**4)
+    return np.maximum(y_t, 0.0)  # the closed form rounds to -1e-18 at x = 1
 
 
 class Section:
