@@ -156,6 +156,9 @@ class Scenario:
     data: dict
     source: str = "<dict>"
     base_dir: Path = field(default_factory=Path.cwd)
+    # the input as given (after --set overrides, before defaults were filled):
+    # sweeps re-resolve each case from it so derived defaults (dt, density) follow
+    raw: dict = field(default=None, compare=False, repr=False)
 
     # -- plain values
     @property
@@ -323,7 +326,7 @@ def load_scenario(source, overrides=None, *, source_name=None, base_dir=None, so
     data, errors = resolve(raw, base, stem)
     if errors:
         raise ScenarioError([Problem(name, e.key, e.message) for e in errors])
-    return Scenario(data=data, source=name, base_dir=base)
+    return Scenario(data=data, source=name, base_dir=base, raw=copy.deepcopy(raw))
 
 
 def resolve(raw, base_dir, stem="scenario"):
