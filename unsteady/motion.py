@@ -204,14 +204,14 @@ class Step(Law):
 
 
 def logcosh(x):
-    """ln(cosh x) without overflow: |x| + log1p(exp(-2|x|)) - ln 2."""
+    """ln(cosh x) without overflow: |x| + log1p(exp(-2|x|)) - ln 2 (vectorised)."""
     a = np.abs(x)
-    return a + np.log1p(np.exp(-2.0 * a)) - math.log(2.0)
+    return a + np.log1p(np.square(np.exp(-a))) - math.log(2.0)
 
 
 def _sech2(x):
     """sech^2 x = 4 e^(-2|x|) / (1 + e^(-2|x|))^2, without overflow."""
-    e = np.exp(-2.0 * np.abs(x))
+    e = np.square(np.exp(-np.abs(x)))
     return 4.0 * e / (1.0 + e) ** 2
 
 
@@ -263,8 +263,8 @@ class Ramp(Law):
         f = np.clip(t - self.t0, 0.0, self.D) / self.D  # the sharp ramp, 0..1
         if self.sigma > 0.0:
             a, b = (t - self.t0) / self.sigma, (t - self.t1) / self.sigma
-            phi_a = np.log1p(np.exp(-2.0 * np.abs(a)))
-            phi_b = np.log1p(np.exp(-2.0 * np.abs(b)))
+            phi_a = np.log1p(np.square(np.exp(-np.abs(a))))
+            phi_b = np.log1p(np.square(np.exp(-np.abs(b))))
             f = f + self.sigma / (2.0 * self.D) * (phi_a - phi_b)
         return self.q0 * (1.0 - f) + self.q1 * f
 
@@ -273,7 +273,8 @@ class Ramp(Law):
         if self.sigma > 0.0:
             a, b = (t - self.t0) / self.sigma, (t - self.t1) / self.sigma
             return dq * (np.tanh(a) - np.tanh(b)) / (2.0 * self.D)
-        return np.where((t >= self.t0) & (t < self.t1), dq / self.D, 0.0)
+        u = t - self.t0  # the same test as the clip in _value, so value and rate agree at the corners
+        return np.where((u >= 0.0) & (u < self.D), dq / self.D, 0.0)
 
     def _accel(self, t):
         if self.sigma > 0.0:
