@@ -30,7 +30,10 @@ class UsageError(Exception):
 
 
 def _load(args):
-    return load_scenario(args.scenario, overrides=getattr(args, "set", None) or None)
+    sc = load_scenario(args.scenario, overrides=getattr(args, "set", None) or None)
+    for line in sc.warnings:       # e.g. a gust beyond the attached-flow range
+        print(line, file=sys.stderr)
+    return sc
 
 
 def _add_run(p):

@@ -159,6 +159,8 @@ class Scenario:
     # the input as given (after --set overrides, before defaults were filled):
     # sweeps re-resolve each case from it so derived defaults (dt, density) follow
     raw: dict = field(default=None, compare=False, repr=False)
+    #: ``warning: <file>: <key>: <message>`` lines from the checks (the run goes ahead).
+    warnings: tuple = field(default=(), compare=False)
 
     # -- plain values
     @property
@@ -326,7 +328,8 @@ def load_scenario(source, overrides=None, *, source_name=None, base_dir=None, so
     data, errors = resolve(raw, base, stem)
     if errors:
         raise ScenarioError([Problem(name, e.key, e.message) for e in errors])
-    return Scenario(data=data, source=name, base_dir=base, raw=copy.deepcopy(raw))
+    warnings = tuple(f"warning: {name}: {w.key}: {w.message}" for w in data.pop("_warnings", ()))
+    return Scenario(data=data, source=name, base_dir=base, raw=copy.deepcopy(raw), warnings=warnings)
 
 
 def resolve(raw, base_dir, stem="scenario"):
@@ -464,9 +467,12 @@ def resolve(raw, base_dir, stem="scenario"):
     # registered sections
     ctx = dict(out)
     ctx["_base_dir"] = base_dir
+    ctx["_warnings"] = []          # checkers append InputError(key, message) for warnings
     for name, checker in _SECTIONS.items():
         if name in raw:
             value, errs = checker(raw[name], ctx)
             errors += errs
             out[name] = value
+    if ctx["_warnings"]:
+        out["_warnings"] = ctx["_warnings"]
     return out, errors
