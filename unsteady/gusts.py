@@ -511,15 +511,21 @@ class GustObserver:
         self.pivot = sc.pivot
         self.U = sc.speed
         self.profiles = [g["profile"] for g in _gust_list(sc.data["gust"])]
+        self.rows = {k: [] for k in self.columns}
 
     def on_step(self, s):
         x_le = -self.pivot * self.chord * math.cos(s.alpha)
         u, w = self.gust.velocity(np.array([x_le]), np.array([s.h]), s.t)
         u, w = float(u[0]), float(w[0])
-        s.extra["w_gust"] = w
-        s.extra["u_gust"] = u
-        s.extra["alpha_eff_deg"] = math.degrees(
-            s.alpha + math.atan2(w - s.h_dot, self.U + u))
+        self.rows["w_gust"].append(w)
+        self.rows["u_gust"].append(u)
+        self.rows["alpha_eff_deg"].append(math.degrees(s.alpha + math.atan2(w - s.h_dot, self.U + u)))
+
+    def finish(self, history):
+        """Fill the columns of the recorded rows."""
+        n = len(history["t"])
+        for k, v in self.rows.items():
+            history[k] = np.asarray(v[:n], dtype=float)
 
     def summary(self, history):
         out = {"gust_profiles": self.profiles}
