@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from unsteady.errors import InputError
-from unsteady.motion import LAWS, Kinematics, Law, SumLaw, build_law, law_problems, logcosh
+from unsteady.motion import LAWS, Kinematics, Law, SumLaw, build_law, law_problems, logcosh, register_law
 
 DEG = math.pi / 180.0
 
@@ -165,6 +165,41 @@ def test_resolved_fills_defaults():
     assert law.resolved() == {"law": "ramp", "from": 0, "to": 10, "start": 0, "duration": 1, "smoothing": 0.0}
     sine = build_law({"law": "sine", "amplitude": 1, "frequency": 2})
     assert sine.resolved() == {"law": "sine", "amplitude": 1, "frequency": 2, "mean": 0.0, "phase": 0.0}
+
+
+def test_a_new_law_following_the_documented_contract_plugs_in():
+    @register_law("cubic-for-test")
+    class Cubic(Law):
+        """q = c t^3 (a law of our own, only for this test)."""
+
+        KEYS = ("c",)
+        OPTIONAL = {"t0": 0.0}
+        SCALED = ("c",)
+
+        @classmethod
+        def check(cls, spec):
+            if spec["c"] == 0:
+                raise InputError("c", "must not be 0")
+
+        def _value(self, t):
+            return self.scaled["c"] * (t - self.spec["t0"]) ** 3
+
+        def _rate(self, t):
+            return 3 * self.scaled["c"] * (t - self.spec["t0"]) ** 2
+
+        def _accel(self, t):
+            return 6 * self.scaled["c"] * (t - self.spec["t0"])
+
+    try:
+        law = build_law({"law": "cubic-for-test", "c": 2.0}, scale=0.5)
+        assert law.value(2.0) == 8.0 and law.resolved() == {"law": "cubic-for-test", "c": 2.0, "t0": 0.0}
+        assert_derivatives(law, np.linspace(-1, 1, 21), h=1e-4)
+        assert [e.key for e in law_problems({"law": "cubic-for-test", "c": "two", "t00": 1})] == ["c", "t00"]
+        assert law_problems({"law": "cubic-for-test", "c": 0})[0].message == "must not be 0"
+        with pytest.raises(ValueError):
+            register_law("cubic-for-test")(Cubic)  # one class per name
+    finally:
+        LAWS.pop("cubic-for-test", None)
 
 
 # --- tables ------------------------------------------------------------------------------------

@@ -88,7 +88,8 @@ class Law:
        of ``None`` means "absent unless given".
     4. ``TEXT``: keys holding text (every other key holds a number), and
        ``SCALED``: keys holding the moved quantity itself (degrees of pitch,
-       metres of plunge), which the law multiplies by ``context.scale``.
+       metres of plunge); the base multiplies them by ``context.scale`` into
+       ``self.scaled[key]``.  Times, frequencies and phases are not scaled.
     5. ``check(spec)`` (classmethod): the rules between values (a duration
        above zero, exactly one of two keys, ...).  It is called with the
        defaults filled in and after the base has checked that required keys
@@ -115,6 +116,8 @@ class Law:
         self.spec = dict(spec)
         self.context = context
         self.scale = float(context.scale)
+        self.scaled = {key: self.scale * float(self.spec[key]) for key in self.SCALED
+                       if self.spec.get(key) is not None}
 
     @classmethod
     def check(cls, spec: Mapping) -> None:
@@ -147,9 +150,6 @@ class Law:
         out.update({k: v for k, v in self.spec.items() if v is not None})
         return out
 
-    def _scaled(self, key):
-        return self.scale * float(self.spec[key])
-
     def _value(self, t):
         raise NotImplementedError
 
@@ -171,7 +171,7 @@ class Constant(Law):
     SCALED = ("value",)
 
     def _value(self, t):
-        return np.full_like(t, self._scaled("value"))
+        return np.full_like(t, self.scaled["value"])
 
     def _rate(self, t):
         return np.zeros_like(t)
@@ -194,7 +194,7 @@ class Step(Law):
     SCALED = ("value",)
 
     def _value(self, t):
-        return np.where(t >= float(self.spec["time"]), self._scaled("value"), 0.0)
+        return np.where(t >= float(self.spec["time"]), self.scaled["value"], 0.0)
 
     def _rate(self, t):
         return np.zeros_like(t)
@@ -253,7 +253,7 @@ class Ramp(Law):
 
     def __init__(self, spec, context=LawContext()):
         super().__init__(spec, context)
-        self.q0, self.q1 = self._scaled("from"), self._scaled("to")
+        self.q0, self.q1 = self.scaled["from"], self.scaled["to"]
         self.t0 = float(self.spec["start"])
         self.D = float(self.spec["duration"])
         self.t1 = self.t0 + self.D
@@ -318,8 +318,8 @@ class Sine(Law):
                 raise InputError("reduced_frequency", "needs a valid flow speed and airfoil chord (omega = 2 U k / c); "
                                                       "or give frequency in Hz")
             self.omega = 2.0 * float(U) * float(self.spec["reduced_frequency"]) / float(c)
-        self.A = self._scaled("amplitude")
-        self.q_mean = self._scaled("mean")
+        self.A = self.scaled["amplitude"]
+        self.q_mean = self.scaled["mean"]
         self.phi = math.radians(float(self.spec["phase"]))
 
     def _value(self, t):
