@@ -137,13 +137,36 @@ CORE_SECTIONS = ("title", "flow", "airfoil", "motion", "run", "output")
 RUN_MODELS = ["vortex"]   # the linear companion model registers itself here
 
 
-def default_dt(chord, speed, panels):
-    """Default time step: the air travels one mean element length, U dt = c / N.
+STEPS_PER_PERIOD = 120
 
-    With the shed vortex at 0.3 of the last step's travel this reproduces the
-    Wagner function within 0.2 % from 20 to 160 elements (tests/validation).
+
+def default_dt(chord, speed, panels, frequency=0.0):
+    """Default time step (s).
+
+    The air travels one mean element length per step, U dt = c / N; with the
+    shed vortex at 0.3 of the last step's travel this reproduces the Wagner
+    function within 0.2 % from 20 to 160 elements (tests/validation).  A
+    faster sinusoidal motion also gets at least 120 steps per period
+    (common practice; Theodorsen's lift at k = 2 is then within 1 %).
     """
-    return chord / (speed * panels)
+    dt = chord / (speed * panels)
+    if frequency > 0.0:
+        dt = min(dt, 1.0 / (STEPS_PER_PERIOD * frequency))
+    return dt
+
+
+def fastest_frequency(spec, speed, chord):
+    """Highest frequency (Hz) of the sine laws in a motion-law spec (or list)."""
+    if isinstance(spec, list):
+        return max([fastest_frequency(s, speed, chord) for s in spec] + [0.0])
+    if not isinstance(spec, dict) or spec.get("law") != "sine":
+        return 0.0
+    if _is_number(spec.get("frequency")):
+        return abs(float(spec["frequency"]))
+    k = spec.get("reduced_frequency")
+    if _is_number(k) and speed and chord:
+        return abs(float(k)) * speed / (math.pi * chord)   # omega = 2 U k / c
+    return 0.0
 
 
 # --------------------------------------------------------------------------
@@ -435,7 +458,8 @@ def resolve(raw, base_dir, stem="scenario"):
     if "dt" in ru:
         run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
     elif speed and chord and panels:
-        run["dt"] = default_dt(chord, speed, panels)
+        f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge"))
+        run["dt"] = default_dt(chord, speed, panels, f_max)
     run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
     run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
     run["model"] = grab(choice, "run.model", ru.get("model", "vortex"), RUN_MODELS)

@@ -27,7 +27,7 @@ class PrescribedMotion:
 def build_body(sc: Scenario) -> Body:
     """The rigid camber line of the scenario, in metres about the pivot."""
     p = camber_panels(sc.section, sc.panels)
-    return Body.from_nodes(p.x_nodes, p.z_nodes, sc.chord, sc.pivot)
+    return Body.from_section(sc.section, sc.panels, sc.chord, sc.pivot, x_nodes=p.x_nodes)
 
 
 def snapshot_interval(sc: Scenario) -> int:

@@ -34,6 +34,7 @@ thick panels can be added as further stages.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass, field
 
@@ -63,6 +64,10 @@ class Body:
     ``t_xi, t_zeta`` (towards the trailing edge), lengths ``ds`` and the
     element start nodes ``xi_0, zeta_0``; ``xi_te, zeta_te`` is the trailing
     edge.  ``xi_ref, zeta_ref`` is the quarter-chord point (moment reference).
+    ``nc_xi, nc_zeta`` are the unit normals of the camber line itself at the
+    collocation points (the no-penetration condition uses these: with the
+    chord of a curved element instead, the error is first order in the
+    element length).
     """
 
     xi_v: np.ndarray
@@ -81,6 +86,39 @@ class Body:
     xi_ref: float
     zeta_ref: float
     chord: float
+    nc_xi: np.ndarray = None
+    nc_zeta: np.ndarray = None
+
+    @classmethod
+    def from_section(cls, section, n, chord, pivot, x_nodes=None):
+        """Build from a camber-line section (``camber(x)``, ``slope(x)``).
+
+        Nodes at cosine spacing (or ``x_nodes``, chord fractions); vortex and
+        collocation points sit on the camber line at a quarter and three
+        quarters of each element's chordwise extent, and the collocation
+        normals follow the exact camber slope there.
+        """
+        if x_nodes is None:
+            x_nodes = 0.5 * (1.0 - np.cos(np.pi * np.arange(n + 1) / n))
+        xn = np.asarray(x_nodes, float)
+        zn = np.asarray(section.camber(xn), float)
+        body = cls.from_nodes(xn, zn, chord, pivot)
+        dx = np.diff(xn)
+        xv = xn[:-1] + 0.25 * dx
+        xc = xn[:-1] + 0.75 * dx
+        slope_c = np.asarray(section.slope(xc), float)
+        norm = np.sqrt(1.0 + slope_c ** 2)
+        z_ref = float(section.camber(np.array([0.25]))[0]) * chord
+        return dataclasses.replace(
+            body,
+            xi_v=(xv - pivot) * chord, zeta_v=np.asarray(section.camber(xv), float) * chord,
+            xi_c=(xc - pivot) * chord, zeta_c=np.asarray(section.camber(xc), float) * chord,
+            nc_xi=-slope_c / norm, nc_zeta=1.0 / norm, zeta_ref=z_ref)
+
+    def __post_init__(self):
+        if self.nc_xi is None:
+            object.__setattr__(self, "nc_xi", self.n_xi)
+            object.__setattr__(self, "nc_zeta", self.n_zeta)
 
     @classmethod
     def from_nodes(cls, x_nodes, z_nodes, chord, pivot):
@@ -211,7 +249,7 @@ class VortexSolver:
         # Influence matrix of the bound vortices on the collocation points in
         # body coordinates (invariant under rigid motion): factor once.
         a = np.empty((N, N))
-        normal_influence(body.xi_c, body.zeta_c, body.n_xi, body.n_zeta,
+        normal_influence(body.xi_c, body.zeta_c, body.nc_xi, body.nc_zeta,
                          body.xi_v, body.zeta_v, 0.0, a)
         self.A_inv = np.linalg.inv(a)
         # c = A^-T 1 gives the bound-circulation sum of A^-1 rhs as c . rhs.
@@ -258,7 +296,7 @@ class VortexSolver:
                 # -- place the body
                 xv, zv = to_inertial(body.xi_v, body.zeta_v, alpha, h)
                 xc, zc = to_inertial(body.xi_c, body.zeta_c, alpha, h)
-                nx, nz = rotate(body.n_xi, body.n_zeta, alpha)
+                nx, nz = rotate(body.nc_xi, body.nc_zeta, alpha)
                 x_te, z_te = to_inertial(body.xi_te, body.zeta_te, alpha, h)
                 # -- velocities of air (freestream, gust, existing wake) at the
                 #    collocation and vortex points
