@@ -525,13 +525,9 @@ def simulate_linear(sc, observers=(), progress=False):
                            extra=summary_extra)
     summary.update(model="linear", dt=dt, start=start, panels=sc.panels,
                    chords_travelled=float(history["t_star"][-1] - history["t_star"][0]))
-    try:
-        from .lag import add_quasi_steady, lag_summary
-    except ImportError:
-        pass
-    else:
-        add_quasi_steady(history, sc)
-        summary["lag"] = lag_summary(history, sc)
+    from .lag import add_quasi_steady, lag_summary
+    add_quasi_steady(history, sc)
+    summary["lag"] = lag_summary(history, sc)
     return Result(history, summary, snapshots, sc)
 
 

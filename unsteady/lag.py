@@ -1,0 +1,286 @@
+"""Quasi-steady reference lift, lag metrics and the attached-flow validity flag of a run."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+__all__ = [
+    "ALPHA_EFF_LIMIT_DEG",
+    "PITCH_RATE_LIMIT",
+    "effective_alpha",
+    "add_quasi_steady",
+    "crossing_time",
+    "lag_summary",
+    "validity",
+    "harmonic",
+]
+
+#: Effective angle (deg) beyond which attached, inviscid results stop being
+#: trustworthy: thin sections stall near 10-15 degrees at the Reynolds numbers
+#: of small drones (common practice; see docs of the references table).
+ALPHA_EFF_LIMIT_DEG = 12.0
+
+#: Reduced pitch rate alpha_dot c / (2 U) beyond which a leading-edge vortex
+#: forms early in a pitch-up and the attached-flow lift is no longer a good
+#: guide (rounded value of common practice, stated from memory).
+PITCH_RATE_LIMIT = 0.05
+
+
+def effective_alpha(history, sc):
+    """Effective angle of attack at the three-quarter chord, rad.
+
+    alpha_eff = alpha - h'/U + b (1/2 - a) alpha'/U + w_g(x_3/4)/U, with h
+    up, b = c/2, a = 2 pivot - 1 (the downwash at the three-quarter chord of
+    T. Theodorsen, NACA Report 496, 1935, and of thin-airfoil theory, Abbott &
+    von Doenhoff, Theory of Wing Sections, 1959, ch. 4), plus a vertical gust
+    evaluated at the three-quarter chord.
+
+    Parameters
+    ----------
+    history : dict of ndarray
+        Needs t, alpha_deg, alpha_dot_deg_s, h, h_dot.
+    sc : Scenario
+
+    Returns
+    -------
+    numpy.ndarray
+    """
+    U, c, pv = sc.speed, sc.chord, sc.pivot
+    b, a = 0.5 * c, 2.0 * pv - 1.0
+    alpha = np.radians(history["alpha_deg"])
+    alpha_dot = np.radians(history["alpha_dot_deg_s"])
+    out = alpha - history["h_dot"] / U + b * (0.5 - a) * alpha_dot / U
+    if sc.data.get("gust"):
+        from .gusts import build_gust_field
+        field = build_gust_field(sc)
+        x34 = (0.75 - pv) * c
+        w = np.array([field.velocity(np.array([x34]), np.array([hn]), float(tn))[1][0]
+                      for tn, hn in zip(history["t"], history["h"])])
+        out = out + w / U
+    return out
+
+
+def add_quasi_steady(history, sc):
+    """Add the columns ``alpha_eff_deg`` and ``cl_quasi_steady`` to a history (in place).
+
+    cl_qs = 2 pi (alpha_eff - alpha_L0): the steady thin-airfoil lift at the
+    instantaneous effective angle (Abbott & von Doenhoff, Theory of Wing
+    Sections, 1959, ch. 4), alpha_L0 the section's zero-lift angle.
+    """
+    from .linear import section_constants
+    alpha_L0, _cm0 = section_constants(sc.section)
+    ae = effective_alpha(history, sc)
+    history["alpha_eff_deg"] = np.degrees(ae)
+    history["cl_quasi_steady"] = 2.0 * np.pi * (ae - alpha_L0)
+    return history
+
+
+def crossing_time(t, y, y0, y1, fraction):
+    """Time from which y stays beyond ``fraction`` of its change y0 -> y1.
+
+    The last sample still short of y0 + fraction (y1 - y0) is found, and the
+    crossing is interpolated linearly to the next sample; an early overshoot
+    (an apparent-mass spike) that falls back does not count.
+
+    Returns
+    -------
+    float
+        The time, or nan when y is never beyond for good or the change is 0.
+    """
+    dy = y1 - y0
+    if not np.isfinite(dy) or dy == 0.0:
+        return math.nan
+    f = (np.asarray(y, dtype=float) - y0) / dy
+    short = np.nonzero(~(f >= fraction))[0]
+    if short.size == 0:
+        return float(t[0])
+    i = int(short[-1])
+    if i == len(f) - 1:
+        return math.nan
+    f0, f1 = f[i], f[i + 1]
+    w = (fraction - f0) / (f1 - f0) if np.isfinite(f0) and f1 != f0 else 1.0
+    return float(t[i] + w * (t[i + 1] - t[i]))
+
+
+def harmonic(t, y, omega):
+    """First-harmonic complex amplitude of y at omega (y ~ Re[Y e^{i omega t}]) over the samples given."""
+    t = np.asarray(t, dtype=float)
+    y = np.asarray(y, dtype=float)
+    return 2.0 * np.mean(y * np.exp(-1j * omega * t))
+
+
+def _laws(spec):
+    if isinstance(spec, dict):
+        return [spec]
+    return list(spec or [])
+
+
+def _motion_kind(sc):
+    """("periodic", omega) for a sine law, ("transient", t_begin) for a ramp or step, else (None, None)."""
+    mo = sc.data.get("motion", {})
+    U, c = sc.speed, sc.chord
+    for q in ("pitch", "plunge"):
+        for law in _laws(mo.get(q)):
+            if law.get("law") == "sine":
+                if "frequency" in law:
+                    return "periodic", 2.0 * math.pi * float(law["frequency"])
+                return "periodic", 2.0 * U * float(law["reduced_frequency"]) / c
+    begins = []
+    for q in ("pitch", "plunge"):
+        for law in _laws(mo.get(q)):
+            if law.get("law") == "ramp":
+                begins.append(float(law.get("start", 0.0)))
+            elif law.get("law") == "step":
+                begins.append(float(law.get("time", 0.0)))
+    if begins:
+        return "transient", min(begins)
+    return None, None
+
+
+def validity(alpha_eff_deg, pitch_rate_reduced):
+    """Attached-flow validity flag.
+
+    Parameters
+    ----------
+    alpha_eff_deg : array_like
+        Effective angle history, degrees.
+    pitch_rate_reduced : array_like
+        alpha_dot c / (2 U) history.
+
+    Returns
+    -------
+    dict
+        ``attached_flow_ok`` (bool), ``reasons`` (list of text), and the
+        thresholds used with their basis.
+    """
+    a_max = float(np.nanmax(np.abs(alpha_eff_deg))) if np.size(alpha_eff_deg) else 0.0
+    k_max = float(np.nanmax(np.abs(pitch_rate_reduced))) if np.size(pitch_rate_reduced) else 0.0
+    reasons = []
+    if a_max > ALPHA_EFF_LIMIT_DEG:
+        reasons.append(f"effective angle reaches {a_max:.1f} deg, beyond {ALPHA_EFF_LIMIT_DEG:g} deg: "
+                       "a real section would separate or stall there")
+    if k_max > PITCH_RATE_LIMIT:
+        reasons.append(f"reduced pitch rate reaches {k_max:.3f}, beyond {PITCH_RATE_LIMIT:g}: "
+                       "a leading-edge vortex would change the lift")
+    return {"attached_flow_ok": not reasons, "reasons": reasons,
+            "alpha_eff_limit_deg": ALPHA_EFF_LIMIT_DEG, "pitch_rate_limit": PITCH_RATE_LIMIT,
+            "basis": "common practice: thin sections stall near 10-15 deg at small-drone "
+                     "Reynolds numbers; the pitch-rate limit is a rounded value from memory"}
+
+
+def lag_summary(history, sc):
+    """The ``lag`` block of summary.json.
+
+    Always: ``peak_pitch_rate`` (max |alpha_dot| c / 2U), ``peak_effective_alpha_deg``
+    (the effective angle of largest magnitude, signed) and ``validity``.
+    Ramps and steps (from the change's start): ``t50``, ``t90`` (s after the
+    change begins from which cl stays beyond 50 % / 90 % of its final change),
+    ``t50_qs``, ``t90_qs`` (the same for the quasi-steady cl), ``delay90`` =
+    t90 - t90_qs and ``delay90_chords`` = delay90 U / c. The final change is
+    that of the quasi-steady cl (the settled value after the motion stops).
+    Periodic motion (over the whole periods of the run's second half):
+    ``amplitude_ratio`` and ``phase_lag_deg`` (positive when cl trails) of the
+    cl first harmonic against the quasi-steady cl's, and ``loop_area`` (the
+    area of the cl-pitch loop per cycle, cl x degrees; positive when the loop
+    runs counter-clockwise).
+    """
+    if "cl_quasi_steady" not in history:
+        add_quasi_steady(history, sc)
+    t = history["t"]
+    cl, qs = history["cl"], history["cl_quasi_steady"]
+    U, c = sc.speed, sc.chord
+    rate = np.radians(history["alpha_dot_deg_s"]) * c / (2.0 * U)
+    ae = history["alpha_eff_deg"]
+    out = {}
+    if len(t):
+        out["peak_pitch_rate"] = float(np.nanmax(np.abs(rate)))
+        j = int(np.nanargmax(np.abs(ae)))
+        out["peak_effective_alpha_deg"] = float(ae[j])
+    out["validity"] = validity(ae, rate)
+    kind, par = _motion_kind(sc)
+    out["motion"] = kind or "other"
+    if kind == "transient" and len(t) > 1:
+        t_begin = par
+        # the last sample before the change (a step's value at its own time is the new one)
+        eps = 1e-9 * (t[1] - t[0])
+        i0 = max(int(np.searchsorted(t, t_begin - eps, side="left")) - 1, 0)
+        sel = slice(i0, None)
+        y0, y1 = cl[i0], qs[-1]
+        q0 = qs[i0]
+        for name, y, base in (("", cl, y0), ("_qs", qs, q0)):
+            for pct in (50, 90):
+                tc = crossing_time(t[sel], y[sel], base, y1, pct / 100.0)
+                # interpolation inside the sampled step may land a hair before it
+                out[f"t{pct}{name}"] = max(tc - t_begin, 0.0) if np.isfinite(tc) else None
+        if out["t90"] is not None and out["t90_qs"] is not None:
+            out["delay90"] = out["t90"] - out["t90_qs"]
+            out["delay90_chords"] = out["delay90"] * U / c
+        else:
+            out["delay90"] = out["delay90_chords"] = None
+        out["t_begin"] = t_begin
+    elif kind == "periodic" and len(t) > 1:
+        omega = par
+        T = 2.0 * math.pi / omega
+        periods = int((t[-1] - t[0]) / 2.0 // T)
+        if periods >= 1:
+            t_end = t[-1]
+            sel = t > t_end - periods * T + 1e-12 * T
+            sel_idx = np.nonzero(sel)[0]
+            cl_hat = harmonic(t[sel], cl[sel], omega)
+            qs_hat = harmonic(t[sel], qs[sel], omega)
+            if abs(qs_hat) > 0:
+                out["amplitude_ratio"] = float(abs(cl_hat) / abs(qs_hat))
+                out["phase_lag_deg"] = float(-np.degrees(np.angle(cl_hat / qs_hat)))
+            a = history["alpha_deg"]
+            i = np.r_[sel_idx[0] - 1, sel_idx] if sel_idx[0] > 0 else sel_idx
+            # -oint cl d(alpha) is positive for a counter-clockwise loop
+            area = -np.sum(0.5 * (cl[i][1:] + cl[i][:-1]) * np.diff(a[i])) / periods
+            out["loop_area"] = float(area) if np.ptp(a[i]) > 0 else None
+            out["periods_used"] = periods
+        else:
+            out.update(amplitude_ratio=None, phase_lag_deg=None, loop_area=None)
+    return out
+
+
+def plot_lag(result, out_dir):
+    """lag.png: cl against the quasi-steady cl and the effective angle, with the validity flag."""
+    h = result.history
+    if "cl_quasi_steady" not in h or len(h["t"]) < 2:
+        return
+    from .plots import _save, plt
+    lag = result.summary.get("lag", {})
+    val = lag.get("validity", {})
+    fig, (ax1, ax2) = plt.subplots(2, 1, figsize=(8, 5.2), sharex=True)
+    t = h["t"]
+    ax1.plot(t, h["cl"], color="#23395b", lw=1.4, label=f"cl ({result.summary.get('model', 'run')})")
+    ax1.plot(t, h["cl_quasi_steady"], color="#c0392b", lw=1.0, ls="--", label="quasi-steady cl")
+    ax1.set_ylabel("lift coefficient cl", fontsize=8)
+    ax1.legend(fontsize=8, loc="best")
+    ax1.grid(alpha=0.3)
+    ax2.plot(t, h["alpha_eff_deg"], color="#2e7d32", lw=1.2, label="effective angle (3/4 chord)")
+    lim = val.get("alpha_eff_limit_deg", ALPHA_EFF_LIMIT_DEG)
+    ax2.axhspan(lim, max(lim, float(np.nanmax(h["alpha_eff_deg"]))) + 1.0, color="#f4c27a", alpha=0.4,
+                label=f"beyond {lim:g} deg: separation likely")
+    ax2.axhspan(min(-lim, float(np.nanmin(h["alpha_eff_deg"]))) - 1.0, -lim, color="#f4c27a", alpha=0.4)
+    ax2.set_ylabel("effective angle (deg)", fontsize=8)
+    ax2.set_xlabel("time t (s)")
+    ax2.legend(fontsize=8, loc="best")
+    ax2.grid(alpha=0.3)
+    if val and not val.get("attached_flow_ok", True):
+        note = "OUTSIDE the attached-flow range: " + "; ".join(val.get("reasons", []))
+    else:
+        note = "within the attached-flow range of the model"
+    fig.suptitle("lift lag against the quasi-steady estimate\n" + note, fontsize=8)
+    fig.tight_layout()
+    _save(fig, out_dir / "lag.png")
+
+
+def _register_plot():
+    from . import plots
+    if plot_lag not in plots.EXTRA_PLOTS:
+        plots.EXTRA_PLOTS.append(plot_lag)
+
+
+_register_plot()
