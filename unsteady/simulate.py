@@ -110,4 +110,7 @@ def simulate(scenario, observers=(), *, progress=False):
                    panels=sc.panels, chords_travelled=float(history["t_star"][-1] - history["t_star"][0]) if len(history["t"]) else 0.0)
     if error:
         summary["error"] = error
+    from .lag import add_quasi_steady, lag_summary  # quasi-steady column, lag metrics, validity flag
+    add_quasi_steady(history, sc)
+    summary["lag"] = lag_summary(history, sc)
     return Result(history, summary, snapshots, sc, error=error)
