@@ -291,10 +291,22 @@ def case_raw(base, overrides):
     return raw
 
 
+# sections of a scenario that cannot change a case's numbers (left out of its key,
+# so that moving or renaming the sweep keeps what it has done)
+NOT_HASHED = ("title", "output")
+
+
 def case_key(sc):
-    """Hash of a fully resolved case scenario and the package version (the resume key)."""
+    """Hash of a fully resolved case scenario and the package version (the resume key).
+
+    The scenario is hashed as ``Scenario.to_toml()`` writes it, less the
+    sections in ``NOT_HASHED``.
+    """
+    import tomli_w
+    from .scenario import _tomlable
+    data = {k: v for k, v in sc.data.items() if k not in NOT_HASHED}
     h = hashlib.sha256()
-    h.update(sc.to_toml().encode())
+    h.update(tomli_w.dumps(_tomlable(data)).encode())
     h.update(b"\0unsteady " + __version__.encode())
     return h.hexdigest()[:16]
 
