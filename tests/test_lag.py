@@ -1,0 +1,89 @@
+"""Quasi-steady reference, lag metrics and validity flag (unsteady.lag)."""
+
+import math
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+
+from unsteady import lag, load_scenario, theory
+from unsteady.simulate import simulate
+
+
+def _sc(pitch, model="linear", chords=30.0, shape="flat", panels=40, plunge=None, **run):
+    motion = {"pivot": 0.25, "pitch": pitch}
+    if plunge is not None:
+        motion["plunge"] = plunge
+    return load_scenario({"flow": {"speed": 18.0, "density": 1.2},
+                          "airfoil": {"shape": shape, "chord": 0.2, "panels": panels},
+                          "motion": motion,
+                          "run": {"chords": chords, "model": model, **run}})
+
+
+def test_step_lag_equals_wagner():
+    # H. Wagner, ZAMM 5 (1925): after a step, cl / cl_final = phi(s), so t50 = 0
+    # (phi(0) = 1/2) and t90 = s90 c / (2U) with phi(s90) = 0.9; the
+    # quasi-steady cl jumps at once (t50_qs = t90_qs = 0).
+    sc = _sc({"law": "step", "value": 3.0, "time": 0.01})
+    res = simulate(sc)
+    L = res.summary["lag"]
+    s90 = brentq(lambda s: theory.wagner(s) - 0.9, 0.1, 100.0)
+    t90 = s90 * sc.chord / (2 * sc.speed)
+    # one time step of slack: the sampled step rises over one interval
+    assert L["t90"] == pytest.approx(t90, abs=sc.dt)
+    assert L["t50"] == pytest.approx(0.0, abs=sc.dt)
+    assert L["t90_qs"] == pytest.approx(0.0, abs=sc.dt)
+    assert L["delay90"] == pytest.approx(L["t90"] - L["t90_qs"])
+    assert L["delay90_chords"] == pytest.approx(L["delay90"] * sc.speed / sc.chord)
+    assert L["validity"]["attached_flow_ok"]
+
+
+def test_quasi_steady_column_is_thin_airfoil_lift():
+    # Abbott & von Doenhoff (1959) ch. 4: cl = 2 pi (alpha - alpha_L0); with a
+    # constant pitch rate about the quarter chord the 3/4-chord angle adds
+    # b (1/2 - a) alpha_dot / U = c alpha_dot / (2U) (Theodorsen, NACA Report 496).
+    sc = _sc({"law": "ramp", "from": 0.0, "to": 4.0, "start": 0.01, "duration": 0.02},
+             shape="naca2412", chords=5)
+    res = simulate(sc)
+    h = res.history
+    a_L0 = theory.zero_lift_angle(sc.section.slope, breaks=(0.4,))
+    alpha = np.radians(h["alpha_deg"])
+    ad = np.radians(h["alpha_dot_deg_s"])
+    expect = 2 * np.pi * (alpha + sc.chord * ad / (2 * sc.speed) - a_L0)
+    assert np.allclose(h["cl_quasi_steady"], expect, atol=1e-9)
+    assert np.allclose(h["alpha_eff_deg"], np.degrees(expect / (2 * np.pi) + a_L0))
+    assert res.summary["lag"]["peak_pitch_rate"] == pytest.approx(
+        np.max(np.abs(ad)) * sc.chord / (2 * sc.speed))
+
+
+def test_periodic_metrics_match_theodorsen():
+    # Pure pitch about the quarter chord at k: the quasi-steady cl is
+    # 2 pi (1 + i k) alpha_hat, the model's cl Theodorsen's (NACA Report 496),
+    # so amplitude ratio and phase lag follow from theory.theodorsen_loads.
+    k = 0.3
+    sc = _sc({"law": "sine", "amplitude": 2.0, "reduced_frequency": k}, chords=60)
+    L = simulate(sc).summary["lag"]
+    a_hat = np.radians(2.0) * (-1j)          # sin(omega t) = Re[-i e^{i omega t}]
+    cl_ref, _ = theory.theodorsen_loads(k, a_hat, 0.0, 0.25)
+    qs_ref = 2 * np.pi * (1 + 1j * k) * a_hat
+    assert L["amplitude_ratio"] == pytest.approx(abs(cl_ref) / abs(qs_ref), rel=0.005)
+    assert L["phase_lag_deg"] == pytest.approx(-np.degrees(np.angle(cl_ref / qs_ref)), abs=0.5)
+    # loop area = pi |cl_hat| |alpha_hat| sin(phase of cl behind alpha) (an ellipse; common practice)
+    phase = np.angle(cl_ref / a_hat)
+    area = -np.pi * abs(cl_ref) * 2.0 * np.sin(phase)
+    assert L["loop_area"] == pytest.approx(area, rel=0.02)
+
+
+def test_validity_flag_trips():
+    v = lag.validity([0.0, 20.0], [0.0, 0.01])
+    assert not v["attached_flow_ok"] and "effective angle" in v["reasons"][0]
+    v = lag.validity([0.0, 5.0], [0.0, 0.2])
+    assert not v["attached_flow_ok"] and "pitch rate" in v["reasons"][0]
+    assert lag.validity([1.0, 5.0], [0.0, 0.01])["attached_flow_ok"]
+
+
+def test_crossing_time_ignores_early_spike():
+    t = np.arange(6.0)
+    y = np.array([0.0, 2.0, 0.2, 0.6, 0.95, 1.0])   # spike then a slow rise
+    assert lag.crossing_time(t, y, 0.0, 1.0, 0.5) == pytest.approx(2.75)
+    assert math.isnan(lag.crossing_time(t, y, 0.0, 0.0, 0.5))
