@@ -240,14 +240,19 @@ class Scenario:
         return Path(self.data["output"]["dir"])
 
     def to_toml(self) -> str:
+        """The resolved scenario as TOML, loadable again (gives the same run)."""
         import tomli_w
-        return tomli_w.dumps(_tomlable(self.data))
+        data = copy.deepcopy(self.data)
+        if "chords" in data.get("run", {}):
+            data["run"].pop("duration", None)    # exactly one of the two may be given
+        return tomli_w.dumps(_tomlable(data))
 
     def with_overrides(self, overrides):
-        """A new scenario with ``key.path=value`` overrides applied and re-checked."""
-        raw = copy.deepcopy(self.data)
+        """A new scenario with ``key.path=value`` overrides applied to the input
+        as given (so derived defaults such as dt follow) and re-checked."""
+        raw = copy.deepcopy(self.raw if self.raw is not None else self.data)
         apply_overrides(raw, overrides)
-        return load_scenario(raw, source=self.source, base_dir=self.base_dir)
+        return load_scenario(raw, source_name=self.source, base_dir=self.base_dir)
 
 
 def _tomlable(d):
@@ -327,8 +332,6 @@ def load_scenario(source, overrides=None, *, source_name=None, base_dir=None, so
     ScenarioError
         With every problem found, one line each.
     """
-    if "source" in kw:          # used by with_overrides
-        source_name = kw.pop("source")
     if isinstance(source, dict):
         raw = copy.deepcopy(source)
         name = source_name or "<dict>"

@@ -1,0 +1,91 @@
+"""The command line: exit codes, one-line errors, nothing half-written."""
+
+import json
+import subprocess
+import sys
+
+import numpy as np
+import pytest
+
+from unsteady.cli import main
+
+GOOD = """
+title = "cli test"
+[flow]
+speed = 10.0
+density = 1.2
+[airfoil]
+shape = "flat"
+chord = 0.2
+panels = 12
+[motion]
+pitch = { law = "ramp", from = 0.0, to = 4.0, start = 0.005, duration = 0.02 }
+[run]
+chords = 3
+[output]
+plots = false
+"""
+
+
+def test_run_writes_run_directory(tmp_path, capsys):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    out = tmp_path / "out"
+    assert main(["run", str(f), "--out", str(out), "--quiet"]) == 0
+    names = {p.name for p in out.iterdir()}
+    assert {"history.csv", "summary.json", "scenario.toml", "snapshots.npz"} <= names
+    header = (out / "history.csv").read_text().splitlines()[0].split(",")
+    assert header[:7] == ["t", "t_star", "alpha_deg", "h", "cl", "cd", "cm"]
+    s = json.loads((out / "summary.json").read_text())
+    for k in ("cl_max", "cl_min", "t_cl_max", "cm_max", "cm_min", "steps", "wall_time_s", "version"):
+        assert k in s
+    assert not [p for p in tmp_path.iterdir() if p.name.startswith(".")]   # no temporaries left
+
+
+def test_set_override_and_check(tmp_path, capsys):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    assert main(["check", str(f), "--set", "airfoil.panels=20"]) == 0
+    assert "20 elements" in capsys.readouterr().out
+
+
+def test_bad_input_exit_2_one_line_nothing_written(tmp_path, capsys):
+    f = tmp_path / "bad.toml"
+    f.write_text(GOOD.replace("speed = 10.0", "speed = -10.0").replace("panels = 12", "panels = 2"))
+    out = tmp_path / "never"
+    assert main(["run", str(f), "--out", str(out)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 2 and all(line.startswith(f"error: {f}: ") for line in err)
+    assert not out.exists() and "Traceback" not in "".join(err)
+
+
+def test_missing_file_exit_2(tmp_path, capsys):
+    assert main(["run", str(tmp_path / "nope.toml")]) == 2
+    assert "no such file" in capsys.readouterr().err
+
+
+def test_bad_override_exit_2(tmp_path, capsys):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    assert main(["run", str(f), "--set", "airfoil.panel=30", "--out", str(tmp_path / "o")]) == 2
+    assert "did you mean 'panels'" in capsys.readouterr().err
+    assert not (tmp_path / "o").exists()
+
+
+def test_entry_point_runs_as_module(tmp_path):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    r = subprocess.run([sys.executable, "-m", "unsteady.cli", "check", str(f)], capture_output=True, text=True)
+    assert r.returncode == 0, r.stderr
+
+
+def test_rerun_replaces_directory_atomically(tmp_path):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    out = tmp_path / "out"
+    assert main(["run", str(f), "--out", str(out), "--quiet"]) == 0
+    (out / "stale.txt").write_text("old")
+    assert main(["run", str(f), "--out", str(out), "--quiet", "--set", "run.chords=2"]) == 0
+    assert not (out / "stale.txt").exists()
+    t = np.loadtxt(out / "history.csv", delimiter=",", skiprows=1)[:, 1]
+    assert t[-1] == pytest.approx(2.0, abs=0.1)
