@@ -122,3 +122,35 @@ def test_steady_camber_lift_and_moment():
     assert np.allclose(out["cl"], 2 * np.pi * (alpha - a_L0))
     assert np.allclose(out["cm"], cm0)
     assert np.allclose(out["cd"], 0.0, atol=1e-12)   # d'Alembert: no drag in steady flow
+
+
+def _ramp_runs(to_deg, wake):
+    from unsteady import load_scenario
+    from unsteady.simulate import simulate
+    runs = {}
+    for model in ("vortex", "linear"):
+        sc = load_scenario({"flow": {"speed": 10.0, "density": 1.2},
+                            "airfoil": {"shape": "flat", "chord": 0.2, "panels": 20},
+                            "motion": {"pivot": 0.25,
+                                       "pitch": {"law": "ramp", "from": 0.0, "to": to_deg, "start": 0.02,
+                                                 "duration": 0.06, "smoothing": 0.005}},
+                            "run": {"chords": 12, "model": model, "wake": wake}})
+        runs[model] = simulate(sc).history["cl"]
+    return np.max(np.abs(runs["vortex"] - runs["linear"])) / np.max(np.abs(runs["linear"]))
+
+
+def test_vortex_and_linear_agree_on_a_small_ramp():
+    # In the small-amplitude limit the discrete-vortex model must reduce to
+    # linear theory (Wagner 1925, Theodorsen 1935). Target (issue 5): within
+    # 1 % of the peak cl. Measured 0.46 % with 20 elements, frozen wake.
+    assert _ramp_runs(1.0, "frozen") < 0.01
+
+
+def test_vortex_departs_from_linear_on_a_large_ramp():
+    # A 30-degree pitch-up: the vortex model keeps the true geometry (lift
+    # normal to the stream, wake rolling up) where the linear model
+    # superposes small angles. Recorded departure, 20 elements, free wake:
+    # 4.57 % of the peak cl (the vortex model lower, 2.95 against 3.08 at the
+    # end). A change beyond +-0.5 points flags a regression in either model.
+    d = _ramp_runs(30.0, "free")
+    assert d == pytest.approx(0.0457, abs=0.005)
