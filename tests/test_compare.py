@@ -4,7 +4,7 @@ import pytest
 
 from unsteady import load_scenario
 from unsteady.cli import main
-from unsteady.simulate import simulate
+from unsteady.runner import simulate
 
 
 @pytest.fixture(scope="module")

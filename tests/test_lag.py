@@ -7,7 +7,7 @@ import pytest
 from scipy.optimize import brentq
 
 from unsteady import lag, load_scenario, theory
-from unsteady.simulate import simulate
+from unsteady.runner import simulate
 
 
 def _sc(pitch, model="linear", chords=30.0, shape="flat", panels=40, plunge=None, **run):

@@ -5,7 +5,7 @@ import pytest
 
 from unsteady import linear, load_scenario, models, theory
 from unsteady.observers import BASE_COLUMNS, EXTRA_COLUMNS
-from unsteady.simulate import simulate
+from unsteady.runner import simulate
 
 U, C = 12.0, 0.3
 

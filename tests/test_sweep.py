@@ -166,7 +166,7 @@ def test_case_key_follows_the_resolved_scenario_and_version(tmp_path, monkeypatc
 
 
 def test_a_raising_case_is_recorded_not_raised(tmp_path, monkeypatch):
-    import unsteady.simulate as sim
+    import unsteady.runner as sim
 
     def boom(sc, observers=(), progress=False):
         raise FloatingPointError("made to fail")

@@ -43,7 +43,7 @@ def scenario(chords, panels):
 
 def _warm():
     """Load the compiled kernels on a worker (a tiny case)."""
-    from unsteady.simulate import simulate
+    from unsteady.runner import simulate
     simulate({"flow": {"speed": 10.0, "density": 1.2}, "airfoil": {"chord": 0.2, "panels": 6},
               "run": {"chords": 2, "wake": "frozen"}})
     return True

@@ -7,9 +7,6 @@ from .results import Result  # noqa: E402,F401
 
 
 def simulate(scenario, observers=(), *, progress=False):
-    """Run a scenario (see :func:`unsteady.simulate.simulate`)."""
-    from .simulate import simulate as _simulate
-    # importing the submodule rebinds the package's name `simulate` to the
-    # module; put a function back so a second call works
-    globals()["simulate"] = _simulate
+    """Run a scenario (see :func:`unsteady.runner.simulate`)."""
+    from .runner import simulate as _simulate
     return _simulate(scenario, observers, progress=progress)

@@ -16,45 +16,17 @@ import matplotlib
 matplotlib.use("Agg")
 import numpy as np  # noqa: E402
 from matplotlib.backends.backend_agg import FigureCanvasAgg  # noqa: E402
-from matplotlib.colors import LinearSegmentedColormap, Normalize  # noqa: E402
+from matplotlib.colors import Normalize  # noqa: E402
 from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.lines import Line2D  # noqa: E402
 from matplotlib.patches import Polygon  # noqa: E402
 
 from . import fields  # noqa: E402
 from .cli import UsageError, command  # noqa: E402
+from .plots import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP  # noqa: E402
 
 __all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
            "FLOW_STYLES", "VIEWS", "TRACES"]
-
-# ---------------------------------------------------------------------------
-# The look (our own): warm paper, slate airfoil, teal for counter-clockwise
-# spin, brick for clockwise, violet / ochre for up / down gusts.
-LOOK = {
-    "paper": "#fbfaf6",
-    "ink": "#22252b",
-    "muted": "#7d828c",
-    "rule": "#dcd8cc",
-    "airfoil": "#3a4150",
-    "airfoil_edge": "#111318",
-    "ccw": "#16808f",
-    "cw": "#c4502f",
-    "trace": "#284b8c",
-    "marker": "#c4502f",
-    "gust_up": "#6b4a9b",
-    "gust_down": "#c98f12",
-    "path": "#9aa0aa",
-}
-
-SPIN_MAP = LinearSegmentedColormap.from_list(
-    "unsteady_spin", ["#7a2a16", LOOK["cw"], "#efd9cd", LOOK["paper"], "#cfe6e6", LOOK["ccw"], "#0b4550"])
-SPEED_MAP = LinearSegmentedColormap.from_list(
-    "unsteady_breeze", [LOOK["paper"], "#d7e3ea", "#8fb2cc", "#4a79a8", "#23406e", "#141d33"])
-# wake vortices: the colour says the sense of rotation (never fades into the paper), the shade the strength
-VORTEX_MAP = LinearSegmentedColormap.from_list(
-    "unsteady_spin_dots", [(0.0, "#6e2412"), (0.4999, "#e3866a"), (0.5001, "#63b7c0"), (1.0, "#0a4a55")])
-GUST_MAP = LinearSegmentedColormap.from_list(
-    "unsteady_updraft", [LOOK["gust_down"], "#f1e2bd", LOOK["paper"], "#ddd1ec", LOOK["gust_up"]])
 
 FLOW_STYLES = {
     "vortices": "wake vortices (teal: counter-clockwise, brick: clockwise; size: strength)",
@@ -75,8 +47,6 @@ TRACES = {
     "plunge": ("h", "plunge height h (m)"),
 }
 FORMATS = (".mp4", ".gif")
-CAUTION = ("Inviscid attached-flow model (no stall or separation): estimates only; design loads "
-           "follow the applicable airworthiness rules.")
 
 
 @dataclass(frozen=True)

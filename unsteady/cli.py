@@ -47,7 +47,7 @@ def _add_run(p):
 
 @command("run", "run a scenario and write its run directory")
 def cmd_run(args):
-    from .simulate import simulate
+    from .runner import simulate
     sc = _load(args)
     out = Path(args.out) if args.out else sc.out_dir()
     if out.exists() and not out.is_dir():

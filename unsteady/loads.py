@@ -86,13 +86,15 @@ class LoadHistory:
         b = self.body
         return (b.zeta_0 - zeta_r) * b.n_xi - (b.xi_0 - xi_r) * b.n_zeta
 
-    def retire(self, xs, zs, gs, gamma_sum):
-        """Wake vortices leave the computation for the far wake at infinity.
+    def retire(self, xs, zs, gs):
+        """Wake vortices leave the free wake for the far wake (moving with the air).
 
         Their share is taken out of the stored impulse sums as if they had
         always moved with the air at U (exact in the far wake), so the
-        backward differences stay smooth; the caller books ``gamma_sum``
-        with the starting vortex, whose impulse rate is U Gamma.
+        backward differences stay smooth; the caller adds their circulation
+        to ``gamma_start``, whose impulse rate is U Gamma: a vortex drifting
+        with the air adds nothing to the impulse rate in the air's frame,
+        wherever it is.
         """
         t_now = self.imp_hist[-1][0] + self.dt if self.imp_hist else 0.0
         hist = []

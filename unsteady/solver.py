@@ -218,11 +218,13 @@ class VortexSolver:
         (default 0.1 U dt: small, so that the newest vortex's pull on the
         trailing edge is not smeared; common practice).
     far_wake : float or None
-        Distance behind the trailing edge, in chords, beyond which wake
-        vortices are taken out of the computation and their circulation is
-        booked with the starting vortex at infinity (Kelvin's sum stays
-        exact; their pull on the airfoil, of order Gamma / (2 pi d), is
-        dropped).  None keeps the whole wake.
+        Distance behind the trailing edge, in chords, beyond which the wake
+        is coarsened: the oldest vortices are merged, one chord of wake at a
+        time, into single far-wake vortices (same total circulation, at the
+        circulation centroid, or the |Gamma|-weighted one when the signs
+        mix) that drift with the air at U and still act on the airfoil, but
+        no longer on the free wake or each other.  This bounds the cost per
+        step of long runs.  None keeps the whole wake free.
     t0 : float
         Time of the first row (s).
     """
@@ -286,6 +288,14 @@ class VortexSolver:
         gamma_prev_sum = 0.0
         te_prev = None
         gamma_start = 0.0              # starting vortex at infinity (steady start)
+        far_cap = 16
+        far_x = np.zeros(far_cap)      # far-wake lumps (see far_wake)
+        far_z = np.zeros(far_cap)
+        far_g = np.zeros(far_cap)
+        nf = 0
+        lump_n = max(1, int(round(body.chord / (U * dt))))
+        fu = np.empty(2 * N)
+        fw = np.empty(2 * N)
         for obs in observers:
             if hasattr(obs, "on_start"):
                 obs.on_start(self)
@@ -310,6 +320,10 @@ class VortexSolver:
                 else:
                     tu[:] = 0.0
                     tw[:] = 0.0
+                if nf > 0:
+                    induced_velocity(targ_x, targ_z, far_x[:nf], far_z[:nf], far_g[:nf], self.r_c, fu, fw)
+                    tu += fu
+                    tw += fw
                 tu += U
                 if self.gust is not None:
                     gu, gw = self.gust.velocity(targ_x, targ_z, t)
@@ -362,14 +376,17 @@ class VortexSolver:
                 uv -= alpha_dot * (zv - h)
                 wv -= h_dot - alpha_dot * xv
                 row = loads.add(n, t, alpha, h, gamma_b, uv, wv,
-                                src_x[:N + m], src_z[:N + m], src_g[:N + m], gamma_start)
+                                src_x[:N + m], src_z[:N + m], src_g[:N + m],
+                                gamma_start + float(far_g[:nf].sum()))
+                row["gamma_wake"] += float(far_g[:nf].sum())
                 if not (np.isfinite(gamma_b).all() and math.isfinite(row["cl"])):
                     raise SolverDiverged(n, t, _likely_cause(self, gamma_b, m))
                 state = StepState(n=n, t=t, alpha=alpha, alpha_dot=alpha_dot, h=h, h_dot=h_dot,
                                   gamma_bound=gamma_b, x_wake=src_x[N:N + m], z_wake=src_z[N:N + m],
                                   gamma_wake=src_g[N:N + m], x_body=xv, z_body=zv,
                                   loads=row, dcp=loads.dcp_last,
-                                  extra={"gamma_start": gamma_start, "x_te": x_te, "z_te": z_te})
+                                  extra={"gamma_start": gamma_start, "gamma_far": float(far_g[:nf].sum()),
+                                         "x_te": x_te, "z_te": z_te})
                 for obs in observers:
                     obs.on_step(state)
                 self.motion.after_step(t, dt, row)
@@ -405,23 +422,30 @@ class VortexSolver:
                         wx += dt * vel_u[:m]
                     prev_u[:m] = vel_u[:m]
                     prev_w[:m] = vel_w[:m]
-                    # -- far wake: retire the oldest vortices beyond far_wake
-                    if self.far_wake is not None and m > 1:
-                        x_far = x_te + self.far_wake
-                        k = 0
-                        while k < m - 1 and src_x[N + k] > x_far:
-                            k += 1
-                        if k:
-                            gone = slice(N, N + k)
-                            g_gone = float(src_g[gone].sum())
-                            loads.retire(src_x[gone].copy(), src_z[gone].copy(), src_g[gone].copy(), g_gone)
-                            gamma_start += g_gone
-                            keep = slice(N + k, N + m)
-                            for arr in (src_x, src_z, src_g):
-                                arr[N:N + m - k] = arr[keep].copy()
-                            for arr in (prev_u, prev_w):
-                                arr[:m - k] = arr[k:m].copy()
-                            m -= k
+                    # -- far wake: merge the oldest chord of wake once all of it
+                    #    lies beyond far_wake into one lump drifting at U
+                    if nf > 0:
+                        far_x[:nf] += U * dt
+                    if self.far_wake is not None and m > lump_n + 1 and src_x[N + lump_n - 1] > x_te + self.far_wake:
+                        k = lump_n
+                        gone = slice(N, N + k)
+                        gx, gz, gg = src_x[gone].copy(), src_z[gone].copy(), src_g[gone].copy()
+                        loads.retire(gx, gz, gg)
+                        G = float(gg.sum())
+                        wgt = gg if abs(G) > 0.5 * np.abs(gg).sum() else np.abs(gg)
+                        if nf == far_cap:
+                            far_cap *= 2
+                            far_x, far_z, far_g = (np.resize(a, far_cap) for a in (far_x, far_z, far_g))
+                        far_x[nf] = (wgt * gx).sum() / wgt.sum() if wgt.sum() != 0 else gx.mean()
+                        far_z[nf] = (wgt * gz).sum() / wgt.sum() if wgt.sum() != 0 else gz.mean()
+                        far_g[nf] = G
+                        nf += 1
+                        keep = slice(N + k, N + m)
+                        for arr in (src_x, src_z, src_g):
+                            arr[N:N + m - k] = arr[keep].copy()
+                        for arr in (prev_u, prev_w):
+                            arr[:m - k] = arr[k:m].copy()
+                        m -= k
         finally:
             for obs in observers:
                 if hasattr(obs, "on_end"):

@@ -373,7 +373,7 @@ def run_case(payload):
     t0 = time.perf_counter()
     out = {"status": "ok", "message": "", "summary": {}, "version": __version__}
     try:
-        from .simulate import simulate
+        from .runner import simulate
         sc = load_scenario(payload["raw"], source_name=payload.get("source"), base_dir=payload.get("base_dir"))
         res = simulate(sc)
         out["summary"] = _numbers(res.summary)

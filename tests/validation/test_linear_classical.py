@@ -126,7 +126,7 @@ def test_steady_camber_lift_and_moment():
 
 def _ramp_runs(to_deg, wake):
     from unsteady import load_scenario
-    from unsteady.simulate import simulate
+    from unsteady.runner import simulate
     runs = {}
     for model in ("vortex", "linear"):
         sc = load_scenario({"flow": {"speed": 10.0, "density": 1.2},
