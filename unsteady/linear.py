@@ -279,10 +279,16 @@ def section_constants(section):
     :func:`unsteady.theory.cm_quarter_chord`; a kink of a NACA 4-digit mean
     line at p splits the quadrature.
     """
-    p = getattr(section, "p", None)
-    breaks = (p,) if p else ()
-    return (theory.zero_lift_angle(section.slope, breaks=breaks),
-            theory.cm_quarter_chord(section.slope, breaks=breaks))
+    key = (type(section).__name__, repr(section))
+    if key not in _SECTION_CACHE:
+        p = getattr(section, "p", None)
+        breaks = (p,) if p else ()
+        _SECTION_CACHE[key] = (theory.zero_lift_angle(section.slope, breaks=breaks),
+                               theory.cm_quarter_chord(section.slope, breaks=breaks))
+    return _SECTION_CACHE[key]
+
+
+_SECTION_CACHE = {}
 
 
 class LinearMarcher:
