@@ -286,13 +286,16 @@ def test_scheduler_and_workers_survive_a_killed_worker(tmp_path):
         client = Client(addr, timeout="60s")
         client.wait_for_workers(2, timeout=60)
         killed = []
+        recorded = []
 
         def kill_one(case, result):
+            recorded.append(case.name)
             if not killed:
-                os.killpg(workers[1].pid, signal.SIGKILL)
-                killed.append(case.name)
+                os.killpg(workers[1].pid, signal.SIGKILL)      # the worker and its nanny
+                killed.append(len(recorded))
         rep = sweep.run_sweep(sc, tmp_path / "out", client=client, on_record=kill_one)
-        assert killed
+        assert killed == [1]                 # killed after the first of 6 cases: mid-sweep
+        assert len(client.scheduler_info()["workers"]) == 1
         assert workers[1].wait(timeout=10) is not None
         assert rep.ok == 6 and rep.failed == 0
         rows = rows_of(tmp_path / "out" / "sweep.csv")
