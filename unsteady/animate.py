@@ -178,7 +178,8 @@ class Film:
             self.snap_index = j.astype(int)
         self.times = ts[self.snap_index]
         self.repeats = n - np.unique(self.snap_index).size
-        self.slowdown = (n / options.frame_rate) / (t1 - t0) if t1 > t0 else float("nan")
+        # film time between frames 1/fps covers (t1 - t0)/(n - 1) of flow time
+        self.slowdown = ((n - 1) / options.frame_rate) / (t1 - t0) if t1 > t0 and n > 1 else float("nan")
         self.air = options.view == "air"
         self.trace_name = options.trace or ("n" if "n" in self.hist else "cl")
         self.trace_col, self.trace_label = TRACES[self.trace_name]
