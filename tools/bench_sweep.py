@@ -49,7 +49,12 @@ def _warm():
     return True
 
 
-def timed_sweep(sc, workers):
+def _empty_case(payload):
+    """A case function that does no work: what is left is the sweep's own cost."""
+    return {"status": "ok", "message": "", "summary": {"cl_max": 0.0}, "wall_time_s": 0.0, "version": ""}
+
+
+def timed_sweep(sc, workers, case_fn=None):
     from distributed import Client
     t0 = time.perf_counter()
     cluster = sweep.start_local_cluster(workers)
@@ -60,7 +65,7 @@ def timed_sweep(sc, workers):
     try:
         with tempfile.TemporaryDirectory() as d:
             t0 = time.perf_counter()
-            rep = sweep.run_sweep(sc, Path(d) / "out", client=client)
+            rep = sweep.run_sweep(sc, Path(d) / "out", client=client, case_fn=case_fn)
             t_run = time.perf_counter() - t0
         assert rep.ok == len(sweep.build_cases(sc)), rep
     finally:
@@ -98,6 +103,9 @@ def main(argv=None):
     print(f"speed-up of 2 workers over 1: {t1 / t2:.2f} x  (target >= 1.7 on 2 free cores)")
     print(f"overhead per case, distributed path against direct: {(t1 - t_direct) / n * 1000:.1f} ms "
           f"({100 * (t1 - t_direct) / t_direct:.1f} % of the direct time)")
+    _, t0 = min((timed_sweep(sc, 1, _empty_case) for _ in range(a.repeat)), key=lambda st: st[1])
+    print(f"sweep machinery alone (empty case function, 1 worker): {t0 / n * 1000:.1f} ms per case "
+          "(submit, result, table rewrite)")
     return 0
 
 
