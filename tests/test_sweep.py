@@ -135,6 +135,26 @@ run.wake = "rolling"
     assert cli.main(["check", str(write(tmp_path, SIX.format(chords=4), "ok.toml"))]) == 0
 
 
+def test_check_passes_on_case_warnings(tmp_path):
+    pytest.importorskip("unsteady.gusts")
+    # a 12 m/s gust at 18 m/s (atan(12/18) = 34 degrees): beyond the gust checker's 30-degree warning
+    text = BASE.format(chords=4) + """
+[gust]
+profile = "one-minus-cosine"
+amplitude = 1.0
+length = 1.0
+arrival = 0.01
+[sweep.grid]
+"gust.amplitude" = [1.0, 12.0]
+"""
+    sc = load_scenario(write(tmp_path, text))
+    import io
+    buf = io.StringIO()
+    assert sweep.check_cases(sc, stream=buf)
+    lines = buf.getvalue().splitlines()
+    assert len(lines) == 1 and lines[0].startswith(f"warning: {sc.source}: sweep[case-002].gust.")
+
+
 @pytest.mark.parametrize("section, key", [
     ('[sweep.grid]\n"flow.speed" = []\n', "sweep.grid.flow.speed"),
     ('[sweep]\ngrid = 3\n', "sweep.grid"),
@@ -198,7 +218,8 @@ def test_table_rewrites_keep_earlier_rows(tmp_path):
 # the local cluster
 
 def test_local_cluster_matches_one_by_one_and_resumes(tmp_path):
-    text = SIX.format(chords=4) + '\n[[sweep.cases]]\nname = "bad"\n"flow.speed" = -3.0\n'
+    text = (SIX.format(chords=4).replace("[sweep]\n", "[sweep]\nsave_runs = true\n")
+            + '\n[[sweep.cases]]\nname = "bad"\n"flow.speed" = -3.0\n')
     sc = load_scenario(write(tmp_path, text))
     want = direct_results(sc)
     assert len(want) == 6
@@ -215,6 +236,10 @@ def test_local_cluster_matches_one_by_one_and_resumes(tmp_path):
     assert rows[6]["name"] == "bad" and rows[6]["status"] == "failed"
     assert "flow.speed: must be > 0" in rows[6]["message"]
     assert (out / "envelope.png").stat().st_size > 1000
+    # each case's own run directory, as `unsteady run` writes it
+    import json
+    saved = json.loads((out / "runs" / "V18.0-N8" / "summary.json").read_text())
+    assert repr(saved["cl_max"]) == want["V18.0-N8"]["cl_max"]
     # again: nothing reruns, the table is unchanged
     before = (out / "sweep.csv").read_text()
     rep2 = sweep.run_sweep(sc, out, workers=2)

@@ -339,9 +339,28 @@ def build_cases(sc):
     return cases
 
 
-def check_cases(sc):
-    """Check every case of ``sc``'s ``[sweep]``; raise ScenarioError listing all invalid ones."""
-    problems = [p for c in build_cases(sc) for p in c.problems]
+def case_warnings(sc, cases):
+    """The warnings of the cases (e.g. a gust beyond the attached-flow range), as
+    ``warning: <file>: sweep[<name>].<key>: ...`` lines, those of the base scenario left out."""
+    base = set(sc.warnings)
+    prefix = f"warning: {sc.source}: "
+    out = []
+    for c in cases:
+        for w in (c.scenario.warnings if c.scenario is not None else ()):
+            if w not in base and w.startswith(prefix):
+                out.append(f"{prefix}sweep[{c.name}].{w[len(prefix):]}")
+    return out
+
+
+def check_cases(sc, stream=None):
+    """Check every case of ``sc``'s ``[sweep]``; raise ScenarioError listing all invalid ones.
+
+    Warnings of valid cases are written to ``stream`` (default stderr).
+    """
+    cases = build_cases(sc)
+    for line in case_warnings(sc, cases):
+        print(line, file=stream or sys.stderr)
+    problems = [p for c in cases for p in c.problems]
     if problems:
         raise ScenarioError(problems)
     return True
