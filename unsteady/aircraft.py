@@ -167,6 +167,7 @@ class HeaveMotion:
         self.a_prev = None
         self.n_rows = []
         self.a_rows = []
+        _register_plot()
 
     # -- trim ---------------------------------------------------------------
     def _steady_cl(self, body, alpha, alpha_dot):
@@ -260,3 +261,49 @@ class HeaveMotion:
                 out["dn_ratio"] = out["dn_max"] / dn
         out["load_caution"] = theory.GUST_CAUTION
         return out
+
+
+def plot_gust_loads(result, out_dir):
+    """gust-loads.png: gust at the leading edge and load factor, with the peak, the gust-formula
+    estimate and the full gust-load caution (written only for runs with ``n``)."""
+    h, s = result.history, result.summary
+    if "n" not in h or not len(h["n"]):
+        return
+    from pathlib import Path
+
+    from . import plots
+    fig = plots._figure(8, 5.4)
+    ax1 = fig.add_subplot(2, 1, 1)
+    ax2 = fig.add_subplot(2, 1, 2, sharex=ax1)
+    for ax in (ax1, ax2):
+        plots._style(ax)
+    t = h["t"]
+    if "w_gust" in h:
+        ax1.plot(t, h["w_gust"], color=plots.LOOK["trace"], lw=1.2, label="vertical gust w")
+    if "u_gust" in h and np.any(h["u_gust"] != 0):
+        ax1.plot(t, h["u_gust"], color=plots.LOOK["second"], lw=1.0, ls="--", label="streamwise gust u")
+    ax1.set_ylabel("gust at the leading edge (m/s)", fontsize=8)
+    ax1.legend(fontsize=7, frameon=False, loc="best")
+    ax2.plot(t, h["n"], color=plots.LOOK["trace"], lw=1.4, label="load factor n (vortex model)")
+    ax2.axhline(1.0, color=plots.LOOK["muted"], lw=0.7, ls=":")
+    if "n_max" in s:
+        ax2.plot([s["t_n_max"]], [s["n_max"]], "o", color=plots.LOOK["second"], ms=4,
+                 label=f"peak n = {s['n_max']:.3f}")
+    if "dn_formula" in s:
+        ax2.axhline(1.0 + s["dn_formula"], color=plots.LOOK["second"], lw=0.9, ls="--",
+                    label=f"gust formula 1 + {s['dn_formula']:.3f} (mu_g = {s['mass_ratio_mu_g']:.1f})")
+    ax2.set_ylabel("load factor n", fontsize=8)
+    ax2.set_xlabel("time t (s)", fontsize=9)
+    ax2.legend(fontsize=7, frameon=False, loc="best")
+    fig.suptitle(plots._title(result, "gust loads"), fontsize=10)
+    fig.tight_layout(rect=(0, 0.06, 1, 1))
+    import textwrap
+    fig.text(0.01, 0.005, "\n".join(textwrap.wrap(theory.GUST_CAUTION, 150)), fontsize=6.5,
+             color=plots.LOOK["muted"], ha="left", va="bottom")
+    plots._save(fig, Path(out_dir) / "gust-loads.png")
+
+
+def _register_plot():
+    from . import plots
+    if plot_gust_loads not in plots.EXTRA_PLOTS:
+        plots.EXTRA_PLOTS.append(plot_gust_loads)
