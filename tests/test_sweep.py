@@ -8,13 +8,11 @@ import os
 import signal
 import socket
 import subprocess
-import sys
 import time
 from pathlib import Path
 
 import pytest
 
-import unsteady
 from unsteady import cli, sweep
 from unsteady.scenario import ScenarioError, default_dt, load_scenario
 

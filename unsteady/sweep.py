@@ -567,7 +567,7 @@ def swept_keys(sweep):
 
 
 def run_sweep(sc, out_dir, *, workers=None, scheduler=None, client=None, progress=False,
-              retry_failed=False, case_fn=None, retries=2, on_record=None):
+              retry_failed=False, case_fn=None, retries=2, on_record=None, warnings_to=None):
     """Run every case of ``sc``'s ``[sweep]`` not already in ``out_dir/sweep.csv``.
 
     Parameters
@@ -592,6 +592,8 @@ def run_sweep(sc, out_dir, *, workers=None, scheduler=None, client=None, progres
         Extra tries of a case whose function raised outside its own error handling.
     on_record : callable, optional
         ``on_record(case, result)`` after each case is recorded (used by tests).
+    warnings_to : file, optional
+        Where to write the cases' warnings (none written when None).
 
     Returns
     -------
@@ -604,6 +606,9 @@ def run_sweep(sc, out_dir, *, workers=None, scheduler=None, client=None, progres
     """
     case_fn = case_fn or run_case
     cases = build_cases(sc)
+    if warnings_to is not None:
+        for line in case_warnings(sc, cases):
+            print(line, file=warnings_to)
     valid = [c for c in cases if not c.problems]
     if not valid:
         raise ScenarioError([p for c in cases for p in c.problems])
@@ -791,7 +796,7 @@ def _register_command():
 
     @cli.command("sweep", "run the cases of a scenario's [sweep] in parallel (resumable)")
     def cmd_sweep(args):
-        sc = load_scenario(args.scenario, overrides=args.set or None)
+        sc = cli._load(args)       # prints the scenario's warnings
         if "sweep" not in sc.data:
             raise cli.UsageError(f"error: {args.scenario}: sweep: the scenario has no [sweep] section; "
                                  "add [sweep.grid] or [[sweep.cases]]")
@@ -804,7 +809,7 @@ def _register_command():
         if out.exists() and not out.is_dir():
             raise cli.UsageError(f"error: {out}: --out: exists and is not a folder; give a new or existing folder")
         rep = run_sweep(sc, out, workers=args.workers, scheduler=args.scheduler,
-                        progress=not args.quiet, retry_failed=args.retry_failed)
+                        progress=not args.quiet, retry_failed=args.retry_failed, warnings_to=sys.stderr)
         if rep.interrupted:
             print(f"unsteady: sweep interrupted; {rep.ok + rep.failed} cases finished this time are in "
                   f"{rep.table}; run the same command again to finish the rest", file=sys.stderr)
