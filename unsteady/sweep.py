@@ -671,6 +671,7 @@ def _run_cases(todo, sc, out_dir, table, rep, *, workers, scheduler, client, pro
             fut = client.submit(case_fn, payload, key=f"unsteady-case-{c.key}", pure=False, retries=retries)
             futures[fut] = c
         done = 0
+        bar.t0 = time.perf_counter()        # time left counts from here, not from the cluster's start
         bar.update(0, f"0 ok, 0 failed, {rep.skipped} done before")
         for fut in as_completed(list(futures)):
             c = futures[fut]
