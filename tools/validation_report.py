@@ -1,0 +1,222 @@
+"""Run the validation cases of unsteady and write a Markdown report with pictures and an error table.
+
+Usage: python tools/validation_report.py [OUT_DIR] [--skip-tests]   (default docs/validation)
+
+It computes the model-against-reference cases below itself (pictures and
+errors), then runs every test under tests/validation and lists each result,
+so the report covers the core, gust and linear-model checks alike.
+"""
+
+import math
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+import xml.etree.ElementTree as ET
+from pathlib import Path
+
+import numpy as np
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT))
+
+import matplotlib  # noqa: E402
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+
+from unsteady import load_scenario, theory  # noqa: E402
+from unsteady.results import MODEL_CAUTION  # noqa: E402
+from unsteady.runner import simulate  # noqa: E402
+
+U, C, RHO = 10.0, 0.2, 1.2
+
+
+def _sc(extra, model="vortex", panels=40, chords=20.0, wake="frozen"):
+    d = {"flow": {"speed": U, "density": RHO},
+         "airfoil": {"shape": "flat", "chord": C, "panels": panels},
+         "motion": {"pivot": 0.25},
+         "run": {"chords": chords, "model": model, "wake": wake}}
+    for k, v in extra.items():
+        if k in d:
+            d[k].update(v)
+        else:
+            d[k] = v
+    return load_scenario(d)
+
+
+def case_wagner(out):
+    """Pitch step: cl / (2 pi alpha) against Wagner's phi (Wagner 1925; exact values per Garrick 1938)."""
+    rows, fig = [], plt.figure(figsize=(7, 4))
+    amp = 2.0
+    for model, col in (("vortex", "#23395b"), ("linear", "#c0392b")):
+        t0 = 0.02
+        sc = _sc({"motion": {"pitch": {"law": "step", "value": amp, "time": t0}}}, model=model)
+        h = simulate(sc).history
+        # the sampled step rises over the interval before t0 (linear model)
+        t_step = t0 - sc.dt * 0.5 if model == "linear" else t0
+        s = 2 * U * (h["t"] - t_step) / C
+        sel = s > 1.0
+        ratio = h["cl"] / (2 * math.pi * math.radians(amp))
+        err = float(np.max(np.abs(ratio[sel] - theory.wagner(s[sel]))))
+        rows.append((f"Wagner step response, {model} model", "max abs(cl/(2 pi alpha) - phi(s)), s > 1",
+                     err, 0.002 if model == "linear" else 0.005, "H. Wagner, ZAMM 5 (1925); Garrick, NACA Rep. 629"))
+        plt.plot(s[sel], ratio[sel], color=col, lw=1.2, label=f"{model} model")
+    ss = np.linspace(0, 40, 400)
+    plt.plot(ss, theory.wagner(ss), "k--", lw=1, label="Wagner phi(s) (exact)")
+    plt.xlabel("s = 2Ut/c (semichords)")
+    plt.ylabel("cl / (2 pi alpha)")
+    plt.legend(fontsize=8)
+    plt.grid(alpha=0.3)
+    plt.title("Step in pitch")
+    fig.tight_layout()
+    fig.savefig(out / "wagner.png", dpi=100)
+    plt.close(fig)
+    return rows, "wagner.png"
+
+
+def case_kuessner(out):
+    """Sharp-edged gust: cl / (2 pi w0/U) against Kuessner's psi (Kuessner 1936)."""
+    rows, fig = [], plt.figure(figsize=(7, 4))
+    w0, arrival = 0.2, 0.02
+    for model, col in (("vortex", "#23395b"), ("linear", "#c0392b")):
+        sc = _sc({"gust": {"profile": "sharp-edged", "amplitude": w0, "arrival": arrival}}, model=model)
+        h = simulate(sc).history
+        s = 2 * U * (h["t"] - arrival) / C
+        sel = s > 2.0
+        ratio = h["cl"] / (2 * math.pi * w0 / U)
+        err = float(np.max(np.abs(ratio[sel] - theory.kuessner(s[sel]))))
+        rows.append((f"Kuessner sharp-edged gust, {model} model", "max abs(cl/(2 pi w0/U) - psi(s)), s > 2",
+                     err, 0.01, "H. G. Kuessner, Luftfahrtforschung 13 (1936)"))
+        plt.plot(s[s > 0], ratio[s > 0], color=col, lw=1.2, label=f"{model} model")
+    ss = np.linspace(0, 40, 400)
+    plt.plot(ss, theory.kuessner(ss), "k--", lw=1, label="Kuessner psi(s) (exact)")
+    plt.xlabel("s since the front met the leading edge (semichords)")
+    plt.ylabel("cl / (2 pi w0 / U)")
+    plt.legend(fontsize=8)
+    plt.grid(alpha=0.3)
+    plt.title("Sharp-edged gust")
+    fig.tight_layout()
+    fig.savefig(out / "kuessner.png", dpi=100)
+    plt.close(fig)
+    return rows, "kuessner.png"
+
+
+def _first_harmonic(t, y, omega, periods):
+    sel = t > t[-1] - periods * 2 * math.pi / omega
+    return 2 * np.mean(y[sel] * np.exp(-1j * omega * t[sel]))
+
+
+def case_theodorsen(out):
+    """Harmonic pitch about the quarter chord: |cl| and phase against Theodorsen (NACA Rep. 496)."""
+    rows = []
+    ks = [0.05, 0.1, 0.2, 0.5, 1.0, 2.0]
+    amp = math.radians(1.0)
+    res = {"linear": [], "vortex": []}
+    for model in res:
+        for k in ks:
+            if model == "vortex" and k not in (0.1, 0.5):
+                res[model].append(np.nan)
+                continue
+            period_chords = math.pi / k
+            n_per = 6 if model == "linear" else 3
+            sc = _sc({"motion": {"pitch": {"law": "sine", "amplitude": 1.0, "reduced_frequency": k}}},
+                     model=model, panels=20, chords=n_per * period_chords)
+            if model == "linear":      # a whole number of samples per period
+                sc = sc.with_overrides({"run.dt": 2 * math.pi / (2 * U * k / C) / 200})
+            h = simulate(sc).history
+            omega = 2 * U * k / C
+            cl_hat = _first_harmonic(h["t"], h["cl"], omega, 1)
+            ref, _ = theory.theodorsen_loads(k, -1j * amp, 0.0, 0.25)
+            res[model].append(cl_hat / ref)
+            rows.append((f"Theodorsen pitch k = {k:g}, {model} model", "abs(amplitude ratio - 1)",
+                         abs(abs(cl_hat) / abs(ref) - 1), 0.005 if model == "linear" else 0.02,
+                         "T. Theodorsen, NACA Report 496 (1935)"))
+            rows.append((f"Theodorsen pitch k = {k:g}, {model} model", "abs(phase error) (deg)",
+                         abs(math.degrees(np.angle(cl_hat / ref))), 0.5 if model == "linear" else 2.0,
+                         "T. Theodorsen, NACA Report 496 (1935)"))
+    kk = np.geomspace(0.03, 3, 200)
+    ref, _ = theory.theodorsen_loads(kk, -1j * amp, 0.0, 0.25)
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(9, 3.6))
+    a1.semilogx(kk, np.abs(ref) / amp, "k--", lw=1, label="Theodorsen")
+    a2.semilogx(kk, np.degrees(np.angle(ref / (-1j * amp))), "k--", lw=1)
+    for model, mk in (("linear", "o"), ("vortex", "s")):
+        r = np.array(res[model])
+        ref_k, _ = theory.theodorsen_loads(np.array(ks), -1j * amp, 0.0, 0.25)
+        z = r * ref_k
+        a1.semilogx(ks, np.abs(z) / amp, mk, label=f"{model} model")
+        a2.semilogx(ks, np.degrees(np.angle(z / (-1j * amp))), mk)
+    a1.set_xlabel("k")
+    a1.set_ylabel("|cl| per radian")
+    a2.set_xlabel("k")
+    a2.set_ylabel("phase of cl over alpha (deg)")
+    a1.legend(fontsize=8)
+    for a in (a1, a2):
+        a.grid(alpha=0.3)
+    fig.tight_layout()
+    fig.savefig(out / "theodorsen.png", dpi=100)
+    plt.close(fig)
+    return rows, "theodorsen.png"
+
+
+def run_validation_tests(out):
+    """Run pytest on tests/validation; one row per test (pass/fail, time)."""
+    xml = out / "junit.xml"
+    subprocess.run([sys.executable, "-m", "pytest", "-q", "-p", "no:cacheprovider",
+                    str(ROOT / "tests" / "validation"), f"--junitxml={xml}"],
+                   cwd=ROOT, capture_output=True, text=True)
+    rows = []
+    if xml.exists():
+        for tc in ET.parse(xml).getroot().iter("testcase"):
+            failed = tc.find("failure") is not None or tc.find("error") is not None
+            rows.append((tc.get("classname", "").split(".")[-1], tc.get("name"),
+                         "FAIL" if failed else ("skip" if tc.find("skipped") is not None else "pass"),
+                         float(tc.get("time", 0))))
+        xml.unlink()
+    return rows
+
+
+def main(argv):
+    args = [a for a in argv[1:] if not a.startswith("--")]
+    out = Path(args[0]) if args else ROOT / "docs" / "validation"
+    out.parent.mkdir(parents=True, exist_ok=True)
+    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.", dir=out.parent))
+    try:
+        t0 = time.perf_counter()
+        sections, rows = [], []
+        for case in (case_wagner, case_kuessner, case_theodorsen):
+            if sys.stderr.isatty():
+                print(f"validation: {case.__name__} ...", file=sys.stderr)
+            r, png = case(tmp)
+            rows += r
+            sections.append((case.__doc__.strip(), png))
+        tests = [] if "--skip-tests" in argv else run_validation_tests(tmp)
+        lines = ["# Validation report of `unsteady`", "",
+                 f"Generated by `tools/validation_report.py` in {time.perf_counter() - t0:.0f} s.", "",
+                 f"> {MODEL_CAUTION}", "",
+                 "## Errors against published references", "",
+                 "| case | measure | error | target | source | ok |", "|---|---|---|---|---|---|"]
+        for name, measure, err, target, src in rows:
+            lines.append(f"| {name} | {measure} | {err:.3g} | {target:g} | {src} | "
+                         f"{'yes' if err <= target else '**no**'} |")
+        lines += ["", "## Pictures", ""]
+        for title, png in sections:
+            lines += [f"### {title}", "", f"![{title}]({png})", ""]
+        lines += ["## Every test under tests/validation", "",
+                  "| file | test | result | time (s) |", "|---|---|---|---|"]
+        lines += [f"| {f} | `{n}` | {r} | {tt:.2f} |" for f, n, r, tt in tests]
+        (tmp / "README.md").write_text("\n".join(lines) + "\n")
+        if out.exists():
+            shutil.rmtree(out)
+        os.rename(tmp, out)
+    except BaseException:
+        shutil.rmtree(tmp, ignore_errors=True)
+        raise
+    print(f"{out / 'README.md'}: {sum(e <= t for *_, e, t, _s in rows)}/{len(rows)} reference checks "
+          f"within target; {sum(r == 'pass' for _f, _n, r, _t in tests)}/{len(tests)} validation tests pass")
+
+
+if __name__ == "__main__":
+    main(sys.argv)
