@@ -479,10 +479,15 @@ def simulate_linear(sc, observers=(), progress=False):
                            u_le=u_le if gust is not None and gust.streamwise else None, start=start)
         cl_c = out["cl_c"] + out["cl_gust"]
     else:
+        if gust is not None:
+            # a frozen pattern carried by the air: the leading edge's path at
+            # zero pitch meets it at known times, whatever the heave
+            t_all = np.arange(steps + 1) * dt
+            u_arr, w_arr = gust_at_le(t_all, np.zeros_like(t_all))
         marcher = LinearMarcher(
             motion, steps=steps, dt=dt, speed=U, chord=c, pivot=pv, alpha_L0=alpha_L0, cm0=cm0,
-            w_le=(lambda tt, hh: gust_at_le(tt, hh)[1][0]) if gust is not None else None,
-            u_le=(lambda tt, hh: gust_at_le(tt, hh)[0][0])
+            w_le=(lambda tt, hh: w_arr[int(round(tt / dt))]) if gust is not None else None,
+            u_le=(lambda tt, hh: u_arr[int(round(tt / dt))])
             if gust is not None and gust.streamwise else None,
             accel=kin.accel, start=start)
         H = marcher.run()
