@@ -171,3 +171,44 @@ def test_memory_stays_flat_with_film_length(run_dir, tmp_path):
     assert sum(1 for _ in iio.imiter(tmp_path / "m1000.mp4")) == 1000
     for k in ("self", "children"):
         assert (peaks[1000][k] - peaks[100][k]) / 1024 < 300, peaks
+
+
+def test_gust_band_shows_the_up_gust_where_it_is(tmp_path):
+    # a 1-cosine up-gust is a frozen pattern carried at U (common practice): at time t its
+    # front, which met the leading edge at `arrival`, lies U (t - arrival) downstream of it
+    sc = unsteady.load_scenario({
+        "flow": {"speed": 10.0, "density": 1.225},
+        "airfoil": {"shape": "flat", "chord": 0.2, "panels": 8},
+        "gust": {"profile": "one-minus-cosine", "amplitude": 2.0, "length": 1.0, "arrival": 0.02},
+        "run": {"duration": 0.1, "wake": "frozen"},
+    })
+    res = unsteady.simulate(sc)
+    res.save(tmp_path / "g", plots=False)
+    res = load_run(tmp_path / "g")
+    film = Film(res, FilmOptions(width=640, height=360, frames=2, span=(0.07, 0.1)))
+    r = FilmRenderer(film)
+    img = r.frame(1)
+    t = film.times[1]
+    x_le = -sc.pivot * sc.chord
+    z_mid = 0.5 * (r.g_band[0] + r.g_band[1]) + 0.3 * (r.g_band[1] - r.g_band[0])
+    x_front = x_le + 10.0 * (t - 0.02)             # the gust front, downstream of the leading edge
+    x_peak = x_front - 0.5                          # the peak, half a gust length behind the front
+    inside = img[tuple(np.round(r.pixel_of(x_peak, z_mid)[::-1]).astype(int).ravel())].astype(int)
+    outside = img[tuple(np.round(r.pixel_of(x_front + 0.3, z_mid)[::-1]).astype(int).ravel())].astype(int)
+    assert inside[2] - inside[1] > 25          # violet (blue above green): air moving up
+    assert abs(outside[2] - outside[1]) < 12   # plain paper beyond the front
+
+
+def test_snapshots_of_a_2000_step_run_stay_small(tmp_path):
+    # issue requirement: a 2,000-step run's snapshot file under 50 MB, here at one snapshot per step
+    sc = unsteady.load_scenario({
+        "flow": {"speed": 10.0, "density": 1.225},
+        "airfoil": {"shape": "flat", "chord": 0.2, "panels": 8},
+        "motion": {"pitch": {"law": "sine", "amplitude": 3.0, "frequency": 4.0}},
+        "run": {"duration": 2000 * 0.0025, "dt": 0.0025, "wake": "frozen"},
+        "output": {"snapshot_every": 0.0025},
+    })
+    res = unsteady.simulate(sc)
+    out = res.save(tmp_path / "big", plots=False)
+    assert len(res.snapshots["t"]) == 2001
+    assert (out / "snapshots.npz").stat().st_size < 50e6
