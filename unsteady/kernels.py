@@ -27,7 +27,10 @@ from numba import njit, prange
 TWO_PI = 2.0 * math.pi
 
 
-@njit(parallel=True, fastmath=True, cache=True)
+# Below this many target-source pairs one thread beats waking the thread pool.
+PARALLEL_PAIRS = 100_000
+
+
 def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
     """Velocity induced at targets by regularised point vortices (in place).
 
@@ -41,12 +44,45 @@ def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
         Vatistas core radius (m); 0 gives the singular point vortex.
     u, w : float64 arrays, len(xt)
         Output, overwritten with the induced velocity (m/s).
+
+    Large sums go to the threaded kernel, small ones to the one-thread twin
+    (the same arithmetic), so short steps do not pay for waking the threads.
     """
+    if xt.shape[0] * xs.shape[0] >= PARALLEL_PAIRS:
+        _induced_velocity_threads(xt, zt, xs, zs, gamma, r_c, u, w)
+    else:
+        _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w)
+
+
+@njit(parallel=True, fastmath=True, cache=True)
+def _induced_velocity_threads(xt, zt, xs, zs, gamma, r_c, u, w):
     nt = xt.shape[0]
     ns = xs.shape[0]
     r_c4 = r_c * r_c * r_c * r_c
     inv_2pi = 1.0 / TWO_PI
     for i in prange(nt):
+        x_i = xt[i]
+        z_i = zt[i]
+        su = 0.0
+        sw = 0.0
+        for j in range(ns):
+            dx = x_i - xs[j]
+            dz = z_i - zs[j]
+            r2 = dx * dx + dz * dz
+            f = gamma[j] / math.sqrt(r2 * r2 + r_c4)
+            su -= f * dz
+            sw += f * dx
+        u[i] = su * inv_2pi
+        w[i] = sw * inv_2pi
+
+
+@njit(fastmath=True, cache=True)
+def _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w):
+    nt = xt.shape[0]
+    ns = xs.shape[0]
+    r_c4 = r_c * r_c * r_c * r_c
+    inv_2pi = 1.0 / TWO_PI
+    for i in range(nt):
         x_i = xt[i]
         z_i = zt[i]
         su = 0.0
