@@ -54,7 +54,7 @@ def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
         _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w)
 
 
-@njit(parallel=True, fastmath=True, cache=True)
+@njit(parallel=True, fastmath=True, cache=True, error_model="numpy")
 def _induced_velocity_threads(xt, zt, xs, zs, gamma, r_c, u, w):
     nt = xt.shape[0]
     ns = xs.shape[0]
@@ -76,7 +76,7 @@ def _induced_velocity_threads(xt, zt, xs, zs, gamma, r_c, u, w):
         w[i] = sw * inv_2pi
 
 
-@njit(fastmath=True, cache=True)
+@njit(fastmath=True, cache=True, error_model="numpy")
 def _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w):
     nt = xt.shape[0]
     ns = xs.shape[0]
@@ -98,7 +98,7 @@ def _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w):
         w[i] = sw * inv_2pi
 
 
-@njit(parallel=True, fastmath=True, cache=True)
+@njit(parallel=True, fastmath=True, cache=True, error_model="numpy")
 def normal_influence(xt, zt, nx, nz, xs, zs, r_c, a):
     """Influence coefficients: normal velocity at target i per unit gamma at j.
 
@@ -134,7 +134,7 @@ def velocity(xt, zt, xs, zs, gamma, r_c=0.0):
 
 # ---------------------------------------------------------------------------
 # Pictures (unsteady.fields): stream function of the same regularised vortices.
-@njit(parallel=True, fastmath=True, cache=True)
+@njit(parallel=True, fastmath=True, cache=True, error_model="numpy")
 def induced_stream_function(xt, zt, xs, zs, gamma, r_c, psi):
     """Stream function of regularised point vortices at targets (in place).
 
