@@ -283,7 +283,7 @@ class FilmRenderer:
         field_mode = o.flow in ("vorticity", "speed")
         right = 0.905 if field_mode else 0.975
         self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, 0.53], facecolor=LOOK["paper"])
-        self.ax_tr = fig.add_axes([0.075, 0.085, 0.9, 0.2], facecolor=LOOK["paper"])
+        self.ax_tr = fig.add_axes([0.075, 0.1, 0.9, 0.185], facecolor=LOOK["paper"])
         self._limits()
         self.animated = []
         self._static_text()
@@ -689,20 +689,21 @@ def write_film(result, out, options=FilmOptions(), *, progress=False, label="run
 
 # ---------------------------------------------------------------------------
 # command line
-def _pair(text, name, sep="x"):
+def _pair(text, name, label, example):
     try:
-        a, b = text.lower().split(sep)
+        a, b = text.lower().split("x")
         return int(a), int(b)
     except ValueError:
-        raise UsageError(f"error: -: {name}: {text!r}; allowed: two whole numbers as WIDTHxHEIGHT, e.g. 1280x720") from None
+        raise UsageError(f"error: {label}: {name}: {text!r}; allowed: two whole numbers joined by x, "
+                         f"e.g. {example}") from None
 
 
-def _span(text):
+def _span(text, label):
     try:
         a, b = text.split(":")
         return (float(a) if a.strip() else None, float(b) if b.strip() else None)
     except ValueError:
-        raise UsageError(f"error: -: --span: {text!r}; allowed: START:END in seconds of run time, "
+        raise UsageError(f"error: {label}: --span: {text!r}; allowed: START:END in seconds of run time, "
                          "either may be empty, e.g. 0.05:0.3") from None
 
 
@@ -735,14 +736,15 @@ def cmd_animate(args):
     run_dir = Path(args.run_dir)
     out = Path(args.out) if args.out else run_dir / "film.mp4"
     check_out_path(out)
-    w, h = _pair(args.size, "--size")
+    label = str(run_dir)
+    w, h = _pair(args.size, "--size", label, "1280x720")
     opts = FilmOptions(frame_rate=args.frame_rate, width=w, height=h,
-                       span=_span(args.span) if args.span else (None, None),
+                       span=_span(args.span, label) if args.span else (None, None),
                        slowdown=args.slowdown, frames=args.frames, view=args.view, flow=args.flow,
-                       trace=args.trace, grid=_pair(args.grid, "--grid") if args.grid else None,
+                       trace=args.trace, grid=_pair(args.grid, "--grid", label, "160x90") if args.grid else None,
                        reach=args.reach)
     res = load_run(run_dir)
-    film = write_film(res, out, opts, progress=not args.quiet, label=str(run_dir))
+    film = write_film(res, out, opts, progress=not args.quiet, label=label)
     if not args.quiet:
         dur = film.n_frames / opts.frame_rate
         msg = (f"{out}: {film.n_frames} frames, {dur:.1f} s at {opts.frame_rate:g} frames/s, "
