@@ -164,10 +164,6 @@ class GustProfile:
             out[inside] = self.shape(xi[inside])
         return out
 
-    def resolved(self):
-        """The gust table with defaults filled in."""
-        return dict(self.spec)
-
 
 def _xi_span(ctx, arrival):
     """(0, xi_max): distances into the gust a run reaches, with a margin of 2 chords."""
