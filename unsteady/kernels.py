@@ -28,7 +28,7 @@ TWO_PI = 2.0 * math.pi
 
 
 # Below this many target-source pairs one thread beats waking the thread pool.
-PARALLEL_PAIRS = 100_000
+PARALLEL_PAIRS = 200_000
 
 
 def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
@@ -98,7 +98,7 @@ def _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w):
         w[i] = sw * inv_2pi
 
 
-@njit(parallel=True, fastmath=True, cache=True, error_model="numpy")
+@njit(fastmath=True, cache=True, error_model="numpy")
 def normal_influence(xt, zt, nx, nz, xs, zs, r_c, a):
     """Influence coefficients: normal velocity at target i per unit gamma at j.
 
@@ -109,7 +109,7 @@ def normal_influence(xt, zt, nx, nz, xs, zs, r_c, a):
     ns = xs.shape[0]
     r_c4 = r_c * r_c * r_c * r_c
     inv_2pi = 1.0 / TWO_PI
-    for i in prange(nt):
+    for i in range(nt):
         for j in range(ns):
             dx = xt[i] - xs[j]
             dz = zt[i] - zs[j]

@@ -245,6 +245,8 @@ class Scenario:
         data = copy.deepcopy(self.data)
         if "chords" in data.get("run", {}):
             data["run"].pop("duration", None)    # exactly one of the two may be given
+        if "altitude" in data.get("flow", {}):
+            data["flow"].pop("density", None)
         return tomli_w.dumps(_tomlable(data))
 
     def with_overrides(self, overrides):
