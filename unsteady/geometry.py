@@ -452,7 +452,7 @@ class CoordinateSection(Section):
 
     @classmethod
     def _mean_line(cls, xu, zu, xl, zl, n_points, fname):
-        """Least-squares cubic spline of the corrected mean line (steps 2, 3 and 5 of the class notes)."""
+        """Least-squares cubic spline of the corrected mean line (steps 2, 3 and 5 listed in the class docstring)."""
         xi = cosine_nodes(cls._STATIONS)
         z_u, z_l = np.interp(xi, xu, zu), np.interp(xi, xl, zl)
         crossing = (xi > 1e-3) & (xi < 1.0 - 1e-3) & (z_u - z_l < -2e-4)
