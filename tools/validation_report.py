@@ -55,8 +55,10 @@ def case_wagner(out):
         t0 = 0.02
         sc = _sc({"motion": {"pitch": {"law": "step", "value": amp, "time": t0}}}, model=model)
         h = simulate(sc).history
-        # the sampled step rises over the interval before t0 (linear model)
-        t_step = t0 - sc.dt * 0.5 if model == "linear" else t0
+        # the sampled step rises over the interval before t0 (linear model); the
+        # vortex model's row at t0 has shed the vorticity of the whole step
+        # (t0 - dt, t0], as the impulsive start's first row at dt does
+        t_step = t0 - sc.dt * 0.5 if model == "linear" else t0 - sc.dt
         s = 2 * U * (h["t"] - t_step) / C
         sel = s > 1.0
         ratio = h["cl"] / (2 * math.pi * math.radians(amp))
