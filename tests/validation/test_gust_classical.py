@@ -111,7 +111,7 @@ def test_turbulence_spectrum_and_variance(name):
     sigma, L, dx = 1.5, 1.0, 1.0 / 50.0
     length = 4000.0 * L
     f_all, P_all, var = None, [], []
-    for seed in range(8):
+    for seed in range(16):
         w = turbulence_samples(name, sigma, L, length, dx, seed)
         var.append(np.var(w))
         f_all, P = signal.welch(w, fs=1.0 / dx, window="hann", nperseg=int(1000 * L / dx))
@@ -127,7 +127,8 @@ def test_turbulence_spectrum_and_variance(name):
         ref = np.trapezoid(_mil_spectrum(name, Om, sigma, L), Om)
         # Welch's bins are at discrete frequencies: compare densities
         sim_density = sim / (m.sum() * (f_all[1] - f_all[0]) * 2 * math.pi)
-        assert sim_density == pytest.approx(ref / (hi - lo), rel=0.10), (lo, hi)
+        assert sim_density == pytest.approx(ref / (hi - lo), rel=0.10), (lo, hi)  # measured within 2.9 %
+    # measured -1.6 % (Dryden) and -3.6 % (von Karman): the grid (L/50) drops the spectrum above pi/dx
     assert np.mean(var) == pytest.approx(sigma**2, rel=0.05)
 
 
