@@ -61,13 +61,16 @@ def warm_run():
             self.m.append(s.x_wake.shape[0])
 
     unsteady.simulate({**SCENARIO, "run": {**SCENARIO["run"], "chords": 2.0}})   # compile / load cache
-    timer = StepTimer()
-    t0 = time.perf_counter()
-    res = unsteady.simulate(SCENARIO, observers=[timer])
-    el = time.perf_counter() - t0
-    steps = len(res.history["t"]) - 1
-    print(f"\n{steps}-step free-wake run, NACA 2412, 40 elements, compiled: {el:.2f} s "
-          f"({1e3 * el / steps:.3f} ms per step)")
+    for label, far in (("default far wake (merged beyond 30 chords)", None),
+                       ("whole wake free", 1e9)):
+        sc = {**SCENARIO, "run": {**SCENARIO["run"], **({"far_wake": far} if far else {})}}
+        timer = StepTimer()
+        t0 = time.perf_counter()
+        res = unsteady.simulate(sc, observers=[timer])
+        el = time.perf_counter() - t0
+        steps = len(res.history["t"]) - 1
+        print(f"\n{steps}-step free-wake run, NACA 2412, 40 elements, compiled, {label}: {el:.2f} s "
+              f"({1e3 * el / steps:.3f} ms per step)")
     t = np.array(timer.t)
     m = np.array(timer.m)
     dt = np.diff(t)
