@@ -158,6 +158,7 @@ class HeaveMotion:
         self.q = 0.5 * sc.density * sc.speed ** 2
         self.kappa = lift_scale(ac.get("aspect_ratio"))
         self.cl_level = self.W_span / (self.kappa * self.q * self.c)
+        self.n_per_cl = self.kappa * self.q * self.c / self.W_span   # n = n_per_cl cl
         t0 = 0.0
         alpha0, alpha_dot0, _, _ = kinematics.state(t0)
         self.alpha_offset = self._trim(alpha0, alpha_dot0) - alpha0
@@ -204,7 +205,7 @@ class HeaveMotion:
 
     def after_step(self, t, dt, loads):
         """Advance the heave from t to t + dt with the lift of step t: m' h'' = L' - m' g."""
-        n = self.kappa * loads["cl"] * self.q * self.c / self.W_span
+        n = self.n_per_cl * loads["cl"]
         a = G * (n - 1.0)
         self.n_rows.append(n)
         self.a_rows.append(a)
@@ -215,6 +216,26 @@ class HeaveMotion:
         self.h += 0.5 * dt * (self.h_dot + h_dot_new)
         self.h_dot = h_dot_new
         self.a_prev = a
+
+    # -- for a compiled march (unsteady.linear_kernels) ----------------------
+    def pitch(self, t):
+        """(alpha, alpha_dot) at times t (vectorised): the prescribed pitch plus the trim offset."""
+        t = np.asarray(t, dtype=float)
+        alpha, alpha_dot, _, _ = self.kin.state(t)
+        return (np.broadcast_to(np.asarray(alpha, dtype=float) + self.alpha_offset, t.shape).copy(),
+                np.broadcast_to(np.asarray(alpha_dot, dtype=float), t.shape).copy())
+
+    def heave_constants(self):
+        """The constants of :meth:`after_step`: ``n_per_cl`` (n = n_per_cl cl, i.e. kappa q c / (m' g)),
+        ``g`` (m/s^2), and the start state ``h``, ``h_dot`` (m, m/s)."""
+        return {"n_per_cl": self.n_per_cl, "g": G, "h": self.h, "h_dot": self.h_dot}
+
+    def take_rows(self, n, h_ddot, h_end, h_dot_end):
+        """Record the rows of a compiled march, as if :meth:`after_step` had run for each."""
+        self.n_rows = list(np.asarray(n, dtype=float))
+        self.a_rows = list(np.asarray(h_ddot, dtype=float))
+        self.h, self.h_dot = float(h_end), float(h_dot_end)
+        self.a_prev = self.a_rows[-1] if self.a_rows else None
 
     # -- observer -----------------------------------------------------------
     def on_step(self, s):

@@ -318,21 +318,56 @@ class LinearMarcher:
     accel : callable, optional
         ``accel(t) -> (alpha_ddot, h_ddot)`` of the prescribed motion.
     start : {"steady", "impulsive"}
+    w_series, u_series : array_like, optional
+        The gust at the leading edge already sampled at every row (steps + 1
+        values, m/s); used instead of ``w_le``/``u_le`` when given.
+    s_max : float, optional
+        Window of the direct Duhamel sums of the compiled march, semichords
+        (default :data:`unsteady.linear_kernels.S_MAX_DEFAULT`); older
+        inputs are carried by the exponential-sum tail (``tail=True``) or
+        forgotten (``tail=False``).  See :mod:`unsteady.linear_kernels`.
+    compiled : bool
+        Use the compiled march when the motion offers it (a
+        :class:`~unsteady.aircraft.HeaveMotion`: ``pitch``,
+        ``heave_constants``, ``take_rows``) and ``accel`` is given; else the
+        step-by-step Python march, which also serves any other motion object.
     """
 
     def __init__(self, motion, *, steps, dt, speed, chord, pivot, alpha_L0=0.0, cm0=0.0,
-                 w_le=None, u_le=None, accel=None, start="steady"):
+                 w_le=None, u_le=None, accel=None, start="steady", w_series=None, u_series=None,
+                 s_max=None, tail=True, compiled=True):
         self.motion = motion
         self.N = int(steps) + 1
         self.dt = float(dt)
         self.U, self.c, self.pivot = float(speed), float(chord), float(pivot)
         self.alpha_L0, self.cm0 = float(alpha_L0), float(cm0)
+        self.w_series = None if w_series is None else np.asarray(w_series, dtype=float)
+        self.u_series = None if u_series is None else np.asarray(u_series, dtype=float)
+        if self.w_series is not None and w_le is None:
+            w_le = lambda tt, hh: self.w_series[int(round(tt / self.dt))]
+        if self.u_series is not None and u_le is None:
+            u_le = lambda tt, hh: self.u_series[int(round(tt / self.dt))]
         self.w_le, self.u_le, self.accel = w_le, u_le, accel
         self.start = start
         self.ds = 2.0 * self.U * self.dt / self.c
+        from .linear_kernels import S_MAX_DEFAULT
+        self.s_max = S_MAX_DEFAULT if s_max is None else float(s_max)
+        if not self.s_max > 0.0:
+            raise ValueError(f"s_max must be > 0 semichords, got {s_max!r}")
+        self.tail = bool(tail)
+        self.compiled = bool(compiled)
+
+    def _can_compile(self, on_row):
+        m = self.motion
+        return (self.compiled and on_row is None and self.accel is not None
+                and all(hasattr(m, k) for k in ("pitch", "heave_constants", "take_rows"))
+                and (self.w_le is None or self.w_series is not None)
+                and (self.u_le is None or self.u_series is not None))
 
     def run(self, on_row=None):
         """March all steps; returns a dict of history arrays (t, alpha, alpha_dot, h, h_dot, loads)."""
+        if self._can_compile(on_row):
+            return self._run_compiled()
         N, dt, U, c, pv = self.N, self.dt, self.U, self.c, self.pivot
         b, a = 0.5 * c, 2.0 * pv - 1.0
         names = ("t", "alpha", "alpha_dot", "h", "h_dot", "cl", "cd", "cm", "cm_pivot",
@@ -393,6 +428,51 @@ class LinearMarcher:
                 on_row(n, row)
             self.motion.after_step(t, dt, row)
             prev = (alpha_dot, h_dot)
+        return H
+
+    def _run_compiled(self):
+        """The march of :meth:`run` in :func:`unsteady.linear_kernels.march_heave` (free heave)."""
+        from .linear_kernels import march_heave, memory_tail
+        N, dt = self.N, self.dt
+        t = np.arange(N) * dt
+        alpha, alpha_dot = self.motion.pitch(t)
+        alpha_ddot, h_ddot_p = (np.broadcast_to(np.asarray(v, dtype=float), t.shape)
+                                for v in self.accel(t))
+        alpha_ddot = np.ascontiguousarray(alpha_ddot)
+        hc = self.motion.heave_constants()
+        if hc["h"] != 0.0 or hc["h_dot"] != 0.0:
+            raise ValueError("the compiled march starts from h = h_dot = 0")
+        zero = np.zeros(N)
+        w = zero if self.w_series is None else np.ascontiguousarray(self.w_series[:N])
+        u = zero if self.u_series is None else np.ascontiguousarray(self.u_series[:N])
+        # window of the direct sums (lags 0 .. M-1); the whole run when it is shorter
+        M = max(1, min(N - 1, int(math.ceil(self.s_max / self.ds))))
+        Ww = indicial_weights("wagner", self.ds, M)
+        Wk = indicial_weights("kuessner", self.ds, M)
+        empty = np.zeros(0)
+        cw = dw = ck = dk = empty
+        if self.tail and M < N - 1:
+            cw, dw = memory_tail("wagner", self.ds, M, N * self.ds)
+            ck, dk = memory_tail("kuessner", self.ds, M, N * self.ds)
+        if self.start == "steady":
+            R_w = R_k = np.ones(N)
+        else:
+            R_w = theory.wagner(np.arange(N) * self.ds)
+            R_k = theory.kuessner(np.arange(N) * self.ds)
+            R_w[0] = R_k[0] = 0.0
+        names = ("h", "h_dot", "h_ddot", "n", "cl", "cd", "cm", "cm_pivot", "cl_c", "cl_nc",
+                 "cl_gust", "q34")
+        out = {k: np.empty(N) for k in names}
+        h_end, h_dot_end = march_heave(
+            alpha, alpha_dot, alpha_ddot, w, u, R_w, R_k, Ww, Wk, cw, dw, ck, dk,
+            float(h_ddot_p[0]), dt, self.U, self.c, self.pivot, self.alpha_L0, self.cm0,
+            float(hc["n_per_cl"]), float(hc["g"]), *(out[k] for k in names))
+        self.motion.take_rows(out["n"], out["h_ddot"], h_end, h_dot_end)
+        H = {"t": t, "alpha": alpha, "alpha_dot": alpha_dot}
+        H.update(out)
+        H["w_le"] = w.copy()
+        H["u_le"] = u.copy()
+        self.window_semichords = M * self.ds
         return H
 
 
@@ -486,9 +566,8 @@ def simulate_linear(sc, observers=(), progress=False):
             u_arr, w_arr = gust_at_le(t_all, np.zeros_like(t_all))
         marcher = LinearMarcher(
             motion, steps=steps, dt=dt, speed=U, chord=c, pivot=pv, alpha_L0=alpha_L0, cm0=cm0,
-            w_le=(lambda tt, hh: w_arr[int(round(tt / dt))]) if gust is not None else None,
-            u_le=(lambda tt, hh: u_arr[int(round(tt / dt))])
-            if gust is not None and gust.streamwise else None,
+            w_series=w_arr if gust is not None else None,
+            u_series=u_arr if gust is not None and gust.streamwise else None,
             accel=kin.accel, start=start)
         H = marcher.run()
         t, alpha, alpha_dot, h, h_dot = H["t"], H["alpha"], H["alpha_dot"], H["h"], H["h_dot"]
@@ -544,6 +623,12 @@ def simulate_linear(sc, observers=(), progress=False):
 
 def _gust_series(gust, x_le, t, h):
     """Gust (u, w) at the leading edge's path for an array of times."""
+    t = np.asarray(t, dtype=float)
+    if hasattr(gust, "profiles") and hasattr(gust, "xi"):
+        # a GustField: its pattern depends on xi(x, t) only, which is elementwise
+        # in t, so one call per profile samples the whole path
+        u, w = gust.velocity(np.full(t.shape, float(x_le)), np.broadcast_to(h, t.shape), t)
+        return np.asarray(u, dtype=float), np.asarray(w, dtype=float)
     u = np.empty(np.shape(t))
     w = np.empty(np.shape(t))
     h = np.broadcast_to(h, np.shape(t))
