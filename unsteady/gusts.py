@@ -536,6 +536,16 @@ class GustObserver:
         self.rows["u_gust"].append(u)
         self.rows["alpha_eff_deg"].append(math.degrees(s.alpha + math.atan2(w - s.h_dot, self.U + u)))
 
+    def record_rows(self, t, alpha, h, h_dot):
+        """:meth:`on_step` for many rows at once (arrays of t (s), alpha (rad), h (m), h_dot (m/s))."""
+        t = np.asarray(t, dtype=float)
+        alpha = np.asarray(alpha, dtype=float)
+        x_le = -self.pivot * self.chord * np.cos(alpha)
+        u, w = self.gust.velocity(x_le, np.broadcast_to(h, t.shape), t)  # xi is elementwise in t
+        self.rows["w_gust"].extend(np.asarray(w, dtype=float).tolist())
+        self.rows["u_gust"].extend(np.asarray(u, dtype=float).tolist())
+        self.rows["alpha_eff_deg"].extend(np.degrees(alpha + np.arctan2(w - h_dot, self.U + u)).tolist())
+
     def finish(self, history):
         """Fill the columns of the recorded rows."""
         n = len(history["t"])

@@ -56,8 +56,9 @@ def effective_alpha(history, sc):
         from .gusts import build_gust_field
         field = build_gust_field(sc)
         x34 = (0.75 - pv) * c
-        w = np.array([field.velocity(np.array([x34]), np.array([hn]), float(tn))[1][0]
-                      for tn, hn in zip(history["t"], history["h"])])
+        t = np.asarray(history["t"], dtype=float)
+        # the pattern depends on xi(x, t) only, elementwise in t: one call for all rows
+        w = field.velocity(np.full(t.shape, x34), np.asarray(history["h"], dtype=float), t)[1]
         out = out + w / U
     return out
 

@@ -588,7 +588,9 @@ def simulate_linear(sc, observers=(), progress=False):
     assert all(k in history for k in BASE_COLUMNS + EXTRA_COLUMNS)
 
     # Observers see every row (the gust observer fills its columns here).
-    if extra_obs or observers:
+    if g_obs is not None and not observers and hasattr(g_obs, "record_rows"):
+        g_obs.record_rows(t, alpha, h, h_dot)      # the same rows, in one call
+    elif extra_obs or observers:
         for n in range(t.shape[0]):
             loads = {k: float(history[k][n]) for k in ("cl", "cd", "cm", "cm_pivot")}
             st = _LightState(n, float(t[n]), float(alpha[n]), float(alpha_dot[n]),
