@@ -63,48 +63,39 @@ def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
         _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w)
 
 
-@njit(parallel=True, fastmath=True, cache=True, error_model="numpy")
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _induced_rows(xt, zt, xs, zs, gamma, r_c, u, w, i0, i1):
+    """The Biot-Savart sum for targets i0 <= i < i1 (one thread)."""
+    ns = xs.shape[0]
+    r_c4 = r_c * r_c * r_c * r_c
+    inv_2pi = 1.0 / TWO_PI
+    for i in range(i0, i1):
+        x_i = xt[i]
+        z_i = zt[i]
+        su = 0.0
+        sw = 0.0
+        for j in range(ns):
+            dx = x_i - xs[j]
+            dz = z_i - zs[j]
+            r2 = dx * dx + dz * dz
+            f = gamma[j] / math.sqrt(r2 * r2 + r_c4)
+            su -= f * dz
+            sw += f * dx
+        u[i] = su * inv_2pi
+        w[i] = sw * inv_2pi
+
+
+@njit(parallel=True, cache=True, error_model="numpy")
 def _induced_velocity_threads(xt, zt, xs, zs, gamma, r_c, u, w):
     nt = xt.shape[0]
-    ns = xs.shape[0]
-    r_c4 = r_c * r_c * r_c * r_c
-    inv_2pi = 1.0 / TWO_PI
-    for i in prange(nt):
-        x_i = xt[i]
-        z_i = zt[i]
-        su = 0.0
-        sw = 0.0
-        for j in range(ns):
-            dx = x_i - xs[j]
-            dz = z_i - zs[j]
-            r2 = dx * dx + dz * dz
-            f = gamma[j] / math.sqrt(r2 * r2 + r_c4)
-            su -= f * dz
-            sw += f * dx
-        u[i] = su * inv_2pi
-        w[i] = sw * inv_2pi
+    blocks = min(nt, 64)
+    for k in prange(blocks):
+        _induced_rows(xt, zt, xs, zs, gamma, r_c, u, w, k * nt // blocks, (k + 1) * nt // blocks)
 
 
-@njit(fastmath=True, cache=True, error_model="numpy")
+@njit(cache=True, error_model="numpy")
 def _induced_velocity_one(xt, zt, xs, zs, gamma, r_c, u, w):
-    nt = xt.shape[0]
-    ns = xs.shape[0]
-    r_c4 = r_c * r_c * r_c * r_c
-    inv_2pi = 1.0 / TWO_PI
-    for i in range(nt):
-        x_i = xt[i]
-        z_i = zt[i]
-        su = 0.0
-        sw = 0.0
-        for j in range(ns):
-            dx = x_i - xs[j]
-            dz = z_i - zs[j]
-            r2 = dx * dx + dz * dz
-            f = gamma[j] / math.sqrt(r2 * r2 + r_c4)
-            su -= f * dz
-            sw += f * dx
-        u[i] = su * inv_2pi
-        w[i] = sw * inv_2pi
+    _induced_rows(xt, zt, xs, zs, gamma, r_c, u, w, 0, xt.shape[0])
 
 
 @njit(fastmath=True, cache=True, error_model="numpy")
