@@ -18,6 +18,7 @@ __all__ = [
     "gust_lift",
     "linear_loads",
     "LinearMarcher",
+    "heave_marcher",
     "section_constants",
 ]
 
@@ -480,6 +481,41 @@ class LinearMarcher:
 # A scenario run with the linear model (``[run] model = "linear"``)
 # ---------------------------------------------------------------------------
 
+def heave_marcher(sc, motion=None, gust=None, **options):
+    """The :class:`LinearMarcher` of a scenario with ``[aircraft]`` (free heave).
+
+    Parameters
+    ----------
+    sc : Scenario
+        With ``[aircraft]``.
+    motion : HeaveMotion, optional
+        Built from the scenario when not given (it trims the attitude).
+    gust : GustField, optional
+        Built from the scenario's ``[gust]`` when not given.
+    **options
+        ``s_max``, ``tail``, ``compiled`` of :class:`LinearMarcher`.
+    """
+    if motion is None:
+        from .aircraft import HeaveMotion
+        motion = HeaveMotion(sc, sc.kinematics)
+    if gust is None and sc.data.get("gust"):
+        from .gusts import build_gust_field
+        gust = build_gust_field(sc)
+    alpha_L0, cm0 = section_constants(sc.section)
+    steps, dt = sc.steps, sc.dt
+    u_arr = w_arr = None
+    if gust is not None:
+        # a frozen pattern carried by the air: the leading edge's path at
+        # zero pitch meets it at known times, whatever the heave
+        t_all = np.arange(steps + 1) * dt
+        u_arr, w_arr = _gust_series(gust, -sc.pivot * sc.chord, t_all, np.zeros_like(t_all))
+    return LinearMarcher(
+        motion, steps=steps, dt=dt, speed=sc.speed, chord=sc.chord, pivot=sc.pivot,
+        alpha_L0=alpha_L0, cm0=cm0, w_series=w_arr,
+        u_series=u_arr if gust is not None and gust.streamwise else None,
+        accel=sc.kinematics.accel, start=sc.data["run"]["start"], **options)
+
+
 class _LightState:
     """What a time-loop observer sees from the linear model (no wake, no body points)."""
 
@@ -559,17 +595,7 @@ def simulate_linear(sc, observers=(), progress=False):
                            u_le=u_le if gust is not None and gust.streamwise else None, start=start)
         cl_c = out["cl_c"] + out["cl_gust"]
     else:
-        if gust is not None:
-            # a frozen pattern carried by the air: the leading edge's path at
-            # zero pitch meets it at known times, whatever the heave
-            t_all = np.arange(steps + 1) * dt
-            u_arr, w_arr = gust_at_le(t_all, np.zeros_like(t_all))
-        marcher = LinearMarcher(
-            motion, steps=steps, dt=dt, speed=U, chord=c, pivot=pv, alpha_L0=alpha_L0, cm0=cm0,
-            w_series=w_arr if gust is not None else None,
-            u_series=u_arr if gust is not None and gust.streamwise else None,
-            accel=kin.accel, start=start)
-        H = marcher.run()
+        H = heave_marcher(sc, motion, gust).run()
         t, alpha, alpha_dot, h, h_dot = H["t"], H["alpha"], H["alpha_dot"], H["h"], H["h_dot"]
         out = H
         cl_c = H["cl_c"] + H["cl_gust"]

@@ -32,11 +32,12 @@ from numba import njit
 
 __all__ = ["memory_tail", "march_heave", "S_MAX_DEFAULT", "TAIL_STEP"]
 
-#: Default window of the direct Duhamel sum, semichords (100 chords).  The far
-#: memory beyond it is carried by the exponential sum; the load factor of a
-#: 60 s turbulence run changes by about 1e-9 against a window of the whole run
-#: (tools/benchmark_linear.py prints the figure).
-S_MAX_DEFAULT = 200.0
+#: Default window of the direct Duhamel sum, semichords (25 chords).  The far
+#: memory beyond it is carried by the exponential sum, which matches the
+#: tabulated weights to about 1e-9 of the deficit (tests/test_linear_kernels.py);
+#: tools/benchmark_linear.py prints the change of the peak load factor against
+#: a window of the whole run, and against dropping the far memory.
+S_MAX_DEFAULT = 50.0
 
 #: Step of the trapezoidal rule in u = ln x (the rule's error falls like
 #: exp(-pi^2 / h) for an integrand analytic in a strip of half-width pi/2:
