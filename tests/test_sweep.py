@@ -8,6 +8,7 @@ import os
 import signal
 import socket
 import subprocess
+import sys
 import time
 from pathlib import Path
 
@@ -17,8 +18,10 @@ from unsteady import cli, sweep
 from unsteady.scenario import ScenarioError, default_dt, load_scenario
 
 ROOT = Path(__file__).resolve().parents[1]
-DASK = ROOT / ".venv" / "bin" / "dask"
-UNSTEADY = ROOT / ".venv" / "bin" / "unsteady"
+# the console scripts of the environment running the tests (any venv name)
+BIN = Path(sys.executable).parent
+DASK = BIN / "dask"
+UNSTEADY = BIN / "unsteady"
 
 # A small case (8 elements, 4 chords travelled) so that a sweep takes seconds.
 BASE = """
