@@ -28,7 +28,7 @@ ALPHA_EFF_LIMIT_DEG = 12.0
 PITCH_RATE_LIMIT = 0.05
 
 
-def effective_alpha(history, sc):
+def effective_alpha(history, sc, gust=None):
     """Effective angle of attack at the three-quarter chord, rad.
 
     alpha_eff = alpha - h'/U + b (1/2 - a) alpha'/U + w_g(x_3/4)/U, with h
@@ -42,6 +42,9 @@ def effective_alpha(history, sc):
     history : dict of ndarray
         Needs t, alpha_deg, alpha_dot_deg_s, h, h_dot.
     sc : Scenario
+    gust : GustField, optional
+        The scenario's gust field when the caller has it already (a long
+        turbulence realisation is costly to draw twice); built otherwise.
 
     Returns
     -------
@@ -54,7 +57,7 @@ def effective_alpha(history, sc):
     out = alpha - history["h_dot"] / U + b * (0.5 - a) * alpha_dot / U
     if sc.data.get("gust"):
         from .gusts import build_gust_field
-        field = build_gust_field(sc)
+        field = gust if gust is not None else build_gust_field(sc)
         x34 = (0.75 - pv) * c
         t = np.asarray(history["t"], dtype=float)
         # the pattern depends on xi(x, t) only, elementwise in t: one call for all rows
@@ -63,7 +66,7 @@ def effective_alpha(history, sc):
     return out
 
 
-def add_quasi_steady(history, sc):
+def add_quasi_steady(history, sc, gust=None):
     """Add the columns ``alpha_eff_deg`` and ``cl_quasi_steady`` to a history (in place).
 
     cl_qs = 2 pi (alpha_eff - alpha_L0): the steady thin-airfoil lift at the
@@ -72,7 +75,7 @@ def add_quasi_steady(history, sc):
     """
     from .linear import section_constants
     alpha_L0, _cm0 = section_constants(sc.section)
-    ae = effective_alpha(history, sc)
+    ae = effective_alpha(history, sc, gust)
     history["alpha_eff_deg"] = np.degrees(ae)
     history["cl_quasi_steady"] = 2.0 * np.pi * (ae - alpha_L0)
     return history

@@ -644,7 +644,7 @@ def simulate_linear(sc, observers=(), progress=False):
     summary.update(model="linear", dt=dt, start=start, panels=sc.panels,
                    chords_travelled=float(history["t_star"][-1] - history["t_star"][0]))
     from .lag import add_quasi_steady, lag_summary
-    add_quasi_steady(history, sc)
+    add_quasi_steady(history, sc, gust)
     summary["lag"] = lag_summary(history, sc)
     return Result(history, summary, snapshots, sc)
 
