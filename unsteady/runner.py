@@ -100,14 +100,15 @@ def simulate(scenario, observers=(), *, progress=False):
             o.finish(history)
     snapshots = snaps.arrays()
     snapshots["dcp"] = rec.dcp[:rec.count]
-    snapshots["x_dcp"] = 0.5 * (body.xi_0 + body.xi_0 + body.ds * body.t_xi) / sc.chord + sc.pivot
+    snapshots["x_dcp"] = (body.xi_0 + 0.5 * body.ds * body.t_xi) / sc.chord + sc.pivot   # element mid-points
     for o in extra_obs:
         if hasattr(o, "summary"):
             summary_extra.update(o.summary(history))
     summary = make_summary(history, steps=rec.count - 1, wall_time_s=time.perf_counter() - t_wall,
                            extra=summary_extra)
+    travelled = float(history["t_star"][-1] - history["t_star"][0]) if len(history["t"]) else 0.0
     summary.update(model="vortex", dt=sc.dt, wake=run["wake"], start=run["start"],
-                   panels=sc.panels, chords_travelled=float(history["t_star"][-1] - history["t_star"][0]) if len(history["t"]) else 0.0)
+                   panels=sc.panels, far_wake_chords=run.get("far_wake"), chords_travelled=travelled)
     if error:
         summary["error"] = error
     from .lag import add_quasi_steady, lag_summary  # quasi-steady column, lag metrics, validity flag
