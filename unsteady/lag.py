@@ -132,14 +132,18 @@ def _motion_kind(sc):
                     return "periodic", 2.0 * math.pi * float(law["frequency"])
                 return "periodic", 2.0 * U * float(law["reduced_frequency"]) / c
     begins = []
+    leads = [0.0]
     for q in ("pitch", "plunge"):
         for law in _laws(mo.get(q)):
             if law.get("law") == "ramp":
                 begins.append(float(law.get("start", 0.0)))
+                # a rounded ramp starts moving about 4 smoothing times early
+                # (log-cosh tail below 0.1 % of its rate); the baseline is taken there
+                leads.append(4.0 * float(law.get("smoothing", 0.0) or 0.0))
             elif law.get("law") == "step":
                 begins.append(float(law.get("time", 0.0)))
     if begins:
-        return "transient", min(begins)
+        return "transient", (min(begins), max(leads))
     return None, None
 
 
@@ -206,10 +210,10 @@ def lag_summary(history, sc):
     kind, par = _motion_kind(sc)
     out["motion"] = kind or "other"
     if kind == "transient" and len(t) > 1:
-        t_begin = par
+        t_begin, lead = par
         # the last sample before the change (a step's value at its own time is the new one)
         eps = 1e-9 * (t[1] - t[0])
-        i0 = max(int(np.searchsorted(t, t_begin - eps, side="left")) - 1, 0)
+        i0 = max(int(np.searchsorted(t, t_begin - lead - eps, side="left")) - 1, 0)
         sel = slice(i0, None)
         y0, y1 = cl[i0], qs[-1]
         q0 = qs[i0]
