@@ -87,3 +87,17 @@ def test_crossing_time_ignores_early_spike():
     y = np.array([0.0, 2.0, 0.2, 0.6, 0.95, 1.0])   # spike then a slow rise
     assert lag.crossing_time(t, y, 0.0, 1.0, 0.5) == pytest.approx(2.75)
     assert math.isnan(lag.crossing_time(t, y, 0.0, 0.0, 0.5))
+
+
+def test_rounded_fast_ramp_lags_like_a_step():
+    # Pitching about the three-quarter chord, the circulatory lift sees the
+    # angle alone (Theodorsen, NACA Rep. 496: the rate term b (1/2 - a) alpha'
+    # vanishes at a = 1/2), so a very fast rounded ramp (1 ms rise, 0.2 ms
+    # rounding) lags like a step (Wagner 1925): t90 within 2 ms of the step's
+    # s90 c / (2U), although its apparent-mass rise starts before t_begin.
+    sc = _sc({"law": "ramp", "from": 0.0, "to": 3.0, "start": 0.01, "duration": 0.001,
+              "smoothing": 0.0002})
+    sc = sc.with_overrides({"motion.pivot": 0.75})
+    L = simulate(sc).summary["lag"]
+    s90 = brentq(lambda s: theory.wagner(s) - 0.9, 0.1, 100.0)
+    assert L["t90"] == pytest.approx(s90 * sc.chord / (2 * sc.speed), abs=0.002)
