@@ -29,7 +29,7 @@ SCENARIO = {
                "plunge": {"law": "sine", "amplitude": 0.02, "reduced_frequency": 0.5}},
     # frozen wake: the run is quick and every vortex stays on the chord's path, so with
     # --reach covering the whole wake all ~2,000 of them are drawn in every frame
-    "run": {"chords": 52, "wake": "frozen"},
+    "run": {"chords": 52, "wake": "frozen", "far_wake": 1e9},   # keep all ~2,000 wake vortices
     "output": {"snapshot_every": 0.0002},
 }
 
