@@ -188,3 +188,25 @@ def test_pressure_and_impulse_loads_agree():
     for a, b in (("cl", "cl_impulse"), ("cm", "cm_impulse")):
         peak = np.abs(h[a]).max()
         assert np.abs(h[a][2:] - h[b][2:]).max() < 0.01 * peak, a
+
+
+@pytest.mark.parametrize("k", [0.25, 0.5, 1.0])
+def test_plunging_plate_thrust_matches_garrick(k):
+    # Mean thrust of a plunging flat plate: C_T = pi k^2 (h0/b)^2 (F^2 + G^2)
+    # (I. E. Garrick, NACA Rep. 567, 1936; formula from memory), small amplitude,
+    # within 2 %.  A thrust shows as negative drag.
+    U, c = 10.0, 0.2
+    b = c / 2
+    h0 = 0.1 * b
+    sc = load_scenario({
+        "flow": {"speed": U, "density": 1.2},
+        "airfoil": {"shape": "flat", "chord": c, "panels": 40},
+        "motion": {"plunge": {"law": "sine", "amplitude": h0, "reduced_frequency": k}},
+        "run": {"chords": 60.0, "wake": "frozen"},
+        "output": {"plots": False},
+    })
+    h = simulate(sc).history
+    period = 2 * math.pi / (2 * U * k / c)
+    sel = h["t"] >= h["t"][-1] - 2 * period
+    c_T = math.pi * k ** 2 * (h0 / b) ** 2 * abs(theory.theodorsen(k)) ** 2
+    assert -h["cd"][sel].mean() == pytest.approx(c_T, rel=0.02)
