@@ -29,6 +29,13 @@ over all bound and wake vortices, in a frame where the air at infinity is
 at rest; the starting vortex of a steady start sits at rest at infinity in
 that frame and adds nothing.  Time derivatives are second-order backward
 differences (first order on the first step).
+
+The pressure route gives the reported ``cl``, ``cd``, ``cm``; the impulse route
+(``*_impulse`` columns) is the independent check.  The impulse counts the force
+on everything, so it equals the force on the airfoil only when the wake is
+force-free, i.e. moves with the local flow: with a frozen wake (carried at U)
+the two differ, in drag most (a plunging plate's mean thrust: pressure route
+within 0.4 % of Garrick's formula, impulse route up to 17 % above it).
 """
 
 from __future__ import annotations
