@@ -378,12 +378,13 @@ class FilmRenderer:
             self.q_x = np.linspace(*self.xlim, 25)[1:-1]
             zq = np.full_like(self.q_x, 0.5 * (band[0] + band[1]))
             half = 0.45 * (band[1] - band[0])
+            self.g_follow = o.flow == "vortices"     # the band rides at the airfoil's height
             self.quiv = ax.quiver(self.q_x, zq - 0.0, np.zeros_like(self.q_x), np.zeros_like(self.q_x),
                                   angles="xy", scale_units="xy", scale=f.gust_max / half, pivot="middle",
                                   color=LOOK["ink"], alpha=0.55, width=0.0025, headwidth=3.5, headlength=4,
                                   zorder=0.6, animated=True)
-            ax.text(0.005, (band[1] - zs[0]) / (zs[1] - zs[0]) + 0.005,
-                    f"vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
+            ax.text(0.005, 0.012,
+                    f"band and arrows: vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
                     transform=ax.transAxes, fontsize=fs * 0.72, color=LOOK["muted"], va="bottom")
             self.animated += [self.gust_img, self.quiv]
         # field
@@ -521,6 +522,10 @@ class FilmRenderer:
             w = f.gust_w(self.g_x - sh, t)
             self.gust_img.set_data(w[None, :])
             self.quiv.set_UVC(np.zeros_like(self.q_x), f.gust_w(self.q_x - sh, t))
+            if self.g_follow:
+                lo, hi = h - 0.75 * f.c, h + 0.75 * f.c
+                self.gust_img.set_extent((self.xlim[0], self.xlim[1], lo, hi))
+                self.quiv.set_offsets(np.column_stack([self.q_x, np.full_like(self.q_x, h)]))
         if self.scat is not None:
             x, z, g = f.wake(i)
             self.scat.set_offsets(np.column_stack([x, z]))
