@@ -155,10 +155,18 @@ def test_theodorsen_harmonic_lift(kind, pivot, k):
     })
     res = simulate(sc)
     cl_hat = first_harmonic(res.history["t"], res.history["cl"], omega)
-    ref, _ = theory.theodorsen_loads(k, alpha_amp=alpha_amp, h_amp_c=h_amp_c, pivot=pivot)
+    ref, cm_ref = theory.theodorsen_loads(k, alpha_amp=alpha_amp, h_amp_c=h_amp_c, pivot=pivot)
     assert abs(cl_hat) == pytest.approx(abs(ref), rel=0.01)
     dphase = math.degrees(np.angle(cl_hat / ref))
     assert abs(dphase) < 1.0, f"phase off by {dphase:.3f} deg"
+    # Quarter-chord moment against Theodorsen's moment (same source).  It is small
+    # (a flat plate's circulatory lift acts at c/4), so a slight shift of the
+    # discrete centre of pressure shows: measured within 2.8 % and 0.4 deg for pitch,
+    # 5.4 % and 1.1 deg for plunge at 40 elements; the bounds record that.
+    cm_hat = first_harmonic(res.history["t"], res.history["cm"], omega)
+    tol_a, tol_p = (0.03, 0.5) if kind == "pitch" else (0.06, 1.5)
+    assert abs(cm_hat) == pytest.approx(abs(cm_ref), rel=tol_a)
+    assert abs(math.degrees(np.angle(cm_hat / cm_ref))) < tol_p
 
 
 # ---------------------------------------------------------------- conservation, loads
