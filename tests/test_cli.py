@@ -84,8 +84,43 @@ def test_rerun_replaces_directory_atomically(tmp_path):
     f.write_text(GOOD)
     out = tmp_path / "out"
     assert main(["run", str(f), "--out", str(out), "--quiet"]) == 0
-    (out / "stale.txt").write_text("old")
+    (out / "stale.png").write_text("old")   # a picture of the earlier run
     assert main(["run", str(f), "--out", str(out), "--quiet", "--set", "run.chords=2"]) == 0
-    assert not (out / "stale.txt").exists()
+    assert not (out / "stale.png").exists()
     t = np.loadtxt(out / "history.csv", delimiter=",", skiprows=1)[:, 1]
     assert t[-1] == pytest.approx(2.0, abs=0.1)
+
+
+def test_out_never_deletes_a_folder_that_is_not_a_run(tmp_path, capsys):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    victim = tmp_path / "victim"
+    (victim / "precious").mkdir(parents=True)
+    (victim / "precious" / "data.txt").write_text("keep")
+    assert main(["run", str(f), "--out", str(victim), "--quiet"]) == 2
+    assert (victim / "precious" / "data.txt").read_text() == "keep"
+    assert "does not hold an earlier run" in capsys.readouterr().err
+    # an empty folder is fine, and so is a path under a new folder
+    (tmp_path / "empty").mkdir()
+    assert main(["run", str(f), "--out", str(tmp_path / "empty"), "--quiet"]) == 0
+    assert main(["run", str(f), "--out", str(tmp_path / "new" / "deeper"), "--quiet"]) == 0
+
+
+def test_out_under_a_file_is_refused_before_running(tmp_path, capsys):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    (tmp_path / "afile").write_text("x")
+    assert main(["run", str(f), "--out", str(tmp_path / "afile" / "x")]) == 2
+    assert "is a file" in capsys.readouterr().err
+
+
+def test_run_folder_permissions_follow_umask(tmp_path):
+    import os
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    old = os.umask(0o022)
+    try:
+        assert main(["run", str(f), "--out", str(tmp_path / "o"), "--quiet"]) == 0
+    finally:
+        os.umask(old)
+    assert (tmp_path / "o").stat().st_mode & 0o777 == 0o755

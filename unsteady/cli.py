@@ -11,6 +11,7 @@ import sys
 from pathlib import Path
 
 from .errors import InputError
+from .results import check_out_dir
 from .scenario import ScenarioError, load_scenario
 
 # Subcommands: name -> (add_arguments(parser), handler(args) -> exit status).
@@ -50,8 +51,9 @@ def cmd_run(args):
     from .runner import simulate
     sc = _load(args)
     out = Path(args.out) if args.out else sc.out_dir()
-    if out.exists() and not out.is_dir():
-        raise UsageError(f"error: {out}: --out: exists and is not a folder; give a new or existing folder")
+    problem = check_out_dir(out)
+    if problem:
+        raise UsageError(problem)
     res = simulate(sc, progress=not args.quiet)
     path = res.save(out, plots=sc.data["output"].get("plots", True) and not args.no_plots)
     if res.error:
@@ -64,6 +66,9 @@ def cmd_run(args):
               f"cl {s.get('cl_min', float('nan')):.4f} .. {s.get('cl_max', float('nan')):.4f} "
               f"(max at t = {s.get('t_cl_max', float('nan')):.4g} s)"
               + (f"; load factor {s['n_min']:.3f} .. {s['n_max']:.3f}" if "n_max" in s else ""))
+        if "n_max" in s:
+            from .theory import GUST_CAUTION
+            print(f"caution: {GUST_CAUTION}")
     return 0
 
 

@@ -51,13 +51,18 @@ class Result:
     def save(self, out_dir, plots=True):
         """Write the run directory atomically (temporary folder, then rename).
 
-        Returns the Path written.  An existing directory of the same name is
-        replaced only once the new one is complete.
+        Returns the Path written.  An existing run directory of the same name
+        is replaced only once the new one is complete; any other existing
+        folder is refused (see :func:`check_out_dir`), never deleted.
         """
         out_dir = Path(out_dir)
+        problem = check_out_dir(out_dir)
+        if problem:
+            raise ValueError(problem)
         parent = out_dir.resolve().parent
         parent.mkdir(parents=True, exist_ok=True)
         tmp = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.", suffix=".part", dir=parent))
+        os.chmod(tmp, 0o777 & ~_umask())
         try:
             (tmp / "history.csv").write_text(history_csv(self.history))
             (tmp / "summary.json").write_text(json.dumps(_jsonable(self.summary), indent=2) + "\n")
@@ -98,6 +103,44 @@ class Result:
             except Exception:
                 scenario = None
         return cls(history, summary, snaps, scenario)
+
+
+RUN_FILES = ("history.csv", "summary.json", "scenario.toml", "snapshots.npz")
+
+
+def _umask():
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
+
+
+def check_out_dir(out_dir):
+    """Why ``out_dir`` cannot take a run directory, or None when it can.
+
+    A run may go to a new path, an empty folder, or a folder holding an
+    earlier run (``history.csv`` or ``summary.json`` and only files a run
+    writes); anything else is refused so that no user data is deleted.
+    """
+    out_dir = Path(out_dir)
+    if out_dir.exists():
+        if not out_dir.is_dir():
+            return f"error: {out_dir}: --out: exists and is not a folder; give a new folder or an earlier run's"
+        names = [p.name for p in out_dir.iterdir()]
+        if names:
+            is_run = any(n in ("history.csv", "summary.json") for n in names)
+            strange = [n for n in names if not (n in RUN_FILES or n.endswith(".png") or n.endswith((".mp4", ".gif")))]
+            if not is_run or strange:
+                return (f"error: {out_dir}: --out: is a folder that does not hold an earlier run "
+                        f"({len(names)} entries); give a new folder, an empty one or an earlier run's")
+        return None
+    anc = out_dir.absolute().parent
+    while not anc.exists():
+        anc = anc.parent
+    if not anc.is_dir():
+        return f"error: {out_dir}: --out: {anc} is a file, not a folder"
+    if not os.access(anc, os.W_OK | os.X_OK):
+        return f"error: {out_dir}: --out: cannot write in {anc}"
+    return None
 
 
 def history_csv(history) -> str:
