@@ -479,9 +479,13 @@ class SweepTable:
         _atomic_write(self.path, buf.getvalue().encode())
 
 
+from .results import _umask  # noqa: E402
+
+
 def _atomic_write(path, data: bytes):
     path = Path(path)
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
+    os.chmod(tmp, 0o666 & ~_umask())          # mkstemp makes it private; a table is not
     try:
         with os.fdopen(fd, "wb") as f:
             f.write(data)
@@ -768,6 +772,7 @@ def write_envelope(sc, out_dir, rows):
     path = Path(out_dir) / PICTURE_NAME
     fd, tmp = tempfile.mkstemp(prefix=f".{PICTURE_NAME}.", suffix=".png", dir=out_dir)
     os.close(fd)
+    os.chmod(tmp, 0o666 & ~_umask())
     try:
         fig.savefig(tmp, dpi=120)
         os.replace(tmp, path)
