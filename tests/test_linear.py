@@ -133,3 +133,18 @@ def test_free_heave_in_a_gust_matches_the_vortex_model():
         d["run"]["model"] = model
         n[model] = simulate(load_scenario(d)).summary["n_max"]
     assert n["linear"] - 1 == pytest.approx(n["vortex"] - 1, rel=0.005)
+
+
+def test_circulation_columns_match_the_vortex_model():
+    # Kutta-Joukowski, L = -rho U Gamma with counter-clockwise-positive Gamma
+    # (common practice sign): both models report the same bound and wake circulation
+    d = {"flow": {"speed": 10.0, "density": 1.2},
+         "airfoil": {"shape": "flat", "chord": 0.2, "panels": 20},
+         "motion": {"pitch": {"law": "ramp", "from": 0.0, "to": 2.0, "start": 0.01, "duration": 0.02}},
+         "run": {"chords": 6.0, "wake": "frozen"}, "output": {"plots": False}}
+    v = simulate(d).history
+    d["run"]["model"] = "linear"
+    li = simulate(d).history
+    for k in ("gamma_bound", "gamma_wake"):
+        assert li[k][-1] == pytest.approx(v[k][-1], rel=0.02), k
+    assert v["gamma_bound"][-1] < 0 < v["cl"][-1]

@@ -604,7 +604,7 @@ def simulate_linear(sc, observers=(), progress=False):
                "cl": out["cl"], "cd": out["cd"], "cm": out["cm"], "cm_pivot": out["cm_pivot"],
                "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
                "alpha_dot_deg_s": np.degrees(alpha_dot), "h_dot": h_dot}
-    gamma_b = 0.5 * U * c * cl_c
+    gamma_b = -0.5 * U * c * cl_c     # counter-clockwise positive, as the vortex model (L = -rho U Gamma)
     history["gamma_bound"] = gamma_b
     history["gamma_wake"] = (gamma_b[0] if start == "steady" else 0.0) - gamma_b
     history["wake_vortices"] = np.zeros_like(t)
