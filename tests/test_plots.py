@@ -130,3 +130,16 @@ def test_pictures_command_redraws_and_rejects_a_missing_folder(run, tmp_path, ca
     assert main(["pictures", str(tmp_path / "nowhere")]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and err[0].startswith("error: ")
+
+
+def test_pictures_command_redraws_the_gust_load_picture(tmp_path, capsys):
+    # a run with an aircraft gets gust-loads.png (with its caution) from `pictures` too
+    sc = unsteady.load_scenario({
+        "flow": {"speed": 15.0, "density": 1.2},
+        "airfoil": {"shape": "flat", "chord": 0.25, "panels": 8},
+        "aircraft": {"mass": 3.0, "wing_area": 0.55},
+        "gust": {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 2.0, "arrival": 0.02},
+        "run": {"chords": 6, "wake": "frozen"}})
+    out = unsteady.simulate(sc).save(tmp_path / "g", plots=False)
+    assert main(["pictures", str(out)]) == 0
+    assert (out / "gust-loads.png").is_file()

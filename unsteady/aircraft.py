@@ -328,3 +328,6 @@ def _register_plot():
     from . import plots
     if plot_gust_loads not in plots.EXTRA_PLOTS:
         plots.EXTRA_PLOTS.append(plot_gust_loads)
+
+
+_register_plot()   # runs with `n` get gust-loads.png, also when redrawn by `unsteady pictures`

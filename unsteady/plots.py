@@ -280,10 +280,7 @@ def _register():
         if res.scenario is None:
             from .animate import _read_resolved_scenario
             res.scenario = _read_resolved_scenario(run_dir)
-        try:                       # modules that add pictures to EXTRA_PLOTS when imported
-            from . import lag  # noqa: F401
-        except ImportError:
-            pass
+        from . import aircraft, lag  # noqa: F401  (they add their pictures to EXTRA_PLOTS)
         before = {p.name: p.stat().st_mtime_ns for p in run_dir.glob("*.png")}
         write_run_plots(res, run_dir)
         if not args.quiet:
