@@ -160,7 +160,7 @@ print(json.dumps({"rc": rc,
 
 def test_memory_stays_flat_with_film_length(run_dir, tmp_path):
     # frames are streamed to the encoder one at a time: 1000 frames need no more than
-    # 300 MB beyond 100 frames (issue requirement); ru_maxrss is in kB on Linux
+    # 300 MB beyond 100 frames (project target); ru_maxrss is in kB on Linux
     peaks = {}
     for n in (100, 1000):
         p = subprocess.run([sys.executable, "-c", PEAK, str(run_dir), str(tmp_path / f"m{n}.mp4"), str(n)],
@@ -200,7 +200,7 @@ def test_gust_band_shows_the_up_gust_where_it_is(tmp_path):
 
 
 def test_snapshots_of_a_2000_step_run_stay_small(tmp_path):
-    # issue requirement: a 2,000-step run's snapshot file under 50 MB, here at one snapshot per step
+    # project target: a 2,000-step run's snapshot file under 50 MB, here at one snapshot per step
     sc = unsteady.load_scenario({
         "flow": {"speed": 10.0, "density": 1.225},
         "airfoil": {"shape": "flat", "chord": 0.2, "panels": 8},

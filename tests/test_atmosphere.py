@@ -41,7 +41,7 @@ def test_sea_level_values_exact():
 
 
 def test_troposphere_density_power_law():
-    # references.md: rho = 1.225 (T/288.15)^4.2559 in the troposphere
+    # U.S. Standard Atmosphere 1976, troposphere: rho = 1.225 (T/288.15)^4.2559 in the troposphere
     z = np.linspace(-500.0, 11000.0, 23)
     T = atm.temperature(z)
     assert np.allclose(atm.density(z), 1.225 * (T / 288.15) ** 4.2559, rtol=2e-5)

@@ -281,7 +281,7 @@ def test_kuessner_initial_square_root_growth():
 
 
 def test_kuessner_sears_sparks_rough():
-    # references.md: the Sears-Sparks form is a rough approximation, about 10 % off near s = 1
+    # W. R. Sears & B. O. Sparks (from memory): their exponential form is a rough approximation, about 10 % off near s = 1
     exact = th.kuessner(1.0)
     assert 0.05 < (exact - th.kuessner_sears_sparks(1.0)) / exact < 0.15
     s = np.linspace(0.0, 50.0, 501)
@@ -372,7 +372,7 @@ def test_spectra_reject_bad_input():
 # ---------------------------------------------------------------------------
 
 def test_helmbold():
-    # references.md (Helmbold 1942 / DATCOM): a = 2 pi A / (2 + sqrt(A^2 + 4)) for a0 = 2 pi
+    # H. B. Helmbold (1942), as used in the USAF DATCOM: a = 2 pi A / (2 + sqrt(A^2 + 4)) for a0 = 2 pi
     A = np.array([0.5, 3.0, 7.5, 20.0])
     assert np.allclose(th.helmbold_lift_slope(A), 2 * np.pi * A / (2 + np.sqrt(A**2 + 4)))
     # slender wing a = pi A / 2 (R. T. Jones, NACA Rep. 835, from memory)

@@ -3,7 +3,8 @@
 Usage: .venv/bin/python tools/bench_animate.py [--frames N] [--keep DIR]
 
 Prints one line per case: frames, wall time, frames per second (render and
-encode together, written to a real MP4 or GIF), and the issue's target.
+encode together, written to a real MP4 or GIF), and the target the project set for it (15 frames/s with wake vortices, 5 with a
+smoothed vorticity field, at 1280x720 with a wake of about 2,000 vortices).
 """
 
 from __future__ import annotations

@@ -19,7 +19,7 @@ __all__ = [
 
 #: Effective angle (deg) beyond which attached, inviscid results stop being
 #: trustworthy: thin sections stall near 10-15 degrees at the Reynolds numbers
-#: of small drones (common practice; see docs of the references table).
+#: of small drones (common practice).
 ALPHA_EFF_LIMIT_DEG = 12.0
 
 #: Reduced pitch rate alpha_dot c / (2 U) beyond which a leading-edge vortex

@@ -33,7 +33,7 @@ KS = [0.05, 0.1, 0.2, 0.5, 1.0, 2.0]
 @pytest.mark.parametrize("k", KS)
 def test_pitch_matches_theodorsen(k, pivot):
     # T. Theodorsen, NACA Report 496 (1935): harmonic pitch about three axes.
-    # Target: amplitude within 0.5 %, phase within 0.5 degree (issue 5).
+    # Target: amplitude within 0.5 %, phase within 0.5 degree (project target).
     alpha_amp = np.radians(2.0)
     cl, cm, _ = _harmonic(k, alpha_amp=alpha_amp, pivot=pivot)
     cl_ref, cm_ref = theory.theodorsen_loads(k, alpha_amp, 0.0, pivot)
@@ -57,7 +57,7 @@ def test_plunge_matches_theodorsen(k):
 @pytest.mark.parametrize("k", [0.05, 0.1, 0.2, 0.5, 1.0, 2.0, 4.0])
 def test_sinusoidal_gust_matches_sears(k):
     # W. R. Sears, J. Aeronaut. Sci. 8 (1941): cl = 2 pi S(k) w_mid / U, the
-    # gust phase at mid-chord. Target: 1 % and 1 degree (issue 5).
+    # gust phase at mid-chord. Target: 1 % and 1 degree (project target).
     w = 2 * U * k / C
     dt = 2 * np.pi / w / PPP
     n = 15 * PPP
@@ -84,7 +84,7 @@ def _step(name):
 
 def test_pitch_step_is_wagner():
     # H. Wagner, ZAMM 5 (1925): cl = 2 pi alpha phi(s) after a step in angle
-    # of attack, the apparent-mass impulse aside. Target 0.2 % (issue 5).
+    # of attack, the apparent-mass impulse aside. Target 0.2 % (project target).
     s, r, s0, j = _step("wagner")
     ref = theory.wagner(s[j + 1:] - s0)
     assert np.max(np.abs(r[j + 1:] - ref) / ref) < 0.002
@@ -141,7 +141,7 @@ def _ramp_runs(to_deg, wake):
 
 def test_vortex_and_linear_agree_on_a_small_ramp():
     # In the small-amplitude limit the discrete-vortex model must reduce to
-    # linear theory (Wagner 1925, Theodorsen 1935). Target (issue 5): within
+    # linear theory (Wagner 1925, Theodorsen 1935). Project target: within
     # 1 % of the peak cl. Measured 0.46 % with 20 elements, frozen wake.
     assert _ramp_runs(1.0, "frozen") < 0.01
 

@@ -1,6 +1,6 @@
 """The vortex model in its linear limit against classical thin-airfoil theory.
 
-Sources (see shared references): Abbott & von Doenhoff, Theory of Wing
+Sources: Abbott & von Doenhoff, Theory of Wing
 Sections (1959) ch. 4 (steady thin airfoil); Wagner (1925) with exact values
 by Garrick's Fourier integral (NACA Rep. 629); Theodorsen, NACA Rep. 496
 (harmonic pitch and plunge).
