@@ -108,3 +108,11 @@ def test_resolved_scenario_round_trips(tmp_path):
     f.write_text(sc.to_toml())
     again = load_scenario(f)
     assert again.dt == sc.dt and again.data["motion"] == sc.data["motion"]
+
+
+def test_override_one_of_a_pair_drops_the_other():
+    # run.duration/run.chords and flow.density/flow.altitude: exactly one of each is
+    # given, so --set of one replaces the other instead of failing
+    sc = load_scenario(BASE, ["run.chords=5", "flow.altitude=1000"])
+    assert sc.duration == pytest.approx(5 * 0.25 / 12.0)
+    assert "altitude" in sc.data["flow"] and sc.density < 1.2

@@ -281,9 +281,25 @@ def parse_override(text_):
     return key, value
 
 
+# Pairs of keys of which a scenario gives exactly one: overriding one drops the other.
+EITHER_OR = (("run.duration", "run.chords"), ("flow.density", "flow.altitude"))
+
+
 def apply_overrides(raw, overrides):
-    """Apply overrides (list of ``"k=v"`` texts or a dict of dotted keys) in place."""
-    items = overrides.items() if isinstance(overrides, dict) else (parse_override(o) for o in overrides or ())
+    """Apply overrides (list of ``"k=v"`` texts or a dict of dotted keys) in place.
+
+    Setting one key of an :data:`EITHER_OR` pair (``run.chords`` for a
+    scenario that gave ``run.duration``, say) removes the other.
+    """
+    items = list(overrides.items() if isinstance(overrides, dict)
+                 else (parse_override(o) for o in overrides or ()))
+    keys = {k for k, _ in items}
+    for a, b in EITHER_OR:
+        for this, other in ((a, b), (b, a)):
+            if this in keys and other not in keys:
+                sec, k = other.split(".")
+                if isinstance(raw.get(sec), dict):
+                    raw[sec].pop(k, None)
     for key, value in items:
         parts = key.split(".")
         node = raw

@@ -273,21 +273,11 @@ def base_raw(sc):
     return raw
 
 
-# keys given as one of a pair: setting one drops the other
-_EITHER = (("flow.density", "flow.altitude"), ("run.duration", "run.chords"))
-
-
 def case_raw(base, overrides):
     """``base`` with the overrides applied (a new dict)."""
     from .scenario import apply_overrides
     raw = copy.deepcopy(base)
-    for a, b in _EITHER:
-        for this, other in ((a, b), (b, a)):
-            if this in overrides and other not in overrides:
-                sec, k = other.split(".")
-                if isinstance(raw.get(sec), dict):
-                    raw[sec].pop(k, None)
-    apply_overrides(raw, overrides)
+    apply_overrides(raw, overrides)      # also drops the other key of an either-or pair
     return raw
 
 
