@@ -71,8 +71,7 @@ def test_far_wake_keeps_kelvin_and_bounds_wake():
     change = abs(h["cl"][-1] - full.history["cl"][-1]) / abs(full.history["cl"][-1])
     assert change < 0.002
     assert h["gamma_bound"][-1] + h["gamma_wake"][-1] == pytest.approx(0.0, abs=1e-12)
-    # Kelvin with the retired circulation booked at infinity: bound + active wake
-    # equals minus what was retired; the sum of everything stays zero
+    # Kelvin: bound plus wake (the far-wake lumps included) stays zero
     assert full.history["gamma_bound"][-1] + full.history["gamma_wake"][-1] == pytest.approx(0.0, abs=1e-12)
 
 

@@ -490,7 +490,7 @@ def resolve(raw, base_dir, stem="scenario"):
         run["core_radius"] = grab(number, "run.core_radius", ru["core_radius"], gt=0.0, unit="m")
     # Beyond far_wake chords the wake is merged chord by chord into lumps that
     # drift with the air (solver.VortexSolver): in 10 s of turbulence, 20-40
-    # chords changed the peak load factor by under 1e-5 (tools/bench_gusts.py)
+    # chords changed the peak load factor by about 1e-5 (tools/bench_gusts.py)
     run["far_wake"] = grab(number, "run.far_wake", ru.get("far_wake", DEFAULT_FAR_WAKE), gt=1.0,
                            unit="chords (distance behind the airfoil beyond which the wake is merged)")
     if run.get("duration") and run.get("dt"):
