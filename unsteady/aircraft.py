@@ -278,8 +278,15 @@ class HeaveMotion:
                        gust_formula=("Pratt-Walker: dn = K_g rho U U_de a / (2 W/S), K_g = 0.88 mu_g / "
                                      "(5.3 + mu_g), mu_g = 2 (W/S) / (rho c a g); true airspeed and the "
                                      "flight density; derived for a 1-cosine gust 25 chords long"))
-            if "dn_max" in out:
+            # the peak comes while the aircraft is still in the gust or just after;
+            # a run that ends before the gust has passed the airfoil has no peak yet
+            t_passed = gusts[0].get("arrival", 0.0) + (gusts[0]["length"] + self.c) / self.sc.speed
+            t_end = float(history["t"][-1]) if len(history["t"]) else 0.0
+            if "dn_max" in out and t_end >= t_passed:
                 out["dn_ratio"] = out["dn_max"] / dn
+            elif "dn_max" in out:
+                out["dn_ratio_note"] = (f"no ratio: the run ends at t = {t_end:.4g} s, before the gust has "
+                                        f"passed the airfoil (t = {t_passed:.4g} s); lengthen run.duration")
         out["load_caution"] = theory.GUST_CAUTION
         return out
 
