@@ -124,3 +124,11 @@ def test_run_folder_permissions_follow_umask(tmp_path):
     finally:
         os.umask(old)
     assert (tmp_path / "o").stat().st_mode & 0o777 == 0o755
+
+
+def test_usage_errors_are_one_line_exit_2(capsys):
+    with pytest.raises(SystemExit) as ei:
+        main(["run"])
+    assert ei.value.code == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and err[0].startswith("error: ") and "scenario" in err[0]

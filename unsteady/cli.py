@@ -104,15 +104,22 @@ def _load_plugins():
                 raise
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse with the project's one-line error format and exit status 2."""
+
+    def error(self, message):
+        self.exit(2, f"error: -: {self.prog}: {message} (see '{self.prog} --help')\n")
+
+
 def build_parser():
     _load_plugins()
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="unsteady",
         description="Unsteady lift, drag and moment of an airfoil in pitch, plunge and gusts "
                     "(time-marching discrete-vortex model).")
     from . import __version__
     parser.add_argument("--version", action="version", version=f"unsteady {__version__}")
-    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     sub.required = True
     for name, (help_, fn) in COMMANDS.items():
         p = sub.add_parser(name, help=help_, description=help_)
