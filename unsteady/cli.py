@@ -84,9 +84,9 @@ def _add_check(p):
 @command("check", "validate a scenario without running it")
 def cmd_check(args):
     sc = _load(args)
-    checker = getattr(sys.modules.get(__package__ + ".sweep"), "check_cases", None)
-    if "sweep" in sc.data and checker is not None:
-        checker(sc)
+    if "sweep" in sc.data:
+        from .sweep import check_cases
+        check_cases(sc)
     print(f"{args.scenario}: ok ({sc.steps} steps of {sc.dt:.4g} s, {sc.panels} elements, "
           f"{sc.data['run']['wake']} wake)")
     return 0
