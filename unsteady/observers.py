@@ -108,9 +108,9 @@ class ProgressBar:
         self.last = now
         frac = done / self.total
         el = now - self.t0
-        eta = el / frac - el if frac > 0 else float("nan")
+        left = f"{el / frac - el:5.1f} s" if frac > 0 else "  ..."
         bar = "#" * int(30 * frac)
-        self.stream.write(f"\r{self.label} [{bar:<30}] {100 * frac:5.1f}%  {note}  left {eta:5.1f} s ")
+        self.stream.write(f"\r{self.label} [{bar:<30}] {100 * frac:5.1f}%  {note}  left {left} ")
         self.stream.flush()
 
     def close(self):
