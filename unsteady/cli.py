@@ -11,6 +11,7 @@ import sys
 from pathlib import Path
 
 from .errors import InputError
+from .registry import import_optional
 from .results import check_out_dir
 from .scenario import ScenarioError, load_scenario
 
@@ -96,12 +97,8 @@ cmd_check.add_arguments = _add_check
 
 
 def _load_plugins():
-    for mod in ("animate", "sweep", "compare", "plots"):
-        try:
-            __import__(f"{__package__}.{mod}")
-        except ModuleNotFoundError as exc:
-            if exc.name != f"{__package__}.{mod}":
-                raise
+    # Importing these modules registers their subcommands.
+    import_optional(__package__, ("animate", "sweep", "compare", "plots"))
 
 
 class _Parser(argparse.ArgumentParser):

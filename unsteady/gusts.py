@@ -40,6 +40,7 @@ from scipy import fft as sp_fft
 
 from . import theory
 from .errors import InputError
+from .registry import registrar
 from .scenario import choice, integer, number, register_section, unknown_keys
 
 __all__ = [
@@ -77,26 +78,9 @@ SPECTRA: dict = {}
 DIRECTIONS = ("vertical", "streamwise")
 
 
-def register_profile(name):
-    """Class decorator: add a :class:`GustProfile` subclass to :data:`PROFILES` as ``name``."""
-    def add(cls):
-        if name in PROFILES:
-            raise ValueError(f"a gust profile named '{name}' is already registered")
-        cls.name = name
-        PROFILES[name] = cls
-        return cls
-    return add
-
-
-def register_spectrum(name):
-    """Class decorator: add a :class:`Spectrum` subclass to :data:`SPECTRA` as ``name``."""
-    def add(cls):
-        if name in SPECTRA:
-            raise ValueError(f"a turbulence spectrum named '{name}' is already registered")
-        cls.name = name
-        SPECTRA[name] = cls
-        return cls
-    return add
+#: Class decorators: add a :class:`GustProfile` / :class:`Spectrum` subclass by name.
+register_profile = registrar(PROFILES, "gust profile")
+register_spectrum = registrar(SPECTRA, "turbulence spectrum")
 
 
 # ---------------------------------------------------------------------------

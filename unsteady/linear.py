@@ -292,6 +292,20 @@ def section_constants(section):
 _SECTION_CACHE = {}
 
 
+def _start_responses(start, N, ds):
+    """Wagner and Kuessner weights of the state before the first row.
+
+    A steady start has carried its attitude forever (both 1); an impulsive
+    start began at s = 0, so the responses are phi(s) and psi(s), 0 at s = 0.
+    """
+    if start == "steady":
+        return np.ones(N), np.ones(N)
+    s = np.arange(N) * ds
+    R_w, R_k = theory.wagner(s), theory.kuessner(s)
+    R_w[0] = R_k[0] = 0.0
+    return R_w, R_k
+
+
 class LinearMarcher:
     """Step-by-step linear model for motions that depend on the loads (free heave).
 
@@ -376,12 +390,7 @@ class LinearMarcher:
         H = {k: np.zeros(N) for k in names}
         Ww = indicial_weights("wagner", self.ds, max(N - 1, 1))
         Wk = indicial_weights("kuessner", self.ds, max(N - 1, 1))
-        if self.start == "steady":
-            R_w = R_k = np.ones(N)
-        else:
-            R_w = theory.wagner(np.arange(N) * self.ds)
-            R_k = theory.kuessner(np.arange(N) * self.ds)
-            R_w[0] = R_k[0] = 0.0
+        R_w, R_k = _start_responses(self.start, N, self.ds)
         dq = np.zeros(N)
         dw = np.zeros(N)
         prev = None
@@ -455,12 +464,7 @@ class LinearMarcher:
         if self.tail and M < N - 1:
             cw, dw = memory_tail("wagner", self.ds, M, N * self.ds)
             ck, dk = memory_tail("kuessner", self.ds, M, N * self.ds)
-        if self.start == "steady":
-            R_w = R_k = np.ones(N)
-        else:
-            R_w = theory.wagner(np.arange(N) * self.ds)
-            R_k = theory.kuessner(np.arange(N) * self.ds)
-            R_w[0] = R_k[0] = 0.0
+        R_w, R_k = _start_responses(self.start, N, self.ds)
         names = ("h", "h_dot", "h_ddot", "n", "cl", "cd", "cm", "cm_pivot", "cl_c", "cl_nc",
                  "cl_gust", "q34")
         out = {k: np.empty(N) for k in names}

@@ -15,6 +15,7 @@ import numpy as np
 from scipy.interpolate import CubicSpline
 
 from .errors import InputError
+from .registry import registrar
 
 __all__ = [
     "LAWS",
@@ -37,17 +38,8 @@ __all__ = [
 LAWS: dict[str, type["Law"]] = {}
 
 
-def register_law(name):
-    """Class decorator: add a :class:`Law` subclass to :data:`LAWS` under ``name``."""
-
-    def add(cls):
-        if name in LAWS:
-            raise ValueError(f"a motion law named '{name}' is already registered")
-        cls.name = name
-        LAWS[name] = cls
-        return cls
-
-    return add
+#: Class decorator: add a :class:`Law` subclass to :data:`LAWS` under ``name``.
+register_law = registrar(LAWS, "motion law")
 
 
 @dataclass(frozen=True)

@@ -19,6 +19,7 @@ from functools import cached_property
 from pathlib import Path
 
 from .errors import InputError
+from .registry import import_optional
 
 
 class ScenarioError(ValueError):
@@ -125,12 +126,7 @@ def register_section(name):
 
 def _load_plugins():
     # Importing these modules registers their sections.
-    for mod in ("gusts", "aircraft", "sweep", "models"):
-        try:
-            __import__(f"{__package__}.{mod}")
-        except ModuleNotFoundError as exc:
-            if exc.name != f"{__package__}.{mod}":
-                raise
+    import_optional(__package__, ("gusts", "aircraft", "sweep", "models"))
 
 
 CORE_SECTIONS = ("title", "flow", "airfoil", "motion", "run", "output")
