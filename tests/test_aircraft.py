@@ -6,13 +6,14 @@ import numpy as np
 import pytest
 
 import unsteady
-from unsteady import aircraft, theory
-from unsteady.scenario import ScenarioError
+from unsteady import theory
+from unsteady.dynamics import heave as aircraft
+from unsteady.inputs.scenario import ScenarioError
 
 
 def _drone(gust=None, **ac):
     d = {"flow": {"speed": 15.0, "altitude": 400.0},
-         "airfoil": {"shape": "naca2412", "chord": 0.25, "panels": 8},
+         "airfoil": {"shape": "naca2412", "chord": 0.25, "elements": 8},
          "run": {"chords": 12, "wake": "frozen"},
          "aircraft": {"mass": 3.0, "wing_area": 0.55, **ac}}
     if gust:

@@ -11,9 +11,9 @@ import numpy as np
 import pytest
 
 import unsteady
-from unsteady.animate import Film, FilmOptions, FilmRenderer, load_run, write_film
-from unsteady.cli import main
-from unsteady.fields import chord_line
+from unsteady.outputs.films import Film, FilmOptions, FilmRenderer, load_run, write_film
+from unsteady.apps.cli import main
+from unsteady.outputs.fields import chord_line
 
 PITCH_AMP = 15.0       # deg
 FREQ = 5.0             # Hz
@@ -25,7 +25,7 @@ def run_dir(tmp_path_factory):
     sc = unsteady.load_scenario({
         "title": "Pitching test section",
         "flow": {"speed": 10.0, "density": 1.225},
-        "airfoil": {"shape": "naca0012", "chord": 0.25, "panels": 12},
+        "airfoil": {"shape": "naca0012", "chord": 0.25, "elements": 12},
         "motion": {"pivot": 0.25, "pitch": {"law": "sine", "amplitude": PITCH_AMP, "frequency": FREQ}},
         "run": {"duration": 0.2, "wake": "frozen", "dt": 0.002},
         "output": {"snapshot_every": 0.01},
@@ -150,7 +150,7 @@ def test_interrupted_film_leaves_no_file(run_dir, tmp_path, monkeypatch):
 
 PEAK = """
 import json, resource, sys
-from unsteady.cli import main
+from unsteady.apps.cli import main
 rc = main(["animate", sys.argv[1], "--out", sys.argv[2], "--frames", sys.argv[3], "--size", "320x180", "--quiet"])
 print(json.dumps({"rc": rc,
                   "self": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,
@@ -178,7 +178,7 @@ def test_gust_band_shows_the_up_gust_where_it_is(tmp_path):
     # front, which met the leading edge at `arrival`, lies U (t - arrival) downstream of it
     sc = unsteady.load_scenario({
         "flow": {"speed": 10.0, "density": 1.225},
-        "airfoil": {"shape": "flat", "chord": 0.2, "panels": 8},
+        "airfoil": {"shape": "flat", "chord": 0.2, "elements": 8},
         "gust": {"profile": "one-minus-cosine", "amplitude": 2.0, "length": 1.0, "arrival": 0.02},
         "run": {"duration": 0.1, "wake": "frozen"},
     })
@@ -203,7 +203,7 @@ def test_snapshots_of_a_2000_step_run_stay_small(tmp_path):
     # project target: a 2,000-step run's snapshot file under 50 MB, here at one snapshot per step
     sc = unsteady.load_scenario({
         "flow": {"speed": 10.0, "density": 1.225},
-        "airfoil": {"shape": "flat", "chord": 0.2, "panels": 8},
+        "airfoil": {"shape": "flat", "chord": 0.2, "elements": 8},
         "motion": {"pitch": {"law": "sine", "amplitude": 3.0, "frequency": 4.0}},
         "run": {"duration": 2000 * 0.0025, "dt": 0.0025, "wake": "frozen"},
         "output": {"snapshot_every": 0.0025},

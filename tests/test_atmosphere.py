@@ -3,7 +3,7 @@
 import numpy as np
 import pytest
 
-from unsteady import atmosphere as atm
+from unsteady.inputs import atmosphere as atm
 
 # U.S. Standard Atmosphere 1976 table, geometric altitude (values from memory):
 # altitude m: (temperature K, pressure Pa, density kg/m^3)

@@ -7,7 +7,7 @@ import sys
 import numpy as np
 import pytest
 
-from unsteady.cli import main
+from unsteady.apps.cli import main
 
 GOOD = """
 title = "cli test"
@@ -17,7 +17,7 @@ density = 1.2
 [airfoil]
 shape = "flat"
 chord = 0.2
-panels = 12
+elements = 12
 [motion]
 pitch = { law = "ramp", from = 0.0, to = 4.0, start = 0.005, duration = 0.02 }
 [run]
@@ -45,13 +45,13 @@ def test_run_writes_run_directory(tmp_path, capsys):
 def test_set_override_and_check(tmp_path, capsys):
     f = tmp_path / "good.toml"
     f.write_text(GOOD)
-    assert main(["check", str(f), "--set", "airfoil.panels=20"]) == 0
+    assert main(["check", str(f), "--set", "airfoil.elements=20"]) == 0
     assert "20 elements" in capsys.readouterr().out
 
 
 def test_bad_input_exit_2_one_line_nothing_written(tmp_path, capsys):
     f = tmp_path / "bad.toml"
-    f.write_text(GOOD.replace("speed = 10.0", "speed = -10.0").replace("panels = 12", "panels = 2"))
+    f.write_text(GOOD.replace("speed = 10.0", "speed = -10.0").replace("elements = 12", "elements = 2"))
     out = tmp_path / "never"
     assert main(["run", str(f), "--out", str(out)]) == 2
     err = capsys.readouterr().err.strip().splitlines()
@@ -67,15 +67,15 @@ def test_missing_file_exit_2(tmp_path, capsys):
 def test_bad_override_exit_2(tmp_path, capsys):
     f = tmp_path / "good.toml"
     f.write_text(GOOD)
-    assert main(["run", str(f), "--set", "airfoil.panel=30", "--out", str(tmp_path / "o")]) == 2
-    assert "did you mean 'panels'" in capsys.readouterr().err
+    assert main(["run", str(f), "--set", "airfoil.element=30", "--out", str(tmp_path / "o")]) == 2
+    assert "did you mean 'elements'" in capsys.readouterr().err
     assert not (tmp_path / "o").exists()
 
 
 def test_entry_point_runs_as_module(tmp_path):
     f = tmp_path / "good.toml"
     f.write_text(GOOD)
-    r = subprocess.run([sys.executable, "-m", "unsteady.cli", "check", str(f)], capture_output=True, text=True)
+    r = subprocess.run([sys.executable, "-m", "unsteady", "check", str(f)], capture_output=True, text=True)
     assert r.returncode == 0, r.stderr
 
 

@@ -3,15 +3,15 @@
 import pytest
 
 from unsteady import load_scenario
-from unsteady.cli import main
-from unsteady.runner import simulate
+from unsteady.apps.cli import main
+from unsteady.simulation.runner import simulate
 
 
 @pytest.fixture(scope="module")
 def two_runs(tmp_path_factory):
     d = tmp_path_factory.mktemp("runs")
     base = {"flow": {"speed": 10.0, "density": 1.2},
-            "airfoil": {"shape": "flat", "chord": 0.2, "panels": 12},
+            "airfoil": {"shape": "flat", "chord": 0.2, "elements": 12},
             "motion": {"pivot": 0.25, "pitch": {"law": "sine", "amplitude": 2.0, "reduced_frequency": 0.4}},
             "run": {"chords": 25, "wake": "frozen"}}
     out = []

@@ -5,9 +5,9 @@ import math
 import numpy as np
 import pytest
 
-from unsteady.fields import (Sources, airfoil_outline, chord_line, make_grid, speed, stream_function,
+from unsteady.outputs.fields import (Sources, airfoil_outline, chord_line, make_grid, speed, stream_function,
                              velocity_field, vorticity_field)
-from unsteady.geometry import section_from_shape
+from unsteady.inputs.sections import section_from_shape
 
 
 def point_vortex(x, z, x0, z0, G):

@@ -6,13 +6,13 @@ import numpy as np
 import pytest
 from scipy.integrate import quad
 
-from unsteady.errors import InputError
-from unsteady.geometry import (
+from unsteady.core.errors import InputError
+from unsteady.inputs.sections import (
     CamberPanels,
     CoordinateSection,
     FlatPlate,
     Naca4,
-    camber_panels,
+    camber_elements,
     cosine_nodes,
     naca4_half_thickness,
     section_from_shape,
@@ -369,14 +369,14 @@ def test_cosine_nodes(n):
 def test_cosine_nodes_needs_a_whole_number(n):
     with pytest.raises(InputError) as err:
         cosine_nodes(n)
-    assert err.value.key == "panels"
+    assert err.value.key == "elements"
 
 
 @pytest.mark.parametrize("shape", ["flat", "naca2412", "naca6309"])
 def test_panels_geometry(shape):
     sec = section_from_shape(shape)
     n = 40
-    p = camber_panels(sec, n)
+    p = camber_elements(sec, n)
     assert isinstance(p, CamberPanels) and p.n == n
     assert np.allclose(p.z_nodes, sec.camber(p.x_nodes), atol=0)  # nodes on the camber line
     assert np.allclose(np.hypot(p.tx, p.tz), 1.0, atol=1e-15) and np.allclose(np.hypot(p.nx, p.nz), 1.0, atol=1e-15)
@@ -396,7 +396,7 @@ def test_panels_geometry(shape):
 
 
 def test_flat_plate_panels_point_straight_up():
-    p = camber_panels(FlatPlate(), 8)
+    p = camber_elements(FlatPlate(), 8)
     assert np.all(p.nx == 0.0) and np.all(p.nz == 1.0) and np.all(p.tz == 0.0) and np.all(p.zv == 0.0)
-    one = camber_panels(FlatPlate(), 1)
+    one = camber_elements(FlatPlate(), 1)
     assert one.xv[0] == 0.25 and one.xc[0] == 0.75  # the single lumped vortex (Katz & Plotkin 2001, sec. 11.1)

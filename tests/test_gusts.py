@@ -8,14 +8,14 @@ import numpy as np
 import pytest
 
 import unsteady
-from unsteady import gusts
-from unsteady.scenario import ScenarioError
+from unsteady.inputs import gusts
+from unsteady.inputs.scenario import ScenarioError
 
 
-def _sc(gust, speed=10.0, chord=0.5, panels=8, chords=4.0, **run):
+def _sc(gust, speed=10.0, chord=0.5, elements=8, chords=4.0, **run):
     return unsteady.load_scenario({
         "flow": {"speed": speed, "density": 1.2},
-        "airfoil": {"shape": "flat", "chord": chord, "panels": panels},
+        "airfoil": {"shape": "flat", "chord": chord, "elements": elements},
         "run": {"chords": chords, **run},
         "gust": gust,
     })
@@ -116,11 +116,11 @@ def test_cli_prints_warning_and_check_passes(tmp_path):
     f = tmp_path / "strong.toml"
     f.write_text('[flow]\nspeed = 10.0\ndensity = 1.2\n[airfoil]\nchord = 0.5\n[run]\nchords = 2\n'
                  '[gust]\nprofile = "sharp-edged"\namplitude = 9.0\n')
-    p = subprocess.run([sys.executable, "-m", "unsteady.cli", "check", str(f)], capture_output=True, text=True)
+    p = subprocess.run([sys.executable, "-m", "unsteady", "check", str(f)], capture_output=True, text=True)
     assert p.returncode == 0
     assert p.stderr.startswith(f"warning: {f}: gust.amplitude: ")
     f.write_text(f.read_text().replace("9.0", "0.0"))
-    p = subprocess.run([sys.executable, "-m", "unsteady.cli", "check", str(f)], capture_output=True, text=True)
+    p = subprocess.run([sys.executable, "-m", "unsteady", "check", str(f)], capture_output=True, text=True)
     assert p.returncode == 2
     assert p.stderr.strip().splitlines()[-1].startswith(f"error: {f}: gust.amplitude: must be > 0")
 
@@ -157,7 +157,7 @@ def test_uniform_streamwise_gust_scales_cl_by_speed_ratio_squared():
     # a steady airfoil settles at cl0 (1 + du/U)^2 (Kutta-Joukowski, common practice)
     U, du = 10.0, 1.0
     base = {"flow": {"speed": U, "density": 1.2},
-            "airfoil": {"shape": "flat", "chord": 0.5, "panels": 8},
+            "airfoil": {"shape": "flat", "chord": 0.5, "elements": 8},
             "motion": {"pitch": {"law": "constant", "value": 3.0}},
             "run": {"chords": 20, "wake": "free"}}
     cl0 = unsteady.simulate(unsteady.load_scenario({**base, "run": {"chords": 1}})).history["cl"][-1]

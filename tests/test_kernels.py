@@ -5,7 +5,7 @@ import math
 import numpy as np
 import pytest
 
-from unsteady.kernels import induced_velocity, normal_influence, velocity
+from unsteady.vortex.kernels import induced_velocity, normal_influence, velocity
 
 
 def twin_velocity(xt, zt, xs, zs, gamma, r_c):

@@ -6,16 +6,18 @@ import numpy as np
 import pytest
 from scipy.optimize import brentq
 
-from unsteady import lag, load_scenario, theory
-from unsteady.runner import simulate
+from unsteady import load_scenario, theory
+
+from unsteady.analysis import lag
+from unsteady.simulation.runner import simulate
 
 
-def _sc(pitch, model="linear", chords=30.0, shape="flat", panels=40, plunge=None, **run):
+def _sc(pitch, model="linear", chords=30.0, shape="flat", elements=40, plunge=None, **run):
     motion = {"pivot": 0.25, "pitch": pitch}
     if plunge is not None:
         motion["plunge"] = plunge
     return load_scenario({"flow": {"speed": 18.0, "density": 1.2},
-                          "airfoil": {"shape": shape, "chord": 0.2, "panels": panels},
+                          "airfoil": {"shape": shape, "chord": 0.2, "elements": elements},
                           "motion": motion,
                           "run": {"chords": chords, "model": model, **run}})
 

@@ -3,9 +3,13 @@
 import numpy as np
 import pytest
 
-from unsteady import linear, load_scenario, models, theory
-from unsteady.observers import BASE_COLUMNS, EXTRA_COLUMNS
-from unsteady.runner import simulate
+from unsteady import load_scenario, theory
+
+from unsteady.linear import model as linear
+
+from unsteady.simulation import models
+from unsteady.simulation.observers import BASE_COLUMNS, EXTRA_COLUMNS
+from unsteady.simulation.runner import simulate
 
 U, C = 12.0, 0.3
 
@@ -94,11 +98,11 @@ def test_free_heave_settles_with_the_gust():
 
 
 def test_model_registry_and_run_directory(tmp_path):
-    assert "linear" in __import__("unsteady.scenario", fromlist=["RUN_MODELS"]).RUN_MODELS
+    assert "linear" in __import__("unsteady.inputs.scenario", fromlist=["RUN_MODELS"]).RUN_MODELS
     with pytest.raises(KeyError):
         models.get("no-such-model")
     sc = load_scenario({"flow": {"speed": U, "density": 1.2},
-                        "airfoil": {"shape": "naca2412", "chord": C, "panels": 20},
+                        "airfoil": {"shape": "naca2412", "chord": C, "elements": 20},
                         "motion": {"pivot": 0.25,
                                    "pitch": {"law": "ramp", "from": 0.0, "to": 5.0, "start": 0.02,
                                              "duration": 0.05}},
@@ -113,7 +117,7 @@ def test_model_registry_and_run_directory(tmp_path):
 
 
 def test_bad_model_name_is_an_input_error():
-    from unsteady.scenario import ScenarioError
+    from unsteady.inputs.scenario import ScenarioError
     with pytest.raises(ScenarioError, match="run.model"):
         load_scenario({"flow": {"speed": U, "density": 1.2}, "airfoil": {"chord": C},
                        "run": {"chords": 5, "model": "linaer"}})
@@ -124,7 +128,7 @@ def test_free_heave_in_a_gust_matches_the_vortex_model():
     # 1-cosine gust the vortex model is in its linear limit, so the load
     # factors must agree (common practice). Measured: n_max 2.3148 (linear)
     # against 2.3144 (vortex) over 40 chords; here 20 chords, 20 elements.
-    d = {"flow": {"speed": 15.0, "density": 1.2}, "airfoil": {"chord": 0.2, "panels": 20},
+    d = {"flow": {"speed": 15.0, "density": 1.2}, "airfoil": {"chord": 0.2, "elements": 20},
          "run": {"chords": 20, "wake": "frozen"},
          "gust": {"profile": "one-minus-cosine", "amplitude": 2.0, "length": 2.0, "arrival": 0.05},
          "aircraft": {"mass": 2.0, "wing_area": 0.4}}
@@ -139,7 +143,7 @@ def test_circulation_columns_match_the_vortex_model():
     # Kutta-Joukowski, L = -rho U Gamma with counter-clockwise-positive Gamma
     # (common practice sign): both models report the same bound and wake circulation
     d = {"flow": {"speed": 10.0, "density": 1.2},
-         "airfoil": {"shape": "flat", "chord": 0.2, "panels": 20},
+         "airfoil": {"shape": "flat", "chord": 0.2, "elements": 20},
          "motion": {"pitch": {"law": "ramp", "from": 0.0, "to": 2.0, "start": 0.01, "duration": 0.02}},
          "run": {"chords": 6.0, "wake": "frozen"}, "output": {"plots": False}}
     v = simulate(d).history

@@ -3,9 +3,12 @@
 import numpy as np
 import pytest
 
-from unsteady import linear, load_scenario, theory
-from unsteady.linear_kernels import memory_tail
-from unsteady.runner import simulate
+from unsteady import load_scenario, theory
+
+from unsteady.linear import model as linear
+from unsteady.linear.kernels import memory_tail
+from unsteady.simulation import models
+from unsteady.simulation.runner import simulate
 
 COLUMNS = ("cl", "cd", "cm", "cm_pivot", "cl_c", "cl_nc", "cl_gust", "q34", "h", "h_dot")
 
@@ -14,7 +17,7 @@ def _scenario(start="steady", gusts=None, pitch=True, chords=24):
     # A small made-up drone section in a 1-cosine up-gust, free to heave,
     # with a pitch ramp on top so that every apparent-mass term is exercised.
     d = {"flow": {"speed": 15.0, "density": 1.2},
-         "airfoil": {"shape": "naca2412", "chord": 0.25, "panels": 12},
+         "airfoil": {"shape": "naca2412", "chord": 0.25, "elements": 12},
          "aircraft": {"mass": 3.0, "wing_area": 0.55, "aspect_ratio": 8.8},
          "gust": gusts or {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 2.5,
                            "arrival": 0.02},
@@ -26,7 +29,7 @@ def _scenario(start="steady", gusts=None, pitch=True, chords=24):
 
 
 def _march(sc, **options):
-    m = linear.heave_marcher(sc, **options)
+    m = models.linear_heave_marcher(sc, **options)
     H = m.run()
     H["n"] = np.asarray(m.motion.n_rows)
     return H

@@ -5,8 +5,8 @@ import math
 import numpy as np
 import pytest
 
-from unsteady.errors import InputError
-from unsteady.motion import LAWS, Kinematics, Law, SumLaw, build_law, law_problems, logcosh, register_law
+from unsteady.core.errors import InputError
+from unsteady.inputs.motion import LAWS, Kinematics, Law, SumLaw, build_law, law_problems, logcosh, register_law
 
 DEG = math.pi / 180.0
 

@@ -7,8 +7,8 @@ import numpy as np
 import pytest
 
 import unsteady
-from unsteady import plots
-from unsteady.cli import main
+from unsteady.outputs import pictures as plots
+from unsteady.apps.cli import main
 
 ALPHA_DEG = 4.0
 
@@ -19,7 +19,7 @@ def run(tmp_path_factory):
     sc = unsteady.load_scenario({
         "title": "Test plate",
         "flow": {"speed": 10.0, "density": 1.225},
-        "airfoil": {"shape": "flat", "chord": 0.2, "panels": 40},
+        "airfoil": {"shape": "flat", "chord": 0.2, "elements": 40},
         "motion": {"pivot": 0.25, "pitch": [{"law": "constant", "value": ALPHA_DEG},
                                             {"law": "ramp", "from": 0.0, "to": 3.0, "start": 0.02,
                                              "duration": 0.02}]},
@@ -136,7 +136,7 @@ def test_pictures_command_redraws_the_gust_load_picture(tmp_path, capsys):
     # a run with an aircraft gets gust-loads.png (with its caution) from `pictures` too
     sc = unsteady.load_scenario({
         "flow": {"speed": 15.0, "density": 1.2},
-        "airfoil": {"shape": "flat", "chord": 0.25, "panels": 8},
+        "airfoil": {"shape": "flat", "chord": 0.25, "elements": 8},
         "aircraft": {"mass": 3.0, "wing_area": 0.55},
         "gust": {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 2.0, "arrival": 0.02},
         "run": {"chords": 6, "wake": "frozen"}})

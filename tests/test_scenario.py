@@ -4,7 +4,7 @@ import math
 
 import pytest
 
-from unsteady.scenario import ScenarioError, load_scenario, default_dt
+from unsteady.inputs.scenario import ScenarioError, load_scenario, default_dt
 
 BASE = {
     "flow": {"speed": 12.0, "density": 1.2},
@@ -22,7 +22,7 @@ def problems(d, overrides=None):
 def test_defaults_filled():
     sc = load_scenario(BASE)
     d = sc.data
-    assert d["airfoil"]["panels"] == 40 and d["motion"]["pivot"] == 0.25
+    assert d["airfoil"]["elements"] == 40 and d["motion"]["pivot"] == 0.25
     assert d["run"]["wake"] == "free" and d["run"]["start"] == "steady"
     # default step: the air travels one mean element length (U dt = c / N)
     assert sc.dt == pytest.approx(0.25 / (12.0 * 40))
@@ -47,8 +47,8 @@ def test_fast_sine_refines_default_step():
 
 
 def test_overrides_parse_toml_values():
-    sc = load_scenario(BASE, ["airfoil.panels=80", "run.wake=frozen", 'airfoil.shape="flat"'])
-    assert sc.panels == 80 and sc.data["run"]["wake"] == "frozen" and sc.data["airfoil"]["shape"] == "flat"
+    sc = load_scenario(BASE, ["airfoil.elements=80", "run.wake=frozen", 'airfoil.shape="flat"'])
+    assert sc.elements == 80 and sc.data["run"]["wake"] == "frozen" and sc.data["airfoil"]["shape"] == "flat"
 
 
 def test_unknown_key_suggests_nearest():
@@ -59,7 +59,7 @@ def test_unknown_key_suggests_nearest():
 
 @pytest.mark.parametrize("section,key,value", [
     ("flow", "speed", -3.0), ("flow", "speed", "fast"), ("flow", "speed", float("nan")),
-    ("airfoil", "chord", 0.0), ("airfoil", "panels", 3), ("airfoil", "panels", 10.5),
+    ("airfoil", "chord", 0.0), ("airfoil", "elements", 3), ("airfoil", "elements", 10.5),
     ("run", "duration", -1.0), ("run", "wake", "rolling"), ("run", "start", True),
 ])
 def test_bad_values_named(section, key, value):
@@ -81,8 +81,8 @@ def test_exactly_one_of_pairs():
 
 
 def test_all_problems_reported_together():
-    p = problems({"flow": {"speed": -1}, "airfoil": {"chord": -1, "panels": 2}, "run": {"duration": 0}})
-    assert {"flow.speed", "flow.density", "airfoil.chord", "airfoil.panels", "run.duration"} <= set(p)
+    p = problems({"flow": {"speed": -1}, "airfoil": {"chord": -1, "elements": 2}, "run": {"duration": 0}})
+    assert {"flow.speed", "flow.density", "airfoil.chord", "airfoil.elements", "run.duration"} <= set(p)
 
 
 def test_problem_line_format(tmp_path):

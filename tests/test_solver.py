@@ -6,11 +6,11 @@ import numpy as np
 import pytest
 
 from unsteady import load_scenario, simulate
-from unsteady.solver import Body, SolverDiverged, VortexSolver
+from unsteady.vortex.solver import Body, SolverDiverged, VortexSolver
 
 BASE = {
     "flow": {"speed": 10.0, "density": 1.2},
-    "airfoil": {"shape": "flat", "chord": 0.2, "panels": 16},
+    "airfoil": {"shape": "flat", "chord": 0.2, "elements": 16},
     "motion": {"pitch": {"law": "constant", "value": 3.0}},
     "run": {"chords": 4.0, "start": "impulsive"},
     "output": {"plots": False},

@@ -14,8 +14,11 @@ from pathlib import Path
 
 import pytest
 
-from unsteady import cli, sweep
-from unsteady.scenario import ScenarioError, default_dt, load_scenario
+from unsteady.apps import cli
+
+from unsteady.apps import sweep
+from unsteady.inputs import sweep as sweep_spec
+from unsteady.inputs.scenario import ScenarioError, default_dt, load_scenario
 
 ROOT = Path(__file__).resolve().parents[1]
 # the console scripts of the environment running the tests (any venv name)
@@ -32,7 +35,7 @@ density = 1.2
 [airfoil]
 shape = "naca0012"
 chord = 0.20
-panels = 8
+elements = 8
 [motion]
 pivot = 0.25
 pitch = {{ law = "step", value = 3.0, time = 0.01 }}
@@ -43,10 +46,10 @@ wake = "frozen"
 
 SIX = BASE + """
 [sweep]
-name = "V{{flow.speed}}-N{{airfoil.panels}}"
+name = "V{{flow.speed}}-N{{airfoil.elements}}"
 [sweep.grid]
 "flow.speed" = [12.0, 18.0, 24.0]
-airfoil.panels = [6, 8]
+airfoil.elements = [6, 8]
 """
 
 
@@ -95,7 +98,7 @@ motion.pitch = { law = "sine", amplitude = 2.0, frequency = 5.0 }
     cases = sweep.expand(sc.data["sweep"])
     assert [n for n, _ in cases] == ["V12.0-N6", "V12.0-N8", "V18.0-N6", "V18.0-N8", "V24.0-N6", "V24.0-N8",
                                      "flat-plate", "case-008"]
-    assert cases[3][1] == {"flow.speed": 18.0, "airfoil.panels": 8}
+    assert cases[3][1] == {"flow.speed": 18.0, "airfoil.elements": 8}
     # a law table is one value: it replaces the whole pitch law, not merged into the step law
     built = sweep.build_cases(sc)
     assert not any(c.problems for c in built)
@@ -106,13 +109,13 @@ motion.pitch = { law = "sine", amplitude = 2.0, frequency = 5.0 }
 def test_each_case_rederives_its_defaults(tmp_path):
     # the default step is the project's own rule U dt = c / N (scenario.default_dt);
     # density from altitude follows the 1976 standard atmosphere (unsteady.atmosphere)
-    from unsteady import atmosphere
+    from unsteady.inputs import atmosphere
     text = (SIX.format(chords=4).replace('"flow.speed" = [12.0, 18.0, 24.0]', '"flow.altitude" = [0.0, 2000.0]')
-            .replace('name = "V{flow.speed}-N{airfoil.panels}"\n', ''))
+            .replace('name = "V{flow.speed}-N{airfoil.elements}"\n', ''))
     sc = load_scenario(write(tmp_path, text))
     for c in sweep.build_cases(sc):
         s = c.scenario
-        assert s.dt == pytest.approx(default_dt(0.20, 18.0, s.panels), rel=1e-15)
+        assert s.dt == pytest.approx(default_dt(0.20, 18.0, s.elements), rel=1e-15)
         assert s.duration == pytest.approx(4 * 0.20 / 18.0, rel=1e-15)
         assert s.density == pytest.approx(float(atmosphere.density(s.data["flow"]["altitude"])), rel=1e-15)
     assert {c.scenario.density for c in sweep.build_cases(sc)} != {1.2}
@@ -182,12 +185,12 @@ def test_case_key_follows_the_resolved_scenario_and_version(tmp_path, monkeypatc
     assert [c.key for c in same] == [c.key for c in a]
     longer = sweep.build_cases(load_scenario(write(tmp_path, SIX.format(chords=5), "l.toml")))
     assert not {c.key for c in longer} & {c.key for c in a}
-    monkeypatch.setattr(sweep, "__version__", "0.0.0-other")
-    assert sweep.case_key(a[0].scenario) != a[0].key
+    monkeypatch.setattr(sweep_spec, "__version__", "0.0.0-other")
+    assert sweep_spec.case_key(a[0].scenario) != a[0].key
 
 
 def test_a_raising_case_is_recorded_not_raised(tmp_path, monkeypatch):
-    import unsteady.runner as sim
+    import unsteady.simulation.runner as sim
 
     def boom(sc, observers=(), progress=False):
         raise FloatingPointError("made to fail")
@@ -201,7 +204,7 @@ def test_a_raising_case_is_recorded_not_raised(tmp_path, monkeypatch):
 def test_table_rewrites_keep_earlier_rows(tmp_path):
     sc = load_scenario(write(tmp_path, SIX.format(chords=4)))
     cases = sweep.build_cases(sc)
-    t = sweep.SweepTable(tmp_path / "sweep.csv", ["flow.speed", "airfoil.panels"])
+    t = sweep.SweepTable(tmp_path / "sweep.csv", ["flow.speed", "airfoil.elements"])
     t.order = [c.key for c in cases]
     t.record(cases[1], {"status": "ok", "summary": {"cl_max": 0.1 + 0.2}, "wall_time_s": 1.0})
     t.record(cases[0], {"status": "failed", "message": "a\nb", "summary": {}})
@@ -256,7 +259,7 @@ def _env():
 
 def test_interrupted_sweep_resumes_without_rerunning(tmp_path):
     # 6 cases of 60 chords on one worker: seconds each, so a Ctrl-C lands mid-sweep
-    text = SIX.format(chords=60).replace("airfoil.panels = [6, 8]", "airfoil.panels = [12, 14]")
+    text = SIX.format(chords=60).replace("airfoil.elements = [6, 8]", "airfoil.elements = [12, 14]")
     p = write(tmp_path, text)
     out = tmp_path / "out"
     cmd = [str(UNSTEADY), "sweep", str(p), "--out", str(out), "--workers", "1", "--quiet"]
@@ -294,7 +297,7 @@ def test_interrupted_sweep_resumes_without_rerunning(tmp_path):
 
 def test_scheduler_and_workers_survive_a_killed_worker(tmp_path):
     from distributed import Client
-    text = SIX.format(chords=40).replace("airfoil.panels = [6, 8]", "airfoil.panels = [10, 12]")
+    text = SIX.format(chords=40).replace("airfoil.elements = [6, 8]", "airfoil.elements = [10, 12]")
     sc = load_scenario(write(tmp_path, text))
     port = free_port()
     addr = f"tcp://127.0.0.1:{port}"

@@ -18,13 +18,13 @@ from pathlib import Path
 import numpy as np
 
 import unsteady
-from unsteady.animate import FilmOptions, load_run, write_film
+from unsteady.outputs.films import FilmOptions, load_run, write_film
 
 SCENARIO = {
     # a flapping flat plate (our own demo case), long enough for ~2,000 wake vortices
     "title": "Benchmark: flapping plate with a long wake",
     "flow": {"speed": 6.0, "density": 1.2},
-    "airfoil": {"shape": "flat", "chord": 0.08, "panels": 40},
+    "airfoil": {"shape": "flat", "chord": 0.08, "elements": 40},
     "motion": {"pivot": 0.33,
                "pitch": {"law": "sine", "amplitude": 10.0, "reduced_frequency": 0.5, "phase": 90.0},
                "plunge": {"law": "sine", "amplitude": 0.02, "reduced_frequency": 0.5}},

@@ -24,7 +24,7 @@ sys.path.insert(0, str(ROOT))
 
 SCENARIO = {
     "flow": {"speed": 15.0, "density": 1.2},
-    "airfoil": {"shape": "naca2412", "chord": 0.25, "panels": 40},
+    "airfoil": {"shape": "naca2412", "chord": 0.25, "elements": 40},
     "motion": {"pivot": 0.25, "pitch": {"law": "sine", "amplitude": 5.0, "frequency": 2.0, "mean": 3.0}},
     "run": {"chords": 50.0, "wake": "free", "dt": 0.25 / (15.0 * 40)},
     "output": {"plots": False},
@@ -32,7 +32,7 @@ SCENARIO = {
 
 
 def kernel_throughput():
-    from unsteady.kernels import induced_velocity
+    from unsteady.vortex.kernels import induced_velocity
     rng = np.random.default_rng(0)
     print("wake-on-wake kernel (float64, Vatistas core), both cores:")
     for n in (500, 1000, 2000, 4000, 8000):

@@ -26,7 +26,7 @@ ROOT = Path(__file__).resolve().parents[1]
 
 def one_cosine(steps=2000, far_wake=None):
     d = {"flow": {"speed": 15.0, "altitude": 400.0},
-         "airfoil": {"shape": "naca2412", "chord": 0.25, "panels": 20},
+         "airfoil": {"shape": "naca2412", "chord": 0.25, "elements": 20},
          "aircraft": {"mass": 3.0, "wing_area": 0.55},
          "gust": {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 6.25, "arrival": 0.05},
          "run": {"chords": steps / 20.0, "wake": "free"},

@@ -2,7 +2,7 @@
 
 Usage::
 
-    .venv/bin/python tools/bench_sweep.py [--chords 200] [--panels 20] [--repeat 2]
+    .venv/bin/python tools/bench_sweep.py [--chords 200] [--elements 20] [--repeat 2]
 
 Prints the wall time of the 8 cases run one by one in this process, on a
 Dask local cluster of one worker and of two (cluster start-up timed apart,
@@ -25,14 +25,16 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 # set before numba is first imported)
 os.environ.setdefault("NUMBA_NUM_THREADS", "1")
 
-from unsteady import load_scenario, sweep  # noqa: E402
+from unsteady import load_scenario  # noqa: E402
+
+from unsteady.apps import sweep
 
 
-def scenario(chords, panels):
+def scenario(chords, elements):
     return {
         "title": "Sweep benchmark: 1-cosine gusts on a heaving section",
         "flow": {"speed": 16.0, "density": 1.2},
-        "airfoil": {"shape": "naca2412", "chord": 0.22, "panels": panels},
+        "airfoil": {"shape": "naca2412", "chord": 0.22, "elements": elements},
         "motion": {"pivot": 0.25},
         "aircraft": {"mass": 2.4, "wing_area": 0.40},
         "gust": {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 2.2, "arrival": 0.02},
@@ -43,8 +45,8 @@ def scenario(chords, panels):
 
 def _warm():
     """Load the compiled kernels on a worker (a tiny case)."""
-    from unsteady.runner import simulate
-    simulate({"flow": {"speed": 10.0, "density": 1.2}, "airfoil": {"chord": 0.2, "panels": 6},
+    from unsteady.simulation.runner import simulate
+    simulate({"flow": {"speed": 10.0, "density": 1.2}, "airfoil": {"chord": 0.2, "elements": 6},
               "run": {"chords": 2, "wake": "frozen"}})
     return True
 
@@ -77,10 +79,10 @@ def timed_sweep(sc, workers, case_fn=None):
 def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--chords", type=float, default=200.0, help="chords travelled per case (200: about 0.6 s a case, like a 40-element gust case of 50 chords)")
-    ap.add_argument("--panels", type=int, default=20, help="elements on the camber line")
+    ap.add_argument("--elements", type=int, default=20, help="elements on the camber line")
     ap.add_argument("--repeat", type=int, default=2, help="tries of each timing (the best is kept)")
     a = ap.parse_args(argv)
-    sc = load_scenario(scenario(a.chords, a.panels))
+    sc = load_scenario(scenario(a.chords, a.elements))
     cases = sweep.build_cases(sc)
     n = len(cases)
     _warm()
@@ -91,7 +93,7 @@ def main(argv=None):
             r = sweep.run_case({"raw": c.raw, "base_dir": str(sc.base_dir)})
             assert r["status"] == "ok", r["message"]
         t_direct = min(t_direct, time.perf_counter() - t0)
-    print(f"{n} cases, {a.panels} elements, {a.chords:g} chords each ({cases[0].scenario.steps} to "
+    print(f"{n} cases, {a.elements} elements, {a.chords:g} chords each ({cases[0].scenario.steps} to "
           f"{max(c.scenario.steps for c in cases)} steps)")
     print(f"one by one in this process : {t_direct:7.2f} s  ({t_direct / n:.3f} s per case)")
     print(f"numba threads in this process: {os.environ['NUMBA_NUM_THREADS']}; load average before: "

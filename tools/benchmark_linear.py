@@ -21,9 +21,12 @@ import sys
 import time
 from pathlib import Path
 
-from unsteady import linear, load_scenario
-from unsteady.linear_kernels import S_MAX_DEFAULT
-from unsteady.runner import simulate
+from unsteady import load_scenario
+
+from unsteady.linear import model as linear
+from unsteady.linear.kernels import S_MAX_DEFAULT
+from unsteady.simulation import models
+from unsteady.simulation.runner import simulate
 
 ROOT = Path(__file__).resolve().parent.parent
 CASES = ["pitch-step.toml", "pitch-up.toml", "flapping-plate.toml", "perching.toml"]
@@ -108,7 +111,7 @@ def window_effect(sc):
     ref = None
     for label, opts in rows:
         def run():
-            m = linear.heave_marcher(sc, **opts)
+            m = models.linear_heave_marcher(sc, **opts)
             m.run()
             return m.motion.n_rows
         t, n = timed(run)

@@ -28,15 +28,15 @@ matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 
 from unsteady import load_scenario, theory  # noqa: E402
-from unsteady.results import MODEL_CAUTION  # noqa: E402
-from unsteady.runner import simulate  # noqa: E402
+from unsteady.core.cautions import MODEL_CAUTION  # noqa: E402
+from unsteady.simulation.runner import simulate  # noqa: E402
 
 U, C, RHO = 10.0, 0.2, 1.2
 
 
-def _sc(extra, model="vortex", panels=40, chords=20.0, wake="frozen"):
+def _sc(extra, model="vortex", elements=40, chords=20.0, wake="frozen"):
     d = {"flow": {"speed": U, "density": RHO},
-         "airfoil": {"shape": "flat", "chord": C, "panels": panels},
+         "airfoil": {"shape": "flat", "chord": C, "elements": elements},
          "motion": {"pivot": 0.25},
          "run": {"chords": chords, "model": model, "wake": wake}}
     for k, v in extra.items():
@@ -122,7 +122,7 @@ def case_theodorsen(out):
             period_chords = math.pi / k
             n_per = 6 if model == "linear" else 3
             sc = _sc({"motion": {"pitch": {"law": "sine", "amplitude": 1.0, "reduced_frequency": k}}},
-                     model=model, panels=20, chords=n_per * period_chords)
+                     model=model, elements=20, chords=n_per * period_chords)
             if model == "linear":      # a whole number of samples per period
                 sc = sc.with_overrides({"run.dt": 2 * math.pi / (2 * U * k / C) / 200})
             h = simulate(sc).history

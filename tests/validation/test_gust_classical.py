@@ -15,13 +15,13 @@ from scipy import signal
 
 import unsteady
 from unsteady import theory
-from unsteady.gusts import turbulence_samples
+from unsteady.inputs.gusts import turbulence_samples
 
 
-def _flat(panels, duration, gust, wake="frozen", **run):
+def _flat(elements, duration, gust, wake="frozen", **run):
     return unsteady.load_scenario({
         "flow": {"speed": 1.0, "density": 1.0},
-        "airfoil": {"shape": "flat", "chord": 1.0, "panels": panels},
+        "airfoil": {"shape": "flat", "chord": 1.0, "elements": elements},
         "run": {"duration": duration, "wake": wake, **run},
         "gust": gust,
     })
@@ -48,14 +48,14 @@ def test_sharp_edged_gust_follows_kuessner():
     assert I_sim == pytest.approx(I_th, rel=0.03)                       # measured 1.2 %
 
 
-@pytest.mark.parametrize("k, panels", [(0.1, 8), (0.5, 24), (1.0, 32)])
-def test_sinusoidal_gust_follows_sears(k, panels):
+@pytest.mark.parametrize("k, elements", [(0.1, 8), (0.5, 24), (1.0, 32)])
+def test_sinusoidal_gust_follows_sears(k, elements):
     # Sears (1941): cl = 2 pi S(k) w_mid / U, with w_mid the gust at mid-chord.
     A = 0.01
     omega = 2.0 * k                     # omega = 2 U k / c
     period = 2.0 * math.pi / omega
     n_periods = 4 if k < 0.3 else 6
-    res = unsteady.simulate(_flat(panels, n_periods * period,
+    res = unsteady.simulate(_flat(elements, n_periods * period,
                                   {"profile": "sine", "amplitude": A, "reduced_frequency": k}))
     h = res.history
     last = h["t"] >= (n_periods - 2) * period          # the last two periods
@@ -80,7 +80,7 @@ def test_heave_in_one_minus_cosine_gust_matches_alleviation_formula(mu):
     U_de = 0.01 * U
     sc = unsteady.load_scenario({
         "flow": {"speed": U, "density": rho},
-        "airfoil": {"shape": "flat", "chord": c, "panels": 10},
+        "airfoil": {"shape": "flat", "chord": c, "elements": 10},
         "run": {"chords": 45, "wake": "frozen"},
         "aircraft": {"mass": mass, "wing_area": S},
         "gust": {"profile": "one-minus-cosine", "amplitude": U_de, "length": 25.0 * c,

@@ -3,7 +3,9 @@
 import numpy as np
 import pytest
 
-from unsteady import linear, theory
+from unsteady import theory
+
+from unsteady.linear import model as linear
 
 U, C = 10.0, 0.2      # any speed and chord: the checks are in reduced variables
 PPP = 200             # samples per period
@@ -110,7 +112,7 @@ def test_sharp_edged_gust_is_kuessner():
 def test_steady_camber_lift_and_moment():
     # Thin-airfoil theory (Abbott & von Doenhoff, Theory of Wing Sections,
     # 1959, ch. 4): cl = 2 pi (alpha - alpha_L0), cm_c/4 = cm0 in steady flow.
-    from unsteady.geometry import section_from_shape
+    from unsteady.inputs.sections import section_from_shape
     a_L0, cm0 = linear.section_constants(section_from_shape("naca2412", "."))
     # NACA 2412 mean line: alpha_L0 about -2.08 deg, cm_c/4 about -0.053 (thin-airfoil values, from memory)
     assert a_L0 == pytest.approx(np.radians(-2.08), abs=np.radians(0.02))
@@ -126,11 +128,11 @@ def test_steady_camber_lift_and_moment():
 
 def _ramp_runs(to_deg, wake):
     from unsteady import load_scenario
-    from unsteady.runner import simulate
+    from unsteady.simulation.runner import simulate
     runs = {}
     for model in ("vortex", "linear"):
         sc = load_scenario({"flow": {"speed": 10.0, "density": 1.2},
-                            "airfoil": {"shape": "flat", "chord": 0.2, "panels": 20},
+                            "airfoil": {"shape": "flat", "chord": 0.2, "elements": 20},
                             "motion": {"pivot": 0.25,
                                        "pitch": {"law": "ramp", "from": 0.0, "to": to_deg, "start": 0.02,
                                                  "duration": 0.06, "smoothing": 0.005}},

@@ -18,7 +18,7 @@ from unsteady import load_scenario, simulate, theory
 def scenario(**over):
     base = {
         "flow": {"speed": 10.0, "density": 1.2},
-        "airfoil": {"shape": "flat", "chord": 0.2, "panels": 40},
+        "airfoil": {"shape": "flat", "chord": 0.2, "elements": 40},
         "motion": {"pivot": 0.25},
         "run": {"chords": 1.0, "wake": "frozen", "start": "steady"},
         "output": {"plots": False},
@@ -85,8 +85,8 @@ def test_naca_zero_lift_angle_and_moment(shape, m, p):
 
 # ---------------------------------------------------------------- Wagner
 
-def wagner_run(panels, wake, chords=15.5):
-    sc = scenario(airfoil__panels=panels, motion__pitch=constant_pitch(2.0),
+def wagner_run(elements, wake, chords=15.5):
+    sc = scenario(airfoil__elements=elements, motion__pitch=constant_pitch(2.0),
                   run__start="impulsive", run__wake=wake, run__chords=chords)
     res = simulate(sc)
     s = 2 * res.history["t_star"]
@@ -104,11 +104,11 @@ def test_wagner_default_settings(wake):
     assert np.abs(err).max() < 0.005, f"max error {np.abs(err).max():.4%}"
 
 
-@pytest.mark.parametrize("panels", [20, 80])
+@pytest.mark.parametrize("elements", [20, 80])
 @pytest.mark.parametrize("wake", ["frozen", "free"])
-def test_wagner_other_resolutions(panels, wake):
+def test_wagner_other_resolutions(elements, wake):
     # same check within 1 % at 20 and 80 elements (no tuning to one resolution)
-    s, ratio = wagner_run(panels, wake)
+    s, ratio = wagner_run(elements, wake)
     sel = (s >= 1.0) & (s <= 30.0)
     err = ratio[sel] / theory.wagner(s[sel]) - 1
     assert np.abs(err).max() < 0.01, f"max error {np.abs(err).max():.4%}"
@@ -148,7 +148,7 @@ def test_theodorsen_harmonic_lift(kind, pivot, k):
     chords = max(periods * math.pi / k, 60.0)
     sc = load_scenario({
         "flow": {"speed": U, "density": 1.2},
-        "airfoil": {"shape": "flat", "chord": c, "panels": 40},
+        "airfoil": {"shape": "flat", "chord": c, "elements": 40},
         "motion": motion,
         "run": {"chords": chords, "wake": "frozen", "start": "steady"},
         "output": {"plots": False},
@@ -174,7 +174,7 @@ def test_theodorsen_harmonic_lift(kind, pivot, k):
 def ramp_run(to_deg=10.0, wake="free"):
     return simulate(load_scenario({
         "flow": {"speed": 10.0, "density": 1.2},
-        "airfoil": {"shape": "naca2412", "chord": 0.2, "panels": 40},
+        "airfoil": {"shape": "naca2412", "chord": 0.2, "elements": 40},
         "motion": {"pivot": 0.25, "pitch": {"law": "ramp", "from": 0.0, "to": to_deg, "start": 0.01,
                                               "duration": 0.08, "smoothing": 0.008}},
         "run": {"chords": 10.0, "wake": wake, "start": "steady"},
@@ -208,7 +208,7 @@ def test_plunging_plate_thrust_matches_garrick(k):
     h0 = 0.1 * b
     sc = load_scenario({
         "flow": {"speed": U, "density": 1.2},
-        "airfoil": {"shape": "flat", "chord": c, "panels": 40},
+        "airfoil": {"shape": "flat", "chord": c, "elements": 40},
         "motion": {"plunge": {"law": "sine", "amplitude": h0, "reduced_frequency": k}},
         "run": {"chords": 60.0, "wake": "frozen"},
         "output": {"plots": False},

@@ -1,0 +1,7 @@
+"""``python -m unsteady``: the command line."""
+
+import sys
+
+from .apps.cli import main
+
+sys.exit(main())

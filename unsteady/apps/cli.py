@@ -1,0 +1,100 @@
+"""The ``unsteady`` command: parses the command line and hands over to one command module.
+
+Each command is a module of :mod:`unsteady.apps` with ``add_arguments(parser)`` and
+``main(args) -> exit status``; only the module of the command given is imported,
+so ``unsteady --help`` and ``unsteady check`` start without the numerics,
+pictures or films.
+
+Exit status: 0 success; 2 invalid input (one line per problem on stderr as
+``error: <file>: <key>: <message>``, nothing written); 1 anything else;
+130 interrupted.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+
+#: command -> (module under unsteady.apps, one-line help)
+COMMANDS = {
+    "run": ("run", "run a scenario and write its run directory"),
+    "check": ("check", "validate a scenario without running it"),
+    "sweep": ("sweep", "run the cases of a scenario's [sweep] in parallel (resumable)"),
+    "animate": ("animate", "turn a run directory into a film (MP4 or GIF)"),
+    "pictures": ("pictures", "redraw the PNG pictures of a run directory"),
+    "compare": ("compare", "overlay the histories and loops of several runs and tabulate their lag metrics"),
+}
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with the project's one-line error format and exit status 2."""
+
+    def error(self, message):
+        self.exit(2, f"error: -: {self.prog}: {message} (see '{self.prog} --help')\n")
+
+
+def _chosen(argv):
+    """The command named in ``argv`` (the first word that is not an option), or None."""
+    for a in argv:
+        if not a.startswith("-"):
+            return a if a in COMMANDS else None
+    return None
+
+
+def build_parser(argv=None):
+    """The parser; only the chosen command's module is imported (all of them when ``argv`` is None)."""
+    from ..core.version import __version__
+    parser = _Parser(
+        prog="unsteady",
+        description="Unsteady lift, drag and moment of an airfoil in pitch, plunge and gusts "
+                    "(time-marching discrete-vortex model).")
+    parser.add_argument("--version", action="version", version=f"unsteady {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+    chosen = _chosen(argv) if argv is not None else None
+    for name, (module, help_) in COMMANDS.items():
+        p = sub.add_parser(name, help=help_, description=help_)
+        if argv is None or name == chosen:
+            mod = importlib.import_module(f"{__package__}.{module}")
+            mod.add_arguments(p)
+            p.set_defaults(handler=mod.main)
+    return parser
+
+
+def main(argv=None):
+    """Run the command line; returns the exit status."""
+    try:
+        argv = sys.argv[1:] if argv is None else list(argv)
+        args = build_parser(argv).parse_args(argv)
+        return _dispatch(args)
+    except KeyboardInterrupt:
+        print("unsteady: interrupted", file=sys.stderr)
+        return 130
+
+
+def _dispatch(args):
+    from ..core.errors import InputError, UsageError
+    from ..inputs.checks import ScenarioError
+    try:
+        return args.handler(args)
+    except ScenarioError as exc:
+        for p in exc.problems:
+            print(p.line(), file=sys.stderr)
+        return 2
+    except InputError as exc:
+        print(f"error: {getattr(args, 'scenario', '-')}: {exc.key}: {exc.message}", file=sys.stderr)
+        return 2
+    except UsageError as exc:
+        print(str(exc), file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        print("unsteady: interrupted", file=sys.stderr)
+        return 130
+    except Exception as exc:  # anything else: one line, exit 1
+        print(f"unsteady: {type(exc).__name__}: {exc}", file=sys.stderr)
+        return 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,43 @@
+"""``unsteady run``: run a scenario and write its run directory."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from ..core.errors import UsageError
+from .common import add_set, load
+
+
+def add_arguments(p):
+    p.add_argument("scenario", help="scenario file (TOML)")
+    p.add_argument("--out", metavar="DIR", help="run directory (default: output.dir of the scenario)")
+    add_set(p)
+    p.add_argument("--quiet", action="store_true", help="no progress bar or report")
+    p.add_argument("--no-plots", action="store_true", help="skip the PNG pictures")
+
+
+def main(args):
+    from ..outputs.rundir import check_out_dir
+    from ..simulation.runner import simulate
+    sc = load(args)
+    out = Path(args.out) if args.out else sc.out_dir()
+    problem = check_out_dir(out)
+    if problem:
+        raise UsageError(problem)
+    res = simulate(sc, progress=not args.quiet)
+    path = res.save(out, plots=sc.data["output"].get("plots", True) and not args.no_plots)
+    if res.error:
+        print(f"unsteady: run stopped early: {res.error}; the {len(res.history['t'])} steps "
+              f"computed so far are in {path}", file=sys.stderr)
+        return 1
+    if not args.quiet:
+        s = res.summary
+        print(f"{path}: {s['steps']} steps in {s['wall_time_s']:.2f} s; "
+              f"cl {s.get('cl_min', float('nan')):.4f} .. {s.get('cl_max', float('nan')):.4f} "
+              f"(max at t = {s.get('t_cl_max', float('nan')):.4g} s)"
+              + (f"; load factor {s['n_min']:.3f} .. {s['n_max']:.3f}" if "n_max" in s else ""))
+        if "n_max" in s:
+            from ..core.cautions import GUST_CAUTION
+            print(f"caution: {GUST_CAUTION}")
+    return 0

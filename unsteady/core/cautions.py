@@ -1,0 +1,34 @@
+"""The caution texts, one per context (console, summary, pictures, sweeps, gust loads).
+
+Every place that shows a number a user could size a structure or fly an
+aircraft with takes its caution from here, so the wording is one copy.
+"""
+
+#: Full caution of the section model (summary.json, compare, reports).
+MODEL_CAUTION = (
+    "Inviscid, attached-flow section model: it does not stall or separate, and a 2-D "
+    "section over-predicts the lift of a finite wing. Treat results as estimates with "
+    "margins; design loads follow the applicable airworthiness rules and are signed off "
+    "by qualified engineers."
+)
+
+#: Caution beside load factors and other gust-load numbers (console, summary, pictures).
+GUST_CAUTION = (
+    "Inviscid, attached-flow section model with no stall; a 2-D section "
+    "over-predicts the lift of a finite wing. Not for sizing structures or "
+    "clearing aircraft: design loads are set by the applicable airworthiness "
+    "rules and signed off by qualified engineers, with their margins."
+)
+
+#: Caution of a sweep's envelope (table, picture, console).
+SWEEP_CAUTION = (
+    "Envelope of an inviscid, attached-flow section model (no stall, no separation, "
+    "2-D section): estimates to be used with margins. Design gust loads follow the "
+    "applicable airworthiness rules and are signed off by qualified engineers."
+)
+
+#: Short form printed in the corner of pictures and films.
+PICTURE_CAUTION = (
+    "Inviscid attached-flow model (no stall or separation): estimates only; design loads "
+    "follow the applicable airworthiness rules."
+)

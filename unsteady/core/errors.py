@@ -1,0 +1,15 @@
+"""Error types of the library; the command line turns them into messages and exit codes."""
+
+
+class InputError(ValueError):
+    """A bad value of a scenario key (``key``: dotted path; ``message``: what is allowed)."""
+
+    def __init__(self, key: str, message: str):
+        super().__init__(f"{key}: {message}"); self.key = key; self.message = message
+
+
+class UsageError(Exception):
+    """Bad input that is not a scenario value: a folder, a file, an option (exit status 2).
+
+    ``str()`` is the whole line the user sees, ``error: <file>: <key>: <what is wrong>``.
+    """

@@ -1,0 +1,77 @@
+"""The ``[aircraft]`` section: its check and the constants of level flight.
+
+The heave itself is :mod:`unsteady.dynamics.heave`.
+"""
+
+from __future__ import annotations
+
+import math
+
+from .. import theory
+from ..core.errors import InputError
+from .checks import number, register_section, unknown_keys
+
+__all__ = ["check_aircraft_section", "G", "lift_scale", "CL_LEVEL_LIMIT", "CL_LEVEL_MAX"]
+
+#: Standard acceleration of gravity, m/s^2 (U.S. Standard Atmosphere 1976).
+G = 9.80665
+
+#: Above this level-flight lift coefficient the check warns that the trimmed
+#: section is near stall (thin sections reach cl of about 1 near 10-15 degrees
+#: at drone Reynolds numbers: common practice).
+CL_LEVEL_LIMIT = 1.0
+#: Above this level-flight lift coefficient the check refuses the scenario.
+CL_LEVEL_MAX = 2.0
+
+
+def lift_scale(aspect_ratio):
+    """kappa = a(A) / (2 pi) (Helmbold's slope over the 2-D one), 1 for no aspect ratio."""
+    if aspect_ratio is None:
+        return 1.0
+    return theory.helmbold_lift_slope(aspect_ratio) / (2.0 * math.pi)
+
+
+@register_section("aircraft")
+def check_aircraft_section(value, ctx):
+    """Check ``[aircraft]``: mass (kg), wing_area (m^2), optional aspect_ratio; (resolved, [InputError])."""
+    if not isinstance(value, dict):
+        return value, [InputError("aircraft", "must be a table [aircraft] with mass (kg) and wing_area (m^2)")]
+    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio"}, "aircraft.")
+    out = {}
+    for key, unit in (("mass", "kg"), ("wing_area", "m^2")):
+        if key not in value:
+            errors.append(InputError(f"aircraft.{key}", f"is required ({unit}, > 0)"))
+            continue
+        try:
+            out[key] = number(f"aircraft.{key}", value[key], gt=0.0, unit=unit)
+        except InputError as e:
+            errors.append(e)
+    if "aspect_ratio" in value:
+        try:
+            out["aspect_ratio"] = number("aircraft.aspect_ratio", value["aspect_ratio"], gt=0.0,
+                                         unit="(span^2 / wing area)")
+        except InputError as e:
+            errors.append(e)
+    if "plunge" in ctx.get("motion", {}):
+        errors.append(InputError("motion.plunge", "cannot be prescribed with [aircraft]: the aircraft heaves "
+                                                  "freely under its lift; remove motion.plunge or [aircraft]"))
+    c = ctx.get("airfoil", {}).get("chord")
+    if not errors and c and "wing_area" in out and out["wing_area"] < c * c:
+        errors.append(InputError("aircraft.wing_area", f"is {out['wing_area']:g} m^2, less than chord^2 = "
+                                                       f"{c * c:g} m^2: the span (wing_area / chord) would be "
+                                                       f"shorter than the chord"))
+    U, rho = ctx.get("flow", {}).get("speed"), ctx.get("flow", {}).get("density")
+    if not errors and U and rho and isinstance(ctx.get("_warnings"), list):
+        cl_w = out["mass"] * G / (0.5 * rho * U * U * out["wing_area"] * lift_scale(out.get("aspect_ratio")))
+        if cl_w > CL_LEVEL_MAX:
+            errors.append(InputError(
+                "aircraft.mass", f"level flight would need a section lift coefficient of {cl_w:.2f}; an "
+                                 f"attached-flow section gives at most about 1.5 before it stalls, and this model "
+                                 f"accepts up to {CL_LEVEL_MAX:g}: raise flow.speed or aircraft.wing_area, or "
+                                 f"lower aircraft.mass"))
+        elif cl_w > CL_LEVEL_LIMIT:
+            ctx["_warnings"].append(InputError(
+                "aircraft.mass", f"level flight needs a section lift coefficient of {cl_w:.2f}, above "
+                                 f"{CL_LEVEL_LIMIT:g}: the wing would be near stall, outside the attached-flow "
+                                 f"model; raise flow.speed or aircraft.wing_area"))
+    return out, errors

@@ -1,0 +1,628 @@
+"""Motion laws for pitch and plunge (value and exact time derivatives), registered by the name the scenario uses."""
+
+from __future__ import annotations
+
+import csv
+import difflib
+import io
+import math
+import numbers
+import pathlib
+from dataclasses import dataclass
+from typing import Mapping
+
+import numpy as np
+from scipy.interpolate import CubicSpline
+
+from ..core.errors import InputError
+from ..core.registry import registrar
+
+__all__ = [
+    "LAWS",
+    "register_law",
+    "LawContext",
+    "Law",
+    "Constant",
+    "Step",
+    "Ramp",
+    "Sine",
+    "Table",
+    "SumLaw",
+    "build_law",
+    "law_problems",
+    "Kinematics",
+    "logcosh",
+]
+
+#: The registry: law name as written in a scenario (``law = "ramp"``) -> class.
+LAWS: dict[str, type["Law"]] = {}
+
+
+#: Class decorator: add a :class:`Law` subclass to :data:`LAWS` under ``name``.
+register_law = registrar(LAWS, "motion law")
+
+
+@dataclass(frozen=True)
+class LawContext:
+    """What a law may need beyond its own keys.
+
+    Attributes
+    ----------
+    scale : float
+        Factor from the scenario unit of the quantity to the unit the law
+        returns: pi/180 for pitch (degrees in, radians out), 1 for plunge (m).
+    speed : float or None
+        Flight speed U, m/s (for a reduced frequency).
+    chord : float or None
+        Chord c, m (for a reduced frequency).
+    base_dir : pathlib.Path or None
+        Folder that relative file paths are taken from.
+    """
+
+    scale: float = 1.0
+    speed: float | None = None
+    chord: float | None = None
+    base_dir: pathlib.Path | None = None
+
+
+class Law:
+    """A prescribed time history q(t) of pitch or plunge, with its exact derivatives.
+
+    What a new law implements (the public :meth:`value`, :meth:`rate` and
+    :meth:`accel`, and the checks in :func:`build_law`, are the base's and
+    are not overridden):
+
+    1. Subclass ``Law`` and decorate it with ``@register_law("name")``; the
+       name is what a scenario writes as ``law = "name"``.  Cite the source of
+       the formula in the class docstring.
+    2. ``KEYS``: tuple of the required keys (besides ``law``).
+    3. ``OPTIONAL``: dict of the optional keys and their defaults; a default
+       of ``None`` means "absent unless given".
+    4. ``TEXT``: keys holding text (every other key holds a number), and
+       ``SCALED``: keys holding the moved quantity itself (degrees of pitch,
+       metres of plunge); the base multiplies them by ``context.scale`` into
+       ``self.scaled[key]``.  Times, frequencies and phases are not scaled.
+    5. ``check(spec)`` (classmethod): the rules between values (a duration
+       above zero, exactly one of two keys, ...).  It is called with the
+       defaults filled in and after the base has checked that required keys
+       are present, that no key is unknown, and that numbers are finite real
+       numbers (not booleans) and texts are text.  It raises
+       ``InputError(key, message)`` with the key relative to the law table
+       and a message that says what is allowed.
+    6. ``__init__(self, spec, context)``: call ``super().__init__(spec,
+       context)`` and prepare.  Problems that need the context (a file to
+       read, the flight speed) raise ``InputError`` here.
+    7. ``_value(t)``, ``_rate(t)`` and ``_accel(t)``: for a float ndarray t,
+       arrays of t's shape holding q, the EXACT first derivative dq/dt and the
+       exact second derivative d2q/dt2 (the classical apparent-mass terms use
+       it), all multiplied by the scale.  No finite differences.
+    """
+
+    name: str = ""
+    KEYS: tuple = ()
+    OPTIONAL: dict = {}
+    TEXT: tuple = ()
+    SCALED: tuple = ()
+
+    def __init__(self, spec: Mapping, context: LawContext = LawContext()):
+        self.spec = dict(spec)
+        self.context = context
+        self.scale = float(context.scale)
+        self.scaled = {key: self.scale * float(self.spec[key]) for key in self.SCALED
+                       if self.spec.get(key) is not None}
+
+    @classmethod
+    def check(cls, spec: Mapping) -> None:
+        """Rules between the values of a law table (see rule 5); none by default."""
+
+    # -- public evaluation, owned by the base ---------------------------------
+    @staticmethod
+    def _out(t, q):
+        q = np.broadcast_to(np.asarray(q, dtype=float), np.shape(t))
+        return float(q) if q.ndim == 0 else np.array(q)
+
+    def value(self, t):
+        """q(t); a float for a scalar t, else an array of t's shape."""
+        t = np.asarray(t, dtype=float)
+        return self._out(t, self._value(t))
+
+    def rate(self, t):
+        """Exact first time derivative dq/dt."""
+        t = np.asarray(t, dtype=float)
+        return self._out(t, self._rate(t))
+
+    def accel(self, t):
+        """Exact second time derivative d2q/dt2."""
+        t = np.asarray(t, dtype=float)
+        return self._out(t, self._accel(t))
+
+    def resolved(self):
+        """The law table with its defaults filled in, as a scenario would write it."""
+        out = {"law": self.name}
+        out.update({k: v for k, v in self.spec.items() if v is not None})
+        return out
+
+    def _value(self, t):
+        raise NotImplementedError
+
+    def _rate(self, t):
+        raise NotImplementedError
+
+    def _accel(self, t):
+        raise NotImplementedError
+
+    def __repr__(self):
+        return f"<{type(self).__name__} {self.resolved()}>"
+
+
+@register_law("constant")
+class Constant(Law):
+    """q(t) = value."""
+
+    KEYS = ("value",)
+    SCALED = ("value",)
+
+    def _value(self, t):
+        return np.full_like(t, self.scaled["value"])
+
+    def _rate(self, t):
+        return np.zeros_like(t)
+
+    def _accel(self, t):
+        return np.zeros_like(t)
+
+
+@register_law("step")
+class Step(Law):
+    """q(t) = 0 before ``time``, ``value`` from ``time`` on.
+
+    The rate and acceleration are zero everywhere: the impulse (and its
+    derivative) that a true step carries at ``time`` is not represented, so a
+    model that needs dq/dt sees the step only through the value.  For a
+    physically finite rate use a ``ramp`` with a short ``duration``.
+    """
+
+    KEYS = ("value", "time")
+    SCALED = ("value",)
+
+    def _value(self, t):
+        return np.where(t >= float(self.spec["time"]), self.scaled["value"], 0.0)
+
+    def _rate(self, t):
+        return np.zeros_like(t)
+
+    def _accel(self, t):
+        return np.zeros_like(t)
+
+
+def logcosh(x):
+    """ln(cosh x) without overflow: |x| + log1p(exp(-2|x|)) - ln 2 (vectorised)."""
+    a = np.abs(x)
+    return a + np.log1p(np.square(np.exp(-a))) - math.log(2.0)
+
+
+def _sech2(x):
+    """sech^2 x = 4 e^(-2|x|) / (1 + e^(-2|x|))^2, without overflow."""
+    e = np.square(np.exp(-np.abs(x)))
+    return 4.0 * e / (1.0 + e) ** 2
+
+
+@register_law("ramp")
+class Ramp(Law):
+    """Ramp from ``from`` to ``to`` over ``duration`` seconds, beginning at ``start``.
+
+    Sharp (``smoothing`` = 0): piecewise linear; the rate is the slope
+    (to - from)/D on [t0, t1) and zero elsewhere, the acceleration zero (its
+    impulses at the corners are not represented).
+
+    Smoothed (``smoothing`` = sigma > 0, in seconds): the log-cosh rounded
+    ramp used for canonical pitch ramps by J. D. Eldredge, C. Wang &
+    M. V. Ol, AIAA 2009-3687 (2009)::
+
+        q = q0 + (q1 - q0) [1/2 + sigma/(2 D) ln(cosh((t - t0)/sigma) / cosh((t - t1)/sigma))]
+
+    with t1 = t0 + D.  It is evaluated as the sharp ramp plus a bounded
+    correction, using ln cosh a = |a| + phi(a), phi(a) = log1p(e^(-2|a|)) - ln 2,
+    and |a| - |b| = (2 clip(t - t0, 0, D) - D)/sigma, so that it returns
+    exactly q0 and q1 far from the corners and differs from the sharp ramp by
+    at most |q1 - q0| sigma ln 2 / (2 D).  Exact derivatives:
+    dq/dt = (q1 - q0)(tanh a - tanh b)/(2 D) and
+    d2q/dt2 = (q1 - q0)(sech^2 a - sech^2 b)/(2 D sigma), a = (t - t0)/sigma,
+    b = (t - t1)/sigma.
+    """
+
+    KEYS = ("from", "to", "start", "duration")
+    OPTIONAL = {"smoothing": 0.0}
+    SCALED = ("from", "to")
+
+    @classmethod
+    def check(cls, spec):
+        if spec["duration"] <= 0:
+            raise InputError("duration", f"must be above 0 s, got {spec['duration']}")
+        if spec["smoothing"] < 0:
+            raise InputError("smoothing", f"must be 0 (sharp corners) or a positive time in seconds, "
+                                          f"got {spec['smoothing']}")
+
+    def __init__(self, spec, context=LawContext()):
+        super().__init__(spec, context)
+        self.q0, self.q1 = self.scaled["from"], self.scaled["to"]
+        self.t0 = float(self.spec["start"])
+        self.D = float(self.spec["duration"])
+        self.t1 = self.t0 + self.D
+        self.sigma = float(self.spec["smoothing"])
+
+    def _value(self, t):
+        f = np.clip(t - self.t0, 0.0, self.D) / self.D  # the sharp ramp, 0..1
+        if self.sigma > 0.0:
+            a, b = (t - self.t0) / self.sigma, (t - self.t1) / self.sigma
+            phi_a = np.log1p(np.square(np.exp(-np.abs(a))))
+            phi_b = np.log1p(np.square(np.exp(-np.abs(b))))
+            f = f + self.sigma / (2.0 * self.D) * (phi_a - phi_b)
+        return self.q0 * (1.0 - f) + self.q1 * f
+
+    def _rate(self, t):
+        dq = self.q1 - self.q0
+        if self.sigma > 0.0:
+            a, b = (t - self.t0) / self.sigma, (t - self.t1) / self.sigma
+            return dq * (np.tanh(a) - np.tanh(b)) / (2.0 * self.D)
+        u = t - self.t0  # the same test as the clip in _value, so value and rate agree at the corners
+        return np.where((u >= 0.0) & (u < self.D), dq / self.D, 0.0)
+
+    def _accel(self, t):
+        if self.sigma > 0.0:
+            a, b = (t - self.t0) / self.sigma, (t - self.t1) / self.sigma
+            return (self.q1 - self.q0) * (_sech2(a) - _sech2(b)) / (2.0 * self.D * self.sigma)
+        return np.zeros_like(t)
+
+
+@register_law("sine")
+class Sine(Law):
+    """q(t) = mean + amplitude sin(omega t + phase).
+
+    omega = 2 pi ``frequency`` (Hz), or omega = 2 U k / c from the
+    ``reduced_frequency`` k = omega c / (2 U) (T. Theodorsen, NACA Report 496,
+    1935).  ``phase`` is in degrees whatever the quantity.  Exact derivatives:
+    amplitude omega cos(omega t + phase) and -amplitude omega^2 sin(omega t + phase).
+    """
+
+    KEYS = ("amplitude",)
+    OPTIONAL = {"frequency": None, "reduced_frequency": None, "mean": 0.0, "phase": 0.0}
+    SCALED = ("amplitude", "mean")
+
+    @classmethod
+    def check(cls, spec):
+        f, k = spec["frequency"], spec["reduced_frequency"]
+        if (f is None) == (k is None):
+            key = "frequency" if f is None else "reduced_frequency"
+            raise InputError(key, "give exactly one of frequency (Hz) and reduced_frequency (k = omega c / (2 U))")
+        if f is not None and f <= 0:
+            raise InputError("frequency", f"must be above 0 Hz, got {f}")
+        if k is not None and k <= 0:
+            raise InputError("reduced_frequency", f"must be above 0, got {k}")
+
+    def __init__(self, spec, context=LawContext()):
+        super().__init__(spec, context)
+        if self.spec.get("frequency") is not None:
+            self.omega = 2.0 * math.pi * float(self.spec["frequency"])
+        else:
+            U, c = context.speed, context.chord
+            if U is None or c is None or not (U > 0 and c > 0):
+                raise InputError("reduced_frequency", "needs a valid flow speed and airfoil chord (omega = 2 U k / c); "
+                                                      "or give frequency in Hz")
+            self.omega = 2.0 * float(U) * float(self.spec["reduced_frequency"]) / float(c)
+        self.A = self.scaled["amplitude"]
+        self.q_mean = self.scaled["mean"]
+        self.phi = math.radians(float(self.spec["phase"]))
+
+    def _value(self, t):
+        return self.q_mean + self.A * np.sin(self.omega * t + self.phi)
+
+    def _rate(self, t):
+        return self.A * self.omega * np.cos(self.omega * t + self.phi)
+
+    def _accel(self, t):
+        return -self.A * self.omega**2 * np.sin(self.omega * t + self.phi)
+
+
+@register_law("table")
+class Table(Law):
+    """q(t) interpolated in a CSV table with columns ``t`` (s) and ``value``.
+
+    A cubic spline through the points (scipy.interpolate.CubicSpline,
+    not-a-knot ends; a straight line for two rows) whose first and second
+    derivatives are the rate and acceleration, so the three are consistent.
+    Before the first time and after the last the end values are held (rate
+    and acceleration zero there).  Other columns are ignored; blank lines and
+    lines starting with ``#`` are skipped.  ``value`` is in the quantity's
+    scenario unit (degrees of pitch, metres of plunge).
+    """
+
+    KEYS = ("file",)
+    TEXT = ("file",)
+
+    @classmethod
+    def check(cls, spec):
+        if not spec["file"].strip():
+            raise InputError("file", "is empty; give the path of a CSV file with columns t and value")
+
+    def __init__(self, spec, context=LawContext()):
+        super().__init__(spec, context)
+        path = pathlib.Path(self.spec["file"]).expanduser()
+        if not path.is_absolute() and context.base_dir is not None:
+            path = pathlib.Path(context.base_dir) / path
+        self.path = path
+        t, q = _read_table(path)
+        self.t_first, self.t_last = float(t[0]), float(t[-1])
+        self.q_first, self.q_last = self.scale * float(q[0]), self.scale * float(q[-1])
+        self._spline = CubicSpline(t, self.scale * q)
+        self._d1 = self._spline.derivative(1)
+        self._d2 = self._spline.derivative(2)
+
+    def _inside(self, t):
+        return (t >= self.t_first) & (t <= self.t_last)
+
+    def _value(self, t):
+        tc = np.clip(t, self.t_first, self.t_last)
+        return self._spline(tc)
+
+    def _rate(self, t):
+        return np.where(self._inside(t), self._d1(np.clip(t, self.t_first, self.t_last)), 0.0)
+
+    def _accel(self, t):
+        return np.where(self._inside(t), self._d2(np.clip(t, self.t_first, self.t_last)), 0.0)
+
+
+def _read_table(path):
+    """Columns t and value of a CSV file, checked; InputError with key "file" otherwise."""
+    name = path.name
+    try:
+        text = path.read_text(encoding="utf-8-sig")
+    except FileNotFoundError:
+        raise InputError("file", f"table '{path}' not found") from None
+    except IsADirectoryError:
+        raise InputError("file", f"'{path}' is a folder, not a CSV table") from None
+    except UnicodeDecodeError:
+        raise InputError("file", f"'{path}' is not a text (CSV) file") from None
+    except OSError as exc:
+        raise InputError("file", f"cannot read table '{path}' ({exc.strerror or exc})") from None
+
+    reader = csv.reader(io.StringIO(text))
+    header = None
+    rows = []  # (line number, cells)
+    for cells in reader:
+        if not cells or not "".join(cells).strip() or cells[0].lstrip().startswith("#"):
+            continue
+        if header is None:
+            header = [c.strip().lower() for c in cells]
+            continue
+        rows.append((reader.line_num, cells))
+    if header is None:
+        raise InputError("file", f"'{name}' is empty; it needs a header row naming columns t and value")
+    for col in ("t", "value"):
+        if col not in header:
+            found = ", ".join(h for h in header if h) or "nothing"
+            raise InputError("file", f"'{name}' has no column '{col}'; the header row must name columns t and value "
+                                     f"(found: {found})")
+    it, iv = header.index("t"), header.index("value")
+    t, q = [], []
+    for k, (line, cells) in enumerate(rows, start=1):
+        pair = []
+        for col, i in (("t", it), ("value", iv)):
+            cell = cells[i].strip() if i < len(cells) else ""
+            try:
+                x = float(cell)
+            except ValueError:
+                shown = f"'{cell}'" if cell else "an empty cell"
+                raise InputError("file", f"row {k} (line {line}) of '{name}': {shown} in column {col} is not a "
+                                         f"number") from None
+            if not math.isfinite(x):
+                raise InputError("file", f"row {k} (line {line}) of '{name}': {col} = {cell} is not finite")
+            pair.append(x)
+        t.append(pair[0])
+        q.append(pair[1])
+    if len(t) < 2:
+        raise InputError("file", f"'{name}' has {len(t)} data row{'s' if len(t) != 1 else ''}; at least 2 are needed")
+    t, q = np.array(t), np.array(q)
+    bad = np.flatnonzero(np.diff(t) <= 0.0)
+    if len(bad):
+        k = int(bad[0]) + 2
+        raise InputError("file", f"row {k} (line {rows[k - 1][0]}) of '{name}': t = {t[k - 1]:g} does not come after "
+                                 f"t = {t[k - 2]:g}; times must increase strictly")
+    return t, q
+
+
+class SumLaw(Law):
+    """The sum of several laws (a scenario's list of law tables): value and derivatives add."""
+
+    name = "sum"
+
+    def __init__(self, laws):
+        super().__init__({}, laws[0].context if laws else LawContext())
+        self.laws = list(laws)
+
+    def resolved(self):
+        """The list of law tables, defaults filled in."""
+        return [law.resolved() for law in self.laws]
+
+    def _value(self, t):
+        return sum((law._value(t) for law in self.laws), np.zeros_like(t))
+
+    def _rate(self, t):
+        return sum((law._rate(t) for law in self.laws), np.zeros_like(t))
+
+    def _accel(self, t):
+        return sum((law._accel(t) for law in self.laws), np.zeros_like(t))
+
+    def __repr__(self):
+        return f"<SumLaw {self.resolved()}>"
+
+
+# ----------------------------------------------------------------------------
+# building and checking
+
+
+def _allowed_laws():
+    return ", ".join(LAWS)
+
+
+def _is_number(v):
+    return isinstance(v, numbers.Real) and not isinstance(v, (bool, np.bool_))
+
+
+def _nearest(word, choices):
+    near = difflib.get_close_matches(str(word), list(choices), n=1, cutoff=0.6)
+    return near[0] if near else None
+
+
+def _one(spec, context, *, stop_early):
+    """Check and build one law table: (problems, law or None)."""
+    if not isinstance(spec, Mapping):
+        return [InputError("law", f"expected a law table like {{ law = \"ramp\", ... }}, got {type(spec).__name__}")], None
+    name = spec.get("law")
+    if name is None:
+        return [InputError("law", f"missing: say which law, one of {_allowed_laws()}")], None
+    if not isinstance(name, str) or name not in LAWS:
+        near = _nearest(name, LAWS) if isinstance(name, str) else None
+        hint = f" (did you mean '{near}'?)" if near else ""
+        return [InputError("law", f"unknown law '{name}'{hint}; allowed: {_allowed_laws()}")], None
+    cls = LAWS[name]
+    known = (*cls.KEYS, *cls.OPTIONAL)
+    problems = []
+    for key in spec:
+        if key == "law":
+            continue
+        if key not in known:
+            near = _nearest(key, known)
+            hint = f" (did you mean '{near}'?)" if near else ""
+            problems.append(InputError(str(key), f"unknown key for the '{name}' law{hint}; allowed: {', '.join(known)}"))
+            continue
+        v = spec[key]
+        if key in cls.TEXT:
+            if not isinstance(v, str):
+                problems.append(InputError(key, f"expected text (a file path), got {v!r}"))
+        elif not _is_number(v):
+            got = f"the text '{v}'" if isinstance(v, str) else repr(v)
+            problems.append(InputError(key, f"expected a number, got {got}"))
+        elif not math.isfinite(v):
+            problems.append(InputError(key, f"must be a finite number, got {v}"))
+    for key in cls.KEYS:
+        if key not in spec:
+            problems.append(InputError(key, f"missing; the '{name}' law needs {', '.join(cls.KEYS)}"))
+    if problems:
+        return (problems[:1] if stop_early else problems), None
+    full = {key: spec[key] for key in cls.KEYS}
+    full.update({key: spec.get(key, default) for key, default in cls.OPTIONAL.items()})
+    try:
+        cls.check(full)
+        return [], cls(full, context)
+    except InputError as exc:
+        return [exc], None
+
+
+def _all(spec, context, *, stop_early):
+    """Check and build a law table or list of them: (problems, law or None)."""
+    if isinstance(spec, (list, tuple)):
+        if not spec:
+            return [InputError("law", f"the list of laws is empty; give at least one, e.g. "
+                                      f"{{ law = \"constant\", value = 0 }}")], None
+        problems, laws = [], []
+        for i, item in enumerate(spec):
+            found, law = _one(item, context, stop_early=stop_early)
+            problems += [InputError(f"[{i}].{e.key}", e.message) for e in found]
+            if stop_early and problems:
+                return problems, None
+            laws.append(law)
+        return (problems, None) if problems else ([], SumLaw(laws))
+    return _one(spec, context, stop_early=stop_early)
+
+
+def build_law(spec, *, scale=1.0, speed=None, chord=None, base_dir=None) -> Law:
+    """Build a motion law from its scenario table, or the sum of a list of tables.
+
+    Parameters
+    ----------
+    spec : dict or list of dict
+        ``{"law": "ramp", "from": 0, "to": 20, "start": 0.05, "duration": 0.1}``
+        or a list of such tables, which are summed (:class:`SumLaw`).
+    scale : float, optional
+        Scenario unit -> returned unit of the moved quantity: pi/180 for pitch
+        (degrees in, radians out), 1 for plunge (metres).
+    speed, chord : float, optional
+        Flight speed U (m/s) and chord c (m); needed only for a
+        ``reduced_frequency`` (omega = 2 U k / c).
+    base_dir : pathlib.Path, optional
+        Folder that a table's relative ``file`` is taken from.
+
+    Returns
+    -------
+    Law
+
+    Raises
+    ------
+    InputError
+        The first problem found, keyed relative to the law table (``"duration"``),
+        or to the list (``"[1].duration"``): an unknown law or key (with the
+        nearest valid name), a missing key, a value of the wrong type
+        (booleans are not numbers), a number that is not finite or out of
+        range, a bad table file.
+    """
+    context = LawContext(scale=float(scale), speed=speed, chord=chord,
+                         base_dir=None if base_dir is None else pathlib.Path(base_dir))
+    problems, law = _all(spec, context, stop_early=True)
+    if problems:
+        raise problems[0]
+    return law
+
+
+def law_problems(spec, *, speed=None, chord=None, base_dir=None) -> list[InputError]:
+    """Every problem of a law table (or list of them), without raising.
+
+    Same checks and keys as :func:`build_law`, collected: all key and type
+    problems of each table, or else its first rule problem (and, for a table
+    file or a reduced frequency, the problem of building it).  An empty list
+    means :func:`build_law` will succeed with the same arguments.
+    """
+    context = LawContext(scale=1.0, speed=speed, chord=chord,
+                         base_dir=None if base_dir is None else pathlib.Path(base_dir))
+    problems, _ = _all(spec, context, stop_early=False)
+    return problems
+
+
+def _zero():
+    return Constant({"value": 0.0})
+
+
+@dataclass(frozen=True)
+class Kinematics:
+    """Prescribed pitch and plunge of the airfoil.
+
+    Parameters
+    ----------
+    pivot : float
+        Pitch axis, fraction of chord aft of the leading edge.
+    pitch : Law, optional
+        alpha(t) in radians, positive nose-up; zero if omitted.
+    plunge : Law, optional
+        h(t) in metres, positive up; zero if omitted.
+    """
+
+    pivot: float
+    pitch: Law | None = None
+    plunge: Law | None = None
+
+    def __post_init__(self):
+        if not _is_number(self.pivot) or not math.isfinite(self.pivot):
+            raise InputError("pivot", f"must be a finite number (fraction of chord aft of the leading edge), "
+                                      f"got {self.pivot!r}")
+        if self.pitch is None:
+            object.__setattr__(self, "pitch", _zero())
+        if self.plunge is None:
+            object.__setattr__(self, "plunge", _zero())
+
+    def state(self, t):
+        """(alpha, alpha_dot, h, h_dot) at time(s) t: rad, rad/s, m, m/s."""
+        return self.pitch.value(t), self.pitch.rate(t), self.plunge.value(t), self.plunge.rate(t)
+
+    def accel(self, t):
+        """(alpha_ddot, h_ddot) at time(s) t: rad/s^2, m/s^2."""
+        return self.pitch.accel(t), self.plunge.accel(t)

@@ -1,0 +1,424 @@
+"""Load and validate scenario files (TOML or dicts), fill defaults, apply overrides.
+
+Every check happens here, once, at the boundary: the rest of the package
+trusts a :class:`Scenario`.  Problems are collected (not stopped at the
+first) and reported one line each as ``error: <file>: <key>: <message>``.
+
+Extra sections (``[gust]``, ``[aircraft]``, ``[sweep]``) are checked by the
+modules that own them through :func:`register_section`.
+"""
+
+from __future__ import annotations
+
+import copy
+import math
+import tomllib
+from dataclasses import dataclass, field
+from functools import cached_property
+from pathlib import Path
+
+from ..core.errors import InputError
+from .checks import (_SECTIONS, Problem, ScenarioError, _is_number, choice, integer,  # noqa: F401
+                     number, register_section, text, unknown_keys)
+
+
+def _load_plugins():
+    # Importing these modules registers their sections.
+    from . import aircraft, gusts, sweep  # noqa: F401
+
+
+CORE_SECTIONS = ("title", "flow", "airfoil", "motion", "run", "output")
+RUN_MODELS = ("vortex", "linear")   # [run] model; unsteady.simulation.models registers one function each
+
+
+STEPS_PER_PERIOD = 120
+DEFAULT_FAR_WAKE = 30.0   # chords
+
+
+def default_dt(chord, speed, elements, frequency=0.0):
+    """Default time step (s).
+
+    The air travels one mean element length per step, U dt = c / N; with the
+    shed vortex at 0.3 of the last step's travel this reproduces the Wagner
+    function within 0.2 % from 20 to 160 elements (tests/validation).  A
+    faster sinusoidal motion also gets at least 120 steps per period
+    (common practice; Theodorsen's lift at k = 2 is then within 1 %).
+    """
+    dt = chord / (speed * elements)
+    if frequency > 0.0:
+        dt = min(dt, 1.0 / (STEPS_PER_PERIOD * frequency))
+    return dt
+
+
+def fastest_frequency(spec, speed, chord):
+    """Highest frequency (Hz) of the sine laws in a motion-law spec (or list)."""
+    if isinstance(spec, list):
+        return max([fastest_frequency(s, speed, chord) for s in spec] + [0.0])
+    if not isinstance(spec, dict) or spec.get("law") != "sine":
+        return 0.0
+    if _is_number(spec.get("frequency")):
+        return abs(float(spec["frequency"]))
+    k = spec.get("reduced_frequency")
+    if _is_number(k) and speed and chord:
+        return abs(float(k)) * speed / (math.pi * chord)   # omega = 2 U k / c
+    return 0.0
+
+
+# --------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Scenario:
+    """A checked scenario: ``data`` is the fully resolved dict (file units:
+    degrees, metres, seconds); the properties give SI/radian values."""
+
+    data: dict
+    source: str = "<dict>"
+    base_dir: Path = field(default_factory=Path.cwd)
+    # the input as given (after --set overrides, before defaults were filled):
+    # sweeps re-resolve each case from it so derived defaults (dt, density) follow
+    raw: dict = field(default=None, compare=False, repr=False)
+    #: ``warning: <file>: <key>: <message>`` lines from the checks (the run goes ahead).
+    warnings: tuple = field(default=(), compare=False)
+
+    # -- plain values
+    @property
+    def title(self):
+        return self.data.get("title", "")
+
+    @property
+    def speed(self):
+        return self.data["flow"]["speed"]
+
+    @property
+    def density(self):
+        return self.data["flow"]["density"]
+
+    @property
+    def chord(self):
+        return self.data["airfoil"]["chord"]
+
+    @property
+    def elements(self):
+        return self.data["airfoil"]["elements"]
+
+    @property
+    def pivot(self):
+        return self.data["motion"]["pivot"]
+
+    @property
+    def dt(self):
+        return self.data["run"]["dt"]
+
+    @property
+    def duration(self):
+        return self.data["run"]["duration"]
+
+    @property
+    def steps(self):
+        return int(math.ceil(self.duration / self.dt - 1e-9))
+
+    @cached_property
+    def section(self):
+        from .sections import section_from_shape
+        return section_from_shape(self.data["airfoil"]["shape"], self.base_dir)
+
+    @cached_property
+    def kinematics(self):
+        from .motion import Kinematics, build_law
+        mo = self.data["motion"]
+        kw = dict(speed=self.speed, chord=self.chord, base_dir=self.base_dir)
+        pitch = build_law(mo.get("pitch", {"law": "constant", "value": 0.0}), scale=math.pi / 180.0, **kw)
+        plunge = build_law(mo.get("plunge", {"law": "constant", "value": 0.0}), scale=1.0, **kw)
+        return Kinematics(mo["pivot"], pitch, plunge)
+
+    def out_dir(self):
+        return Path(self.data["output"]["dir"])
+
+    def to_toml(self) -> str:
+        """The resolved scenario as TOML, loadable again (gives the same run)."""
+        import tomli_w
+        data = copy.deepcopy(self.data)
+        if "chords" in data.get("run", {}):
+            data["run"].pop("duration", None)    # exactly one of the two may be given
+        if "altitude" in data.get("flow", {}):
+            data["flow"].pop("density", None)
+        return tomli_w.dumps(_tomlable(data))
+
+    def with_overrides(self, overrides):
+        """A new scenario with ``key.path=value`` overrides applied to the input
+        as given (so derived defaults such as dt follow) and re-checked."""
+        raw = copy.deepcopy(self.raw if self.raw is not None else self.data)
+        apply_overrides(raw, overrides)
+        return load_scenario(raw, source_name=self.source, base_dir=self.base_dir)
+
+
+def _tomlable(d):
+    if isinstance(d, dict):
+        return {k: _tomlable(v) for k, v in d.items() if v is not None and not k.startswith("_")}
+    if isinstance(d, (list, tuple)):
+        return [_tomlable(v) for v in d]
+    return d
+
+
+def parse_override(text_):
+    """``"a.b=1"`` -> ("a.b", 1): the value is read as TOML, else kept as text."""
+    if "=" not in text_:
+        raise InputError(text_, "an override must look like key.path=value")
+    key, val = text_.split("=", 1)
+    key = key.strip()
+    if not key or any(not p for p in key.split(".")):
+        raise InputError(text_, "an override must look like key.path=value")
+    try:
+        value = tomllib.loads(f"v = {val.strip()}")["v"]
+    except tomllib.TOMLDecodeError:
+        value = val.strip()
+    return key, value
+
+
+# Pairs of keys of which a scenario gives exactly one: overriding one drops the other.
+EITHER_OR = (("run.duration", "run.chords"), ("flow.density", "flow.altitude"))
+
+
+def apply_overrides(raw, overrides):
+    """Apply overrides (list of ``"k=v"`` texts or a dict of dotted keys) in place.
+
+    Setting one key of an :data:`EITHER_OR` pair (``run.chords`` for a
+    scenario that gave ``run.duration``, say) removes the other.
+    """
+    items = list(overrides.items() if isinstance(overrides, dict)
+                 else (parse_override(o) for o in overrides or ()))
+    keys = {k for k, _ in items}
+    for a, b in EITHER_OR:
+        for this, other in ((a, b), (b, a)):
+            if this in keys and other not in keys:
+                sec, k = other.split(".")
+                if isinstance(raw.get(sec), dict):
+                    raw[sec].pop(k, None)
+    for key, value in items:
+        parts = key.split(".")
+        node = raw
+        for i, p in enumerate(parts[:-1]):
+            if isinstance(node, list):
+                raise InputError(key, "cannot set a key inside a list of laws or gusts; override the whole list")
+            nxt = node.get(p)
+            if not isinstance(nxt, dict):
+                if nxt is not None and not isinstance(nxt, dict):
+                    raise InputError(key, f"'{'.'.join(parts[:i + 1])}' is not a table")
+                nxt = node[p] = {}
+            node = nxt
+        node[parts[-1]] = value
+    return raw
+
+
+def read_toml(path):
+    """Read a TOML file; InputError with the line for syntax errors."""
+    path = Path(path)
+    try:
+        with open(path, "rb") as f:
+            return tomllib.load(f)
+    except FileNotFoundError:
+        raise InputError("-", "no such file") from None
+    except IsADirectoryError:
+        raise InputError("-", "is a folder, not a scenario file") from None
+    except OSError as exc:
+        raise InputError("-", f"cannot be read ({exc.strerror})") from None
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
+        raise InputError("-", f"is not valid TOML ({exc})") from None
+
+
+def load_scenario(source, overrides=None, *, source_name=None, base_dir=None, source_label=None, **kw):
+    """Load, check and resolve a scenario.
+
+    Parameters
+    ----------
+    source : str, Path or dict
+        A TOML file or an already parsed dict.
+    overrides : list of str or dict, optional
+        ``"key.path=value"`` texts (as ``--set``) or a dict of dotted keys.
+
+    Returns
+    -------
+    Scenario
+
+    Raises
+    ------
+    ScenarioError
+        With every problem found, one line each.
+    """
+    if isinstance(source, dict):
+        raw = copy.deepcopy(source)
+        name = source_name or "<dict>"
+        base = Path(base_dir) if base_dir else Path.cwd()
+        stem = "scenario"
+    else:
+        path = Path(source)
+        name = source_name or str(source)
+        base = Path(base_dir) if base_dir else path.resolve().parent
+        stem = path.stem
+        try:
+            raw = read_toml(path)
+        except InputError as e:
+            raise ScenarioError([Problem(name, e.key, e.message)]) from None
+    if overrides:
+        try:
+            apply_overrides(raw, overrides)
+        except InputError as e:
+            raise ScenarioError([Problem(name, f"--set {e.key}", e.message)]) from None
+    data, errors = resolve(raw, base, stem)
+    if errors:
+        raise ScenarioError([Problem(name, e.key, e.message) for e in errors])
+    warnings = tuple(f"warning: {name}: {w.key}: {w.message}" for w in data.pop("_warnings", ()))
+    return Scenario(data=data, source=name, base_dir=base, raw=copy.deepcopy(raw), warnings=warnings)
+
+
+def resolve(raw, base_dir, stem="scenario"):
+    """Check ``raw`` and return (resolved dict, list of InputError)."""
+    _load_plugins()
+    errors = []
+    out = {}
+
+    def grab(fn, *a, **k):
+        try:
+            return fn(*a, **k)
+        except InputError as e:
+            errors.append(e)
+            return None
+
+    allowed = set(CORE_SECTIONS) | set(_SECTIONS)
+    errors += unknown_keys(raw, allowed, "")
+    for sec in ("flow", "airfoil", "motion", "run", "output"):
+        if sec in raw and not isinstance(raw[sec], dict):
+            errors.append(InputError(sec, "must be a table ([" + sec + "])"))
+            raw = {**raw, sec: {}}
+    if "title" in raw:
+        out["title"] = grab(text, "title", raw["title"])
+
+    # [flow]
+    fl = raw.get("flow", {})
+    errors += unknown_keys(fl, {"speed", "density", "altitude"}, "flow.")
+    flow = {}
+    if "speed" not in fl:
+        errors.append(InputError("flow.speed", "is required (m/s, > 0)"))
+    else:
+        flow["speed"] = grab(number, "flow.speed", fl["speed"], gt=0.0, unit="m/s")
+    if ("density" in fl) == ("altitude" in fl):
+        errors.append(InputError("flow.density", "give exactly one of flow.density (kg/m^3) or flow.altitude (m, standard atmosphere)"))
+    elif "density" in fl:
+        flow["density"] = grab(number, "flow.density", fl["density"], gt=0.0, unit="kg/m^3")
+    else:
+        alt = grab(number, "flow.altitude", fl["altitude"], unit="m")
+        if alt is not None:
+            from . import atmosphere
+            try:
+                flow["density"] = float(atmosphere.density(alt))
+                flow["altitude"] = alt
+            except ValueError as exc:
+                errors.append(InputError("flow.altitude", str(exc)))
+    out["flow"] = flow
+
+    # [airfoil]
+    af = raw.get("airfoil", {})
+    if "panels" in af:
+        errors.append(InputError("airfoil.panels", "was renamed: write airfoil.elements (vortex elements on "
+                                                   "the camber line, 4 to 1000)"))
+        af = {k: v for k, v in af.items() if k != "panels"}
+    errors += unknown_keys(af, {"shape", "chord", "elements"}, "airfoil.")
+    airfoil = {"shape": af.get("shape", "flat")}
+    if "chord" not in af:
+        errors.append(InputError("airfoil.chord", "is required (m, > 0)"))
+    else:
+        airfoil["chord"] = grab(number, "airfoil.chord", af["chord"], gt=0.0, unit="m")
+    airfoil["elements"] = grab(integer, "airfoil.elements", af.get("elements", 40), ge=4, le=1000)
+    if grab(text, "airfoil.shape", airfoil["shape"]) is not None:
+        from .sections import section_from_shape
+        try:
+            section_from_shape(airfoil["shape"], base_dir)
+        except InputError as e:
+            errors.append(InputError("airfoil.shape", e.message))
+    out["airfoil"] = airfoil
+
+    speed = flow.get("speed")
+    chord = airfoil.get("chord")
+    elements = airfoil.get("elements")
+
+    # [motion]
+    mo = raw.get("motion", {})
+    errors += unknown_keys(mo, {"pivot", "pitch", "plunge"}, "motion.")
+    motion = {"pivot": grab(number, "motion.pivot", mo.get("pivot", 0.25), ge=-0.5, le=1.5,
+                            unit="(fraction of chord aft of the leading edge)")}
+    from .motion import law_problems
+    for q in ("pitch", "plunge"):
+        if q in mo:
+            spec = mo[q]
+            if not isinstance(spec, (dict, list)):
+                errors.append(InputError(f"motion.{q}", "must be a law table like { law = \"sine\", ... } or a list of them"))
+                continue
+            for e in law_problems(spec, speed=speed, chord=chord, base_dir=base_dir):
+                k = e.key if e.key.startswith("[") else "." + e.key
+                errors.append(InputError(f"motion.{q}{k}", e.message))
+            motion[q] = spec
+    out["motion"] = motion
+
+    # [run]
+    ru = raw.get("run", {})
+    run_keys = {"duration", "chords", "dt", "wake", "start", "model", "shed_offset",
+                "core_radius", "far_wake"}
+    errors += unknown_keys(ru, run_keys, "run.")
+    run = {}
+    if ("duration" in ru) == ("chords" in ru):
+        errors.append(InputError("run.duration", "give exactly one of run.duration (s) or run.chords (chord lengths travelled)"))
+    elif "duration" in ru:
+        run["duration"] = grab(number, "run.duration", ru["duration"], gt=0.0, unit="s")
+    else:
+        ch = grab(number, "run.chords", ru["chords"], gt=0.0)
+        if ch is not None:
+            run["chords"] = ch
+            if speed and chord:
+                run["duration"] = ch * chord / speed
+    if "dt" in ru:
+        run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
+    elif speed and chord and elements:
+        f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge"))
+        run["dt"] = default_dt(chord, speed, elements, f_max)
+    run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
+    run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
+    run["model"] = grab(choice, "run.model", ru.get("model", "vortex"), RUN_MODELS)
+    run["shed_offset"] = grab(number, "run.shed_offset", ru.get("shed_offset", 0.3), ge=0.05, le=1.0)
+    if "core_radius" in ru:
+        run["core_radius"] = grab(number, "run.core_radius", ru["core_radius"], gt=0.0, unit="m")
+    # Beyond far_wake chords the wake is merged chord by chord into lumps that
+    # drift with the air (solver.VortexSolver): in 10 s of turbulence, 20-40
+    # chords changed the peak load factor by about 1e-5 (tools/bench_gusts.py)
+    run["far_wake"] = grab(number, "run.far_wake", ru.get("far_wake", DEFAULT_FAR_WAKE), gt=1.0,
+                           unit="chords (distance behind the airfoil beyond which the wake is merged)")
+    if run.get("duration") and run.get("dt"):
+        steps = run["duration"] / run["dt"]
+        if steps > 5e6:
+            errors.append(InputError("run.dt", f"gives {steps:.3g} steps; at most 5e6 are allowed: shorten run.duration or raise run.dt"))
+        elif steps < 1:
+            errors.append(InputError("run.dt", "is longer than the run itself: lower run.dt or lengthen run.duration"))
+    out["run"] = run
+
+    # [output]
+    ou = raw.get("output", {})
+    errors += unknown_keys(ou, {"dir", "snapshot_every", "plots"}, "output.")
+    output = {"dir": grab(text, "output.dir", ou.get("dir", f"runs/{stem}")),
+              "snapshot_every": grab(number, "output.snapshot_every", ou.get("snapshot_every", 0.0), ge=0.0,
+                                     unit="s (time between wake snapshots; 0 picks about 200 over the run)"),
+              "plots": ou.get("plots", True)}
+    if not isinstance(output["plots"], bool):
+        errors.append(InputError("output.plots", f"must be true or false, got {output['plots']!r}"))
+    out["output"] = output
+
+    # registered sections
+    ctx = dict(out)
+    ctx["_base_dir"] = base_dir
+    ctx["_warnings"] = []          # checkers append InputError(key, message) for warnings
+    for name, checker in _SECTIONS.items():
+        if name in raw:
+            value, errs = checker(raw[name], ctx)
+            errors += errs
+            out[name] = value
+    if ctx["_warnings"]:
+        out["_warnings"] = ctx["_warnings"]
+    return out, errors

@@ -1,0 +1,319 @@
+"""The ``[sweep]`` section of a scenario: its check, its cases and their resume keys.
+
+Loading a scenario checks the section itself (:func:`check_section`);
+:func:`build_cases` resolves every case.  Running them belongs to
+:mod:`unsteady.apps.sweep`.
+"""
+
+from __future__ import annotations
+
+import copy
+import hashlib
+import itertools
+import json
+import math
+import re
+import sys
+from dataclasses import dataclass, field
+
+from ..core.errors import InputError
+from ..core.version import __version__
+from .checks import Problem, ScenarioError, register_section, text, unknown_keys
+
+SWEEP_KEYS = ("grid", "cases", "name", "envelope", "save_runs")
+ENVELOPE_KEYS = ("value", "across", "lines")
+MAX_CASES = 100_000
+
+# --------------------------------------------------------------------------
+# the [sweep] section
+
+def _is_value_table(d):
+    """A table that is one scenario value (a motion law or a gust), not a group of keys."""
+    return isinstance(d, dict) and ("law" in d or "profile" in d)
+
+
+def flatten(table, prefix=""):
+    """Nested tables -> ``{"a.b": value}``; law and gust tables stay whole."""
+    out = {}
+    for k, v in table.items():
+        key = f"{prefix}{k}"
+        if isinstance(v, dict) and not _is_value_table(v):
+            if not v:
+                out[key] = v
+            out.update(flatten(v, key + "."))
+        else:
+            out[key] = v
+    return out
+
+
+_PLACEHOLDER = re.compile(r"\{([^{}:]+)(?::([^{}]*))?\}")
+
+
+def _fmt_value(v):
+    """A swept value as a short text (table cells, case names)."""
+    if isinstance(v, bool):
+        return "true" if v else "false"
+    if isinstance(v, float):
+        return repr(v)
+    if isinstance(v, (int, str)):
+        return str(v)
+    return json.dumps(v, sort_keys=True, separators=(",", ":"))
+
+
+def _name_from_pattern(pattern, values, index):
+    def sub(m):
+        key, spec = m.group(1), m.group(2)
+        v = index if key == "index" else values[key]
+        if spec:
+            return format(v, spec)
+        return _fmt_value(v)
+    return _PLACEHOLDER.sub(sub, pattern)
+
+
+@register_section("sweep")
+def check_section(value, ctx):
+    """Check the ``[sweep]`` table itself (each case's scenario is checked by :func:`check_cases`).
+
+    Returns the resolved section: ``grid`` (dotted key -> list), ``cases``
+    (list of ``{"name": ..., dotted key: value}``), ``name``, ``envelope``,
+    ``save_runs``.
+    """
+    errors = []
+    if not isinstance(value, dict):
+        return value, [InputError("sweep", "must be a table ([sweep]) with grid and/or cases")]
+    errors += unknown_keys(value, SWEEP_KEYS, "sweep.")
+    out = {"save_runs": value.get("save_runs", False)}
+    if not isinstance(out["save_runs"], bool):
+        errors.append(InputError("sweep.save_runs", f"must be true or false, got {out['save_runs']!r}"))
+    grid = {}
+    if "grid" in value:
+        g = value["grid"]
+        if not isinstance(g, dict) or not g:
+            errors.append(InputError("sweep.grid", "must be a table of scenario keys to lists of values, "
+                                                   "e.g. \"flow.speed\" = [12.0, 16.0]"))
+        else:
+            for k, v in flatten(g).items():
+                if not isinstance(v, list) or not v:
+                    errors.append(InputError(f"sweep.grid.{k}", f"must be a non-empty list of values, got {v!r}"))
+                else:
+                    grid[k] = v
+    out["grid"] = grid
+    cases = []
+    if "cases" in value:
+        cs = value["cases"]
+        if not isinstance(cs, list) or not cs:
+            errors.append(InputError("sweep.cases", "must be a list of tables of overrides ([[sweep.cases]])"))
+        else:
+            for i, c in enumerate(cs):
+                if not isinstance(c, dict):
+                    errors.append(InputError(f"sweep.cases[{i}]", f"must be a table of overrides, got {c!r}"))
+                    continue
+                c = dict(c)
+                name = c.pop("name", None)
+                case = {}
+                if name is not None:
+                    try:
+                        case["name"] = _check_name(f"sweep.cases[{i}].name", name)
+                    except InputError as e:
+                        errors.append(e)
+                case.update(flatten(c))
+                cases.append(case)
+    out["cases"] = cases
+    if "grid" not in value and "cases" not in value:
+        errors.append(InputError("sweep", "needs a grid (sweep.grid) and/or a list of cases ([[sweep.cases]])"))
+    n_grid = math.prod(len(v) for v in grid.values()) if grid else 0
+    if n_grid + len(cases) > MAX_CASES:
+        errors.append(InputError("sweep.grid", f"gives {n_grid + len(cases)} cases; at most {MAX_CASES} are allowed"))
+    if "name" in value:
+        try:
+            pat = text("sweep.name", value["name"])
+            for m in _PLACEHOLDER.finditer(pat):
+                if m.group(1) != "index" and m.group(1) not in grid:
+                    raise InputError("sweep.name", f"refers to {{{m.group(1)}}}, which is not a grid key; "
+                                                   f"allowed: {', '.join(['index'] + list(grid))}")
+            out["name"] = pat
+        except InputError as e:
+            errors.append(e)
+    env = value.get("envelope", {})
+    if not isinstance(env, dict):
+        errors.append(InputError("sweep.envelope", "must be a table like { value = \"n_max\", across = \"gust.length\" }"))
+        env = {}
+    errors += unknown_keys(env, ENVELOPE_KEYS, "sweep.envelope.")
+    swept = list(grid) + [k for c in cases for k in c if k != "name"]
+    for k in ENVELOPE_KEYS:
+        if k in env:
+            if not isinstance(env[k], str) or not env[k]:
+                errors.append(InputError(f"sweep.envelope.{k}", f"must be a text, got {env[k]!r}"))
+            elif k != "value" and env[k] not in swept:
+                errors.append(InputError(f"sweep.envelope.{k}", f"must be one of the swept keys "
+                                                                 f"({', '.join(dict.fromkeys(swept))}), got {env[k]!r}"))
+    out["envelope"] = {k: env[k] for k in ENVELOPE_KEYS if k in env}
+    if not errors:
+        try:
+            expand(out)
+        except InputError as e:
+            errors.append(e)
+    return out, errors
+
+
+def _check_name(key, name):
+    name = text(key, name)
+    if not re.fullmatch(r"[A-Za-z0-9][A-Za-z0-9_.,=+-]*", name):
+        raise InputError(key, f"must be letters, digits and _ . , = + - (it names a folder), got {name!r}")
+    return name
+
+
+def expand(sweep):
+    """The cases of a resolved ``[sweep]`` section: a list of ``(name, overrides)``.
+
+    Grid cases (Cartesian product in the order the keys are given, the last
+    varying fastest) come first, then the listed cases.  Unnamed cases are
+    called ``case-001``, ``case-002`` ... by their position.
+    """
+    out = []
+    grid = sweep.get("grid") or {}
+    pattern = sweep.get("name")
+    if grid:
+        keys = list(grid)
+        for combo in itertools.product(*(grid[k] for k in keys)):
+            values = dict(zip(keys, combo))
+            i = len(out) + 1
+            name = _name_from_pattern(pattern, values, i) if pattern else f"case-{i:03d}"
+            out.append((name, values))
+    for c in sweep.get("cases") or ():
+        i = len(out) + 1
+        ov = {k: v for k, v in c.items() if k != "name"}
+        out.append((c.get("name") or f"case-{i:03d}", ov))
+    seen = {}
+    for name, _ in out:
+        if name in seen:
+            raise InputError("sweep.name", f"two cases are both called {name!r}; names must be unique")
+        seen[name] = True
+        if pattern:
+            _check_name("sweep.name", name)
+    return out
+
+
+# --------------------------------------------------------------------------
+# cases
+
+@dataclass
+class Case:
+    """One case of a sweep: its overrides, its raw input and, when valid, its scenario."""
+
+    index: int
+    name: str
+    overrides: dict
+    raw: dict
+    scenario: object = None
+    problems: list = field(default_factory=list)
+    key: str = ""
+
+
+def base_raw(sc):
+    """The raw input of a scenario without its ``[sweep]`` (what each case overrides)."""
+    if sc.raw is not None:
+        raw = copy.deepcopy(sc.raw)
+    else:   # built without load_scenario: undo the defaults that derive from other keys
+        raw = copy.deepcopy(sc.data)
+        if "altitude" in raw.get("flow", {}):
+            raw["flow"].pop("density", None)
+        if "chords" in raw.get("run", {}):
+            raw["run"].pop("duration", None)
+        raw.get("run", {}).pop("dt", None)
+    raw.pop("sweep", None)
+    # keep the base's output folder (a file stem is lost when a dict is re-read)
+    raw.setdefault("output", {})
+    if isinstance(raw["output"], dict):
+        raw["output"]["dir"] = sc.data["output"]["dir"]
+    return raw
+
+
+def case_raw(base, overrides):
+    """``base`` with the overrides applied (a new dict)."""
+    from .scenario import apply_overrides
+    raw = copy.deepcopy(base)
+    apply_overrides(raw, overrides)      # also drops the other key of an either-or pair
+    return raw
+
+
+# sections of a scenario that cannot change a case's numbers (left out of its key,
+# so that moving or renaming the sweep keeps what it has done)
+NOT_HASHED = ("title", "output")
+
+
+def case_key(sc):
+    """Hash of a fully resolved case scenario and the package version (the resume key).
+
+    The scenario is hashed as ``Scenario.to_toml()`` writes it, less the
+    sections in ``NOT_HASHED``.
+    """
+    import tomli_w
+    from .scenario import _tomlable
+    data = {k: v for k, v in sc.data.items() if k not in NOT_HASHED}
+    h = hashlib.sha256()
+    h.update(tomli_w.dumps(_tomlable(data)).encode())
+    h.update(b"\0unsteady " + __version__.encode())
+    return h.hexdigest()[:16]
+
+
+def build_cases(sc):
+    """Expand and resolve every case of a scenario's ``[sweep]``.
+
+    Returns
+    -------
+    list of Case
+        Invalid cases have ``problems`` (``Problem`` with keys like
+        ``sweep[case-003].flow.speed``) and no scenario.
+    """
+    base = base_raw(sc)
+    cases = []
+    for i, (name, ov) in enumerate(expand(sc.data["sweep"])):
+        c = Case(i, name, ov, {})
+        try:
+            c.raw = case_raw(base, ov)
+            c.scenario = _load(c.raw, source_name=sc.source, base_dir=sc.base_dir)
+            c.key = case_key(c.scenario)
+        except InputError as e:
+            c.problems = [Problem(sc.source, f"sweep[{name}].{e.key}", e.message)]
+        except ScenarioError as e:
+            c.problems = [Problem(sc.source, f"sweep[{name}].{p.key}", p.message) for p in e.problems]
+        if c.problems:
+            h = hashlib.sha256(json.dumps([c.raw, __version__], sort_keys=True, default=str).encode())
+            c.key = "x" + h.hexdigest()[:15]
+        cases.append(c)
+    return cases
+
+
+def case_warnings(sc, cases):
+    """The warnings of the cases (e.g. a gust beyond the attached-flow range), as
+    ``warning: <file>: sweep[<name>].<key>: ...`` lines, those of the base scenario left out."""
+    base = set(sc.warnings)
+    prefix = f"warning: {sc.source}: "
+    out = []
+    for c in cases:
+        for w in (c.scenario.warnings if c.scenario is not None else ()):
+            if w not in base and w.startswith(prefix):
+                out.append(f"{prefix}sweep[{c.name}].{w[len(prefix):]}")
+    return out
+
+
+def check_cases(sc, stream=None):
+    """Check every case of ``sc``'s ``[sweep]``; raise ScenarioError listing all invalid ones.
+
+    Warnings of valid cases are written to ``stream`` (default stderr).
+    """
+    cases = build_cases(sc)
+    for line in case_warnings(sc, cases):
+        print(line, file=stream or sys.stderr)
+    problems = [p for c in cases for p in c.problems]
+    if problems:
+        raise ScenarioError(problems)
+    return True
+
+
+
+def _load(raw, **kw):
+    from .scenario import load_scenario
+    return load_scenario(raw, **kw)
+

@@ -1,0 +1,692 @@
+"""Films of a run (MP4 or GIF): the airfoil, its wake, the gust and a history trace, drawn frame by frame."""
+
+from __future__ import annotations
+
+import math
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+from dataclasses import dataclass
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")
+import numpy as np  # noqa: E402
+from matplotlib.backends.backend_agg import FigureCanvasAgg  # noqa: E402
+from matplotlib.colors import Normalize  # noqa: E402
+from matplotlib.figure import Figure  # noqa: E402
+from matplotlib.lines import Line2D  # noqa: E402
+from matplotlib.patches import Polygon  # noqa: E402
+
+from . import fields  # noqa: E402
+from ..core.errors import UsageError  # noqa: E402
+from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP  # noqa: E402
+
+__all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
+           "FLOW_STYLES", "VIEWS", "TRACES"]
+
+FLOW_STYLES = {
+    "vortices": "wake vortices (teal: counter-clockwise, brick: clockwise; size: strength)",
+    "vorticity": "smoothed vorticity (1/s)",
+    "speed": "flow speed (m/s)",
+    "streamlines": "streamlines",
+}
+VIEWS = {
+    "airfoil": "seen riding with the airfoil (the air streams past to the right)",
+    "air": "seen from the still air (the airfoil flies through it to the left)",
+}
+# trace name -> (history column, label)
+TRACES = {
+    "cl": ("cl", "lift coefficient cl"),
+    "cm": ("cm", "moment coefficient cm\n(quarter chord, nose-up +)"),
+    "n": ("n", "load factor n"),
+    "pitch": ("alpha_deg", "pitch angle (deg)"),
+    "plunge": ("h", "plunge height h (m)"),
+}
+FORMATS = (".mp4", ".gif")
+
+
+@dataclass(frozen=True)
+class FilmOptions:
+    """How a film is made (all have defaults; see ``unsteady animate --help``).
+
+    Attributes
+    ----------
+    frame_rate : float
+        Frames per second of the film.
+    width, height : int
+        Picture size in pixels (even for MP4).
+    span : (float or None, float or None)
+        Part of the run to show, seconds of run time (None: from the first /
+        to the last snapshot).
+    slowdown : float or None
+        Film seconds per second of flow (10 = ten times slower than real
+        time, 0.5 = twice as fast).  None with ``frames`` None: one frame per
+        snapshot.
+    frames : int or None
+        Exact number of frames (sets the slowdown).
+    view : {"airfoil", "air"}
+    flow : {"vortices", "vorticity", "speed", "streamlines"}
+    trace : {"cl", "cm", "n", "pitch", "plunge"} or None
+        None: the load factor when the run has it, else cl.
+    grid : (int, int) or None
+        Field grid nodes (nx, nz); None: about one node per 8 pixels.
+    reach : float
+        Chords of wake shown behind the trailing edge.
+    """
+
+    frame_rate: float = 25.0
+    width: int = 1280
+    height: int = 720
+    span: tuple = (None, None)
+    slowdown: float = None
+    frames: int = None
+    view: str = "airfoil"
+    flow: str = "vortices"
+    trace: str = None
+    grid: tuple = None
+    reach: float = 6.0
+
+
+# ---------------------------------------------------------------------------
+def load_run(run_dir):
+    """Read a run directory for a film; bad input raises :class:`UsageError` (exit 2)."""
+    from ..simulation.result import Result
+    run_dir = Path(run_dir)
+    if not run_dir.is_dir():
+        raise UsageError(f"error: {run_dir}: RUN_DIR: no such run directory; give a folder written by 'unsteady run'")
+    for name in ("history.csv", "summary.json", "scenario.toml"):
+        if not (run_dir / name).is_file():
+            raise UsageError(f"error: {run_dir}: {name}: missing; give a folder written by 'unsteady run'")
+    if not (run_dir / "snapshots.npz").is_file():
+        raise UsageError(f"error: {run_dir}: snapshots.npz: missing: the run kept no wake snapshots; "
+                         "rerun it with 'unsteady run' (output.snapshot_every sets their spacing)")
+    try:
+        res = Result.load(run_dir)
+    except Exception as exc:
+        raise UsageError(f"error: {run_dir}: -: cannot read the run ({type(exc).__name__}: {exc})") from None
+    if res.scenario is None:
+        res.scenario = _read_resolved_scenario(run_dir)
+    if fields.snapshot_count(res.snapshots) == 0 or "offsets" not in res.snapshots:
+        raise UsageError(f"error: {run_dir}: snapshots.npz: holds no wake snapshots; rerun the scenario")
+    return res
+
+
+def _read_resolved_scenario(run_dir):
+    """The run's scenario.toml, tolerating a resolved file that lists both density and altitude."""
+    from ..inputs.scenario import load_scenario, read_toml
+    path = Path(run_dir) / "scenario.toml"
+    try:
+        raw = read_toml(path)
+        flow = raw.get("flow", {})
+        if "density" in flow and "altitude" in flow:
+            flow.pop("altitude")
+        return load_scenario(raw, source_name=str(path), base_dir=Path(run_dir))
+    except Exception as exc:
+        raise UsageError(f"error: {path}: -: cannot be read back ({exc}); rerun the scenario") from None
+
+
+class Film:
+    """What a film shows, decided once for all frames: times, views, limits, colours.
+
+    Parameters
+    ----------
+    result : Result
+        A run (with scenario and wake snapshots).
+    options : FilmOptions
+    label : str
+        Where the run came from, for error messages.
+    """
+
+    def __init__(self, result, options=FilmOptions(), label="run"):
+        self.res = result
+        self.opt = options
+        self.sc = sc = result.scenario
+        self.snap = result.snapshots
+        self.hist = result.history
+        self.label = label
+        self.U, self.c, self.pivot = float(sc.speed), float(sc.chord), float(sc.pivot)
+        self.section = sc.section
+        self.r_wake, self.r_body = fields.core_radii(sc)
+        self._check_options()
+        ts = np.asarray(self.snap["t"], dtype=float)
+        t0 = ts[0] if options.span[0] is None else float(options.span[0])
+        t1 = ts[-1] if options.span[1] is None else float(options.span[1])
+        t0, t1 = max(t0, ts[0]), min(t1, ts[-1])
+        if not t1 >= t0:
+            raise UsageError(f"error: {label}: --span: {options.span[0]}:{options.span[1]} holds no snapshot; "
+                             f"the run's snapshots cover {ts[0]:.4g} to {ts[-1]:.4g} s")
+        self.t0, self.t1 = t0, t1
+        in_span = np.flatnonzero((ts >= t0 - 1e-12) & (ts <= t1 + 1e-12))
+        if options.frames is not None:
+            n = int(options.frames)
+        elif options.slowdown is not None:
+            n = max(1, int(round((t1 - t0) * options.slowdown * options.frame_rate)) + 1)
+        else:
+            n = max(1, in_span.size)
+        self.n_frames = n
+        if options.frames is None and options.slowdown is None:
+            self.snap_index = in_span if in_span.size else np.array([int(np.argmin(abs(ts - t0)))])
+        else:
+            times = np.linspace(t0, t1, n) if n > 1 else np.array([t0])
+            j = np.clip(np.searchsorted(ts, times), 1, ts.size - 1) if ts.size > 1 else np.zeros(n, int)
+            if ts.size > 1:
+                j = np.where(np.abs(ts[j - 1] - times) <= np.abs(ts[j] - times), j - 1, j)
+            self.snap_index = j.astype(int)
+        self.times = ts[self.snap_index]
+        self.repeats = n - np.unique(self.snap_index).size
+        # film time between frames 1/fps covers (t1 - t0)/(n - 1) of flow time
+        self.slowdown = ((n - 1) / options.frame_rate) / (t1 - t0) if t1 > t0 and n > 1 else float("nan")
+        self.air = options.view == "air"
+        self.trace_name = options.trace or ("n" if "n" in self.hist else "cl")
+        self.trace_col, self.trace_label = TRACES[self.trace_name]
+        self._gust_setup()
+
+    # -- checks ------------------------------------------------------------
+    def _check_options(self):
+        o, lab = self.opt, self.label
+        if o.view not in VIEWS:
+            raise UsageError(f"error: {lab}: --view: unknown view {o.view!r}; allowed: {', '.join(VIEWS)}")
+        if o.flow not in FLOW_STYLES:
+            raise UsageError(f"error: {lab}: --flow: unknown drawing {o.flow!r}; allowed: {', '.join(FLOW_STYLES)}")
+        if o.trace is not None and o.trace not in TRACES:
+            raise UsageError(f"error: {lab}: --trace: unknown history {o.trace!r}; allowed: {', '.join(TRACES)}")
+        if o.trace is not None and TRACES[o.trace][0] not in self.hist:
+            have = [k for k, (col, _) in TRACES.items() if col in self.hist]
+            why = " (the scenario has no [aircraft] section)" if o.trace == "n" else ""
+            raise UsageError(f"error: {lab}: --trace: this run has no {o.trace!r} history{why}; "
+                             f"allowed here: {', '.join(have)}")
+        if not (o.frame_rate > 0 and o.frame_rate <= 120):
+            raise UsageError(f"error: {lab}: --frame-rate: {o.frame_rate}; allowed: more than 0, at most 120 per second")
+        if not (64 <= o.width <= 7680 and 64 <= o.height <= 4320):
+            raise UsageError(f"error: {lab}: --size: {o.width}x{o.height}; allowed: 64x64 to 7680x4320 pixels")
+        if o.slowdown is not None and not (o.slowdown > 0 and math.isfinite(o.slowdown)):
+            raise UsageError(f"error: {lab}: --slowdown: {o.slowdown}; allowed: a positive number")
+        if o.frames is not None and not (1 <= o.frames <= 200000):
+            raise UsageError(f"error: {lab}: --frames: {o.frames}; allowed: 1 to 200000")
+        if o.grid is not None and not (4 <= o.grid[0] <= 2000 and 4 <= o.grid[1] <= 2000):
+            raise UsageError(f"error: {lab}: --grid: {o.grid[0]}x{o.grid[1]}; allowed: 4x4 to 2000x2000 nodes")
+        if not (o.reach > 0 and math.isfinite(o.reach)):
+            raise UsageError(f"error: {lab}: --reach: {o.reach}; allowed: a positive number of chords")
+
+    # -- gust --------------------------------------------------------------
+    def _gust_setup(self):
+        """w(x, t) of the gust in the solver's frame: from the scenario's gust field, else from w_gust."""
+        self.gust_w = None
+        self.gust_field = None
+        if self.sc.data.get("gust"):
+            try:
+                from ..inputs.gusts import build_gust_field
+                self.gust_field = build_gust_field(self.sc)
+                self.gust_w = lambda x, t: self.gust_field.velocity(x, np.zeros_like(x), t)[1]
+            except (ImportError, AttributeError):
+                self.gust_field = None
+        if self.gust_w is None and "w_gust" in self.hist and np.any(self.hist["w_gust"] != 0):
+            th, wg = self.hist["t"], self.hist["w_gust"]
+            x_le = -self.pivot * self.c
+            # a frozen pattern carried at U: what is at x now was at the leading edge at t - (x - x_le) / U
+            self.gust_w = lambda x, t: np.interp(t - (x - x_le) / self.U, th, wg)
+        if self.gust_w is not None:
+            wmax = 0.0
+            if "w_gust" in self.hist:
+                wmax = float(np.nanmax(np.abs(self.hist["w_gust"])))
+            if not wmax > 0:
+                xs = np.linspace(-5 * self.c, 5 * self.c, 50)
+                wmax = max(float(np.max(np.abs(self.gust_w(xs, t)))) for t in self.times[:: max(1, len(self.times) // 20)])
+            if not wmax > 0:
+                self.gust_w = None
+            self.gust_max = wmax
+
+    # -- frames ------------------------------------------------------------
+    def x_shift(self, t):
+        """Shift (m) from the solver's frame to the picture's frame at time t."""
+        return -self.U * (t - self.t0) if self.air else 0.0
+
+    def frame_state(self, i):
+        """(t, snapshot index, alpha, h) of frame i."""
+        k = int(self.snap_index[i])
+        return float(self.snap["t"][k]), k, float(self.snap["alpha"][k]), float(self.snap["h"][k])
+
+    def sources(self, i):
+        t, k, _, _ = self.frame_state(i)
+        return fields.snapshot_sources(self.snap, k, self.r_wake, self.r_body, self.x_shift(t))
+
+    def wake(self, i):
+        t, k, _, _ = self.frame_state(i)
+        o = self.snap["offsets"]
+        a, b = int(o[k]), int(o[k + 1])
+        return (self.snap["x"][a:b] + self.x_shift(t), self.snap["z"][a:b], self.snap["gamma"][a:b])
+
+
+class FilmRenderer:
+    """Draws the frames of a :class:`Film` into one reused figure (blitting on a fixed background).
+
+    ``frame(i)`` returns an (height, width, 3) uint8 array.  The axes limits,
+    colour limits and every static element are set once in the constructor.
+    """
+
+    DPI = 100.0
+
+    def __init__(self, film: Film):
+        self.film = f = film
+        o = f.opt
+        self.W, self.H = int(o.width), int(o.height)
+        s = (self.H / 720.0) ** 0.6
+        self.fs = max(5.0, 10.5 * s)
+        fig = Figure(figsize=((self.W + 0.01) / self.DPI, (self.H + 0.01) / self.DPI), dpi=self.DPI,
+                     facecolor=LOOK["paper"])
+        self.fig = fig
+        self.canvas = FigureCanvasAgg(fig)
+        field_mode = o.flow in ("vorticity", "speed")
+        right = 0.905 if field_mode else 0.975
+        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, 0.53], facecolor=LOOK["paper"])
+        self.ax_tr = fig.add_axes([0.075, 0.1, 0.9, 0.185], facecolor=LOOK["paper"])
+        self._limits()
+        self.animated = []
+        self._static_text()
+        self._build_flow(field_mode)
+        self._build_trace()
+        self.canvas.draw()
+        self.bg = self.canvas.copy_from_bbox(fig.bbox)
+
+    # -- layout ------------------------------------------------------------
+    def _limits(self):
+        """Fixed view: x from just ahead of the airfoil to ``reach`` chords of wake, z to the panel's aspect."""
+        f, c = self.film, self.film.c
+        t0, t1 = f.t0, f.t1
+        x_le0 = -f.pivot * c
+        x_te0 = (1 - f.pivot) * c
+        if f.air:
+            x_lo = x_le0 + f.x_shift(t1) - 0.8 * c
+            x_hi = x_te0 + f.opt.reach * c
+        else:
+            x_lo = x_le0 - 0.8 * c
+            x_hi = x_te0 + f.opt.reach * c
+        hs = f.snap["h"][f.snap_index]
+        alphas = f.snap["alpha"][f.snap_index]
+        z_lo = float(np.min(hs)) - c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
+        z_hi = float(np.max(hs)) + c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
+        bb = self.ax.get_position()
+        aspect = (bb.width * self.W) / (bb.height * self.H)    # pixels across / pixels up
+        width = x_hi - x_lo
+        height = width / aspect
+        if height < z_hi - z_lo:                               # widen to keep the motion in view
+            height = z_hi - z_lo
+            extra = height * aspect - width
+            x_hi += extra
+            width = x_hi - x_lo
+        zc = 0.5 * (z_lo + z_hi)
+        self.xlim = (x_lo, x_hi)
+        self.zlim = (zc - 0.5 * height, zc + 0.5 * height)
+        self.ax.set_xlim(*self.xlim)
+        self.ax.set_ylim(*self.zlim)
+        self.ax_tr.set_xlim(t0, t1 if t1 > t0 else t0 + 1e-9)
+
+    def pixel_of(self, x, z):
+        """Pixel (column, row from the top) where the flow panel draws the point (x, z) in metres."""
+        pts = self.ax.transData.transform(np.column_stack([np.ravel(x), np.ravel(z)]))
+        return pts[:, 0], self.H - pts[:, 1]
+
+    def _static_text(self):
+        f, fig, fs = self.film, self.fig, self.fs
+        title = f.sc.title or Path(str(f.sc.out_dir())).name
+        fig.text(0.075, 0.965, title, fontsize=fs * 1.25, color=LOOK["ink"], weight="bold", va="top")
+        fig.text(0.075, 0.925, f"{FLOW_STYLES[f.opt.flow]}, {VIEWS[f.opt.view]}",
+                 fontsize=fs * 0.85, color=LOOK["muted"], va="top")
+        fig.text(0.975, 0.012, CAUTION, fontsize=fs * 0.7, color=LOOK["muted"], ha="right", va="bottom")
+        ax = self.ax
+        for a in (ax, self.ax_tr):
+            a.tick_params(labelsize=fs * 0.8, colors=LOOK["ink"], length=3)
+            for sp in a.spines.values():
+                sp.set_color(LOOK["rule"])
+            a.spines["top"].set_visible(False)
+            a.spines["right"].set_visible(False)
+        ax.set_xlabel("x, still air (m)" if f.air else "x, downstream of the pitch axis (m)",
+                      fontsize=fs * 0.85, color=LOOK["ink"], labelpad=1)
+        ax.set_ylabel("height z (m)", fontsize=fs * 0.85, color=LOOK["ink"])
+        if f.air:   # the path of the pitch axis through the still air
+            th = f.hist["t"]
+            sel = (th >= f.t0) & (th <= f.t1)
+            ax.plot(-f.U * (th[sel] - f.t0), f.hist["h"][sel], color=LOOK["path"], lw=0.8, ls=(0, (4, 4)))
+
+    # -- flow panel --------------------------------------------------------
+    def _build_flow(self, field_mode):
+        f, ax, fs = self.film, self.ax, self.fs
+        o = f.opt
+        self.img = None
+        self.contours = None
+        self.scat = None
+        self.gust_img = None
+        self.quiv = None
+        # gust band (under everything else)
+        if f.gust_w is not None:
+            self.g_x = np.linspace(*self.xlim, 241)
+            zs = self.zlim
+            if o.flow == "vortices":
+                hm = float(np.mean(f.snap["h"][f.snap_index]))
+                band = (hm - 0.75 * f.c, hm + 0.75 * f.c)
+            else:
+                band = (zs[0], zs[0] + 0.07 * (zs[1] - zs[0]))
+            self.g_band = band
+            self.gust_img = ax.imshow(np.zeros((1, self.g_x.size)), extent=(self.xlim[0], self.xlim[1], *band),
+                                      origin="lower", aspect="auto", cmap=GUST_MAP, alpha=0.55,
+                                      norm=Normalize(-f.gust_max, f.gust_max), interpolation="bilinear",
+                                      zorder=0.5, animated=True)
+            self.q_x = np.linspace(*self.xlim, 25)[1:-1]
+            zq = np.full_like(self.q_x, 0.5 * (band[0] + band[1]))
+            half = 0.45 * (band[1] - band[0])
+            self.g_follow = o.flow == "vortices"     # the band rides at the airfoil's height
+            self.quiv = ax.quiver(self.q_x, zq - 0.0, np.zeros_like(self.q_x), np.zeros_like(self.q_x),
+                                  angles="xy", scale_units="xy", scale=f.gust_max / half, pivot="middle",
+                                  color=LOOK["ink"], alpha=0.55, width=0.0025, headwidth=3.5, headlength=4,
+                                  zorder=0.6, animated=True)
+            ax.text(0.005, 0.012,
+                    f"band and arrows: vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
+                    transform=ax.transAxes, fontsize=fs * 0.72, color=LOOK["muted"], va="bottom")
+            self.animated += [self.gust_img, self.quiv]
+        # field
+        if o.flow in ("vorticity", "speed", "streamlines"):
+            ppx = self.W * ax.get_position().width
+            if o.grid is not None:
+                nx, nz = o.grid
+            else:
+                nx = int(max(24, ppx // 8))
+                nz = int(max(12, round(nx * (self.zlim[1] - self.zlim[0]) / (self.xlim[1] - self.xlim[0]))))
+            self.grid = fields.make_grid(self.xlim, self.zlim, nx, nz)
+            self._field_limits()
+        if field_mode:
+            cmap = SPIN_MAP if o.flow == "vorticity" else SPEED_MAP
+            self.img = ax.imshow(np.zeros(self.grid.shape), extent=self.grid.extent, origin="lower",
+                                 aspect="auto", cmap=cmap, norm=self.field_norm, interpolation="bilinear",
+                                 zorder=0.3, animated=True)
+            self.animated.insert(0, self.img)
+            cax = self.fig.add_axes([0.925, 0.365, 0.012, 0.53])
+            cb = self.fig.colorbar(self.img, cax=cax)
+            cb.set_label(FLOW_STYLES[o.flow], fontsize=fs * 0.8, color=LOOK["ink"])
+            cb.ax.tick_params(labelsize=fs * 0.75, colors=LOOK["ink"])
+            cb.outline.set_edgecolor(LOOK["rule"])
+        # wake vortices
+        g_all = np.abs(f.snap["gamma"])
+        self.g_lim = float(np.percentile(g_all, 99.0)) if g_all.size else 1.0
+        self.g_lim = self.g_lim if self.g_lim > 0 else 1.0
+        s = (self.H / 720.0) ** 0.8
+        self.size_max = (7.5 * s) ** 2
+        self.size_min = (1.6 * s) ** 2
+        if o.flow != "vorticity":
+            alpha = 0.9 if o.flow == "vortices" else 0.5
+            self.scat = ax.scatter(np.zeros(0), np.zeros(0), c=np.zeros(0), s=np.zeros(0), cmap=VORTEX_MAP,
+                                   norm=Normalize(-self.g_lim, self.g_lim), linewidths=0, alpha=alpha,
+                                   zorder=2, animated=True)
+            self.animated.append(self.scat)
+            if o.flow == "vortices":
+                handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
+                           Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
+                ax.legend(handles=handles, loc="upper right", fontsize=fs * 0.75, frameon=False,
+                          handletextpad=0.2, ncol=2, columnspacing=1.0)
+        # airfoil
+        self.foil = Polygon(np.zeros((3, 2)), closed=True, facecolor=LOOK["airfoil"],
+                            edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
+        ax.add_patch(self.foil)
+        self.animated.append(self.foil)
+        # clock
+        self.clock = ax.text(0.012, 0.985, "", transform=ax.transAxes, fontsize=fs, color=LOOK["ink"],
+                             va="top", ha="left", zorder=5, family="monospace", animated=True)
+        self.animated.append(self.clock)
+
+    def _field(self, i):
+        """The field of frame i on the grid (vorticity, speed or stream function)."""
+        f = self.film
+        t = f.frame_state(i)[0]
+        src = f.sources(i)
+        if f.opt.flow == "vorticity":
+            sigma = max(1.5 * max(self.grid.dx, self.grid.dz), f.r_wake)
+            return fields.vorticity_field(self.grid, src, sigma=sigma)
+        U = 0.0 if f.air else f.U
+        X, Z = np.meshgrid(self.grid.x, self.grid.z)
+        if f.opt.flow == "speed":
+            gust = None
+            if f.gust_field is not None:
+                sh = f.x_shift(t)
+                gust = (lambda x, z, tt: f.gust_field.velocity(x - sh, z, tt))
+            u, w = fields.velocity_field(X, Z, src, freestream=(U, 0.0), gust=gust, t=t)
+            return fields.speed(u, w)
+        return fields.stream_function(X, Z, src, freestream=(U, 0.0))
+
+    def _field_limits(self):
+        """Colour limits (or contour levels) fixed for the film, from a few sample frames."""
+        f = self.film
+        n = f.n_frames
+        picks = sorted(set(int(round(v)) for v in np.linspace(0, n - 1, min(n, 5))))
+        vals = [self._field(i) for i in picks]
+        if f.opt.flow == "vorticity":
+            m = max(float(np.percentile(np.abs(v), 99.7)) for v in vals) or 1.0
+            self.field_norm = Normalize(-m, m)
+        elif f.opt.flow == "speed":
+            hi = max(float(np.percentile(v, 99.5)) for v in vals)
+            lo = 0.0 if f.air else min(float(np.percentile(v, 0.5)) for v in vals)
+            self.field_norm = Normalize(lo, hi if hi > lo else lo + 1.0)
+        else:
+            if f.air:
+                lo = min(float(np.percentile(v, 2)) for v in vals)
+                hi = max(float(np.percentile(v, 98)) for v in vals)
+                self.levels = np.linspace(lo, hi, 31) if hi > lo else np.linspace(lo - 1, lo + 1, 31)
+            else:
+                dz = (self.zlim[1] - self.zlim[0]) / 28.0
+                psi_lo = min(float(v.min()) for v in vals)
+                psi_hi = max(float(v.max()) for v in vals)
+                step = f.U * dz
+                self.levels = np.arange(math.floor(psi_lo / step), math.ceil(psi_hi / step) + 1) * step
+
+    # -- trace panel -------------------------------------------------------
+    def _build_trace(self):
+        f, ax, fs = self.film, self.ax_tr, self.fs
+        th = f.hist["t"]
+        y = f.hist[f.trace_col]
+        sel = (th >= f.t0 - 1e-12) & (th <= f.t1 + 1e-12)
+        self.tr_t, self.tr_y = th[sel], y[sel]
+        ok = np.isfinite(self.tr_y)
+        lo, hi = (float(self.tr_y[ok].min()), float(self.tr_y[ok].max())) if ok.any() else (0.0, 1.0)
+        if f.trace_name == "n":
+            lo, hi = min(lo, 1.0), max(hi, 1.0)
+            ax.axhline(1.0, color=LOOK["rule"], lw=0.8, ls=(0, (3, 3)))
+        pad = 0.1 * (hi - lo) if hi > lo else max(0.1 * abs(hi), 0.05)
+        ax.set_ylim(lo - pad, hi + pad)
+        ax.set_xlabel("time t (s)", fontsize=fs * 0.85, color=LOOK["ink"], labelpad=1)
+        ax.set_ylabel(f.trace_label, fontsize=fs * 0.8, color=LOOK["ink"])
+        ax.grid(color=LOOK["rule"], lw=0.5, alpha=0.8)
+        self.tr_line, = ax.plot([], [], color=LOOK["trace"], lw=1.6, animated=True)
+        self.tr_dot, = ax.plot([], [], "o", color=LOOK["marker"], ms=5.5 * self.H / 720.0, clip_on=False, animated=True)
+        self.animated += [self.tr_line, self.tr_dot]
+
+    # -- one frame ---------------------------------------------------------
+    def update(self, i):
+        """Set every moving artist to frame i."""
+        f = self.film
+        t, k, alpha, h = f.frame_state(i)
+        sh = f.x_shift(t)
+        ax = self.ax
+        if self.img is not None:
+            self.img.set_data(self._field(i))
+        if f.opt.flow == "streamlines":
+            if self.contours is not None:
+                self.contours.remove()
+            psi = self._field(i)
+            self.contours = ax.contour(self.grid.x, self.grid.z, psi, levels=self.levels,
+                                       colors=LOOK["trace"], linewidths=0.7, linestyles="solid",
+                                       alpha=0.8, zorder=1)
+            self.contours.set_animated(True)
+        if self.gust_img is not None:
+            w = f.gust_w(self.g_x - sh, t)
+            self.gust_img.set_data(w[None, :])
+            self.quiv.set_UVC(np.zeros_like(self.q_x), f.gust_w(self.q_x - sh, t))
+            if self.g_follow:
+                lo, hi = h - 0.75 * f.c, h + 0.75 * f.c
+                self.gust_img.set_extent((self.xlim[0], self.xlim[1], lo, hi))
+                self.quiv.set_offsets(np.column_stack([self.q_x, np.full_like(self.q_x, h)]))
+        if self.scat is not None:
+            x, z, g = f.wake(i)
+            self.scat.set_offsets(np.column_stack([x, z]))
+            self.scat.set_array(np.asarray(g, dtype=float))
+            a = np.minimum(np.abs(g) / self.g_lim, 1.0)
+            self.scat.set_sizes(self.size_min + (self.size_max - self.size_min) * a)
+        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, h, n=61, x_shift=sh)
+        self.foil.set_xy(np.column_stack([xo, zo]))
+        t_star = f.U * t / f.c
+        txt = f"t = {t:.3f} s   {t_star:.1f} chords flown   pitch {math.degrees(alpha):+.1f} deg"
+        if f.gust_w is not None:
+            txt += f"   gust at leading edge {float(f.gust_w(np.array([-f.pivot * f.c]), t)[0]):+.2f} m/s"
+        self.clock.set_text(txt)
+        j = int(np.searchsorted(self.tr_t, t + 1e-12))
+        self.tr_line.set_data(self.tr_t[:j], self.tr_y[:j])
+        if j > 0:
+            self.tr_dot.set_data([self.tr_t[j - 1]], [self.tr_y[j - 1]])
+        else:
+            self.tr_dot.set_data([], [])
+
+    def frame(self, i):
+        """Frame i as an (H, W, 3) uint8 array (a new array)."""
+        self.update(i)
+        self.canvas.restore_region(self.bg)
+        for a in self.animated:
+            a.axes.draw_artist(a)
+        if self.contours is not None:
+            self.ax.draw_artist(self.contours)
+            self.ax.draw_artist(self.foil)
+            self.ax.draw_artist(self.clock)
+        buf = np.asarray(self.canvas.buffer_rgba())
+        return np.ascontiguousarray(buf[:self.H, :self.W, :3])
+
+
+# ---------------------------------------------------------------------------
+# writers: frames go to ffmpeg one at a time
+class _Mp4Writer:
+    def __init__(self, path, size, fps):
+        import imageio_ffmpeg
+        self.gen = imageio_ffmpeg.write_frames(
+            str(path), size, fps=fps, codec="libx264", pix_fmt_in="rgb24", pix_fmt_out="yuv420p",
+            macro_block_size=2, ffmpeg_log_level="error", quality=None,
+            output_params=["-crf", "20", "-preset", "veryfast", "-movflags", "+faststart"])
+        self.gen.send(None)
+
+    def add(self, rgb):
+        self.gen.send(rgb)
+
+    def close(self):
+        self.gen.close()
+
+
+class _GifWriter:
+    """A looping GIF through ffmpeg with one palette for the whole film (chosen from sample frames)."""
+
+    def __init__(self, path, size, fps, samples):
+        import imageio_ffmpeg
+        from PIL import Image
+        self.tmpdir = tempfile.mkdtemp(prefix=".unsteady-gif-")
+        mosaic = np.concatenate(samples, axis=0)
+        q = Image.fromarray(mosaic).quantize(colors=256, method=Image.Quantize.MEDIANCUT)
+        pal = np.array(q.getpalette()[:768], dtype=np.uint8)
+        pal = np.concatenate([pal, np.zeros(768 - pal.size, np.uint8)]).reshape(16, 16, 3)
+        pal_path = os.path.join(self.tmpdir, "palette.png")
+        Image.fromarray(pal).save(pal_path)
+        w, h = size
+        cmd = [imageio_ffmpeg.get_ffmpeg_exe(), "-hide_banner", "-loglevel", "error", "-y",
+               "-f", "rawvideo", "-pix_fmt", "rgb24", "-s", f"{w}x{h}", "-r", f"{fps}", "-i", "-",
+               "-i", pal_path, "-lavfi", "[0:v][1:v]paletteuse=dither=bayer:bayer_scale=4:diff_mode=rectangle",
+               "-loop", "0", "-f", "gif", str(path)]
+        self.proc = subprocess.Popen(cmd, stdin=subprocess.PIPE, stderr=subprocess.PIPE)
+
+    def add(self, rgb):
+        self.proc.stdin.write(rgb.tobytes())
+
+    def close(self):
+        try:
+            self.proc.stdin.close()
+            err = self.proc.stderr.read().decode(errors="replace")
+            if self.proc.wait() != 0:
+                raise RuntimeError(f"ffmpeg could not write the GIF: {err.strip()[-300:]}")
+        finally:
+            shutil.rmtree(self.tmpdir, ignore_errors=True)
+
+    def abort(self):
+        try:
+            self.proc.kill()
+            self.proc.wait()
+        finally:
+            shutil.rmtree(self.tmpdir, ignore_errors=True)
+
+
+def check_out_path(out, label="--out"):
+    """The output path's folder must exist and its suffix be .mp4 or .gif (else UsageError)."""
+    out = Path(out)
+    if out.suffix.lower() not in FORMATS:
+        raise UsageError(f"error: {out}: {label}: unknown film format {out.suffix or '(none)'!r}; "
+                         f"allowed: {', '.join(FORMATS)}")
+    if not out.parent.resolve().is_dir():
+        raise UsageError(f"error: {out}: {label}: folder {out.parent} does not exist; create it first")
+    if out.is_dir():
+        raise UsageError(f"error: {out}: {label}: is a folder; give a file name ending in .mp4 or .gif")
+    return out
+
+
+def write_film(result, out, options=FilmOptions(), *, progress=False, label="run"):
+    """Render a run into an MP4 or GIF at ``out`` (atomic: a temporary name, then rename).
+
+    Parameters
+    ----------
+    result : Result
+    out : path ending in .mp4 or .gif
+    options : FilmOptions
+    progress : bool
+        Progress bar on stderr (drawn only on a terminal).
+
+    Returns
+    -------
+    Film
+        What was drawn (frame times, view, limits).
+    """
+    out = check_out_path(out)
+    if out.suffix.lower() == ".mp4" and (options.width % 2 or options.height % 2):
+        raise UsageError(f"error: {out}: --size: {options.width}x{options.height} has an odd side; "
+                         "MP4 (H.264, yuv420p) needs an even width and height")
+    film = Film(result, options, label=label)
+    renderer = FilmRenderer(film)
+    size = (options.width, options.height)
+    tmp = out.with_name(f".{out.stem}.part{out.suffix}")
+    bar = None
+    if progress:
+        from ..simulation.observers import ProgressBar
+        bar = ProgressBar(film.n_frames, label="film")
+    writer = None
+    try:
+        if out.suffix.lower() == ".gif":
+            n = film.n_frames
+            picks = sorted(set(int(round(v)) for v in np.linspace(0, n - 1, min(n, 4))))
+            samples = [renderer.frame(i)[::2, ::2] for i in picks]
+            writer = _GifWriter(tmp, size, options.frame_rate, samples)
+        else:
+            writer = _Mp4Writer(tmp, size, options.frame_rate)
+        for i in range(film.n_frames):
+            writer.add(renderer.frame(i))
+            if bar is not None:
+                bar.update(i + 1, f"frame {i + 1}/{film.n_frames}")
+        writer.close()
+        writer = None
+        os.replace(tmp, out)
+    except BaseException:
+        if writer is not None:
+            try:
+                (writer.abort if hasattr(writer, "abort") else writer.close)()
+            except Exception:
+                pass
+        try:
+            tmp.unlink()
+        except FileNotFoundError:
+            pass
+        raise
+    finally:
+        if bar is not None:
+            bar.close()
+    return film
