@@ -17,7 +17,7 @@ import pytest
 from unsteady.apps import cli
 
 from unsteady.apps import sweep
-from unsteady.inputs import sweep as sweep_spec
+from unsteady.inputs import sweep_cases as sweep_spec
 from unsteady.inputs.scenario import ScenarioError, default_dt, load_scenario
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -140,7 +140,6 @@ run.wake = "rolling"
 
 
 def test_check_passes_on_case_warnings(tmp_path):
-    pytest.importorskip("unsteady.gusts")
     # a 12 m/s gust at 18 m/s (atan(12/18) = 34 degrees): beyond the gust checker's 30-degree warning
     text = BASE.format(chords=4) + """
 [gust]
@@ -371,8 +370,6 @@ def test_sweep_command_bad_input_writes_nothing(tmp_path, capsys):
 # the demo scenario
 
 def test_drone_gust_envelope_scenario_checks():
-    pytest.importorskip("unsteady.gusts")
-    pytest.importorskip("unsteady.aircraft")
     sc = load_scenario(ROOT / "scenarios" / "drone-gust-envelope.toml")
     cases = sweep.build_cases(sc)
     assert sweep.check_cases(sc)

@@ -13,7 +13,7 @@ def add_arguments(p):
 def main(args):
     sc = load(args)
     if "sweep" in sc.data:
-        from ..inputs.sweep import check_cases
+        from ..inputs.sweep_cases import check_cases
         check_cases(sc)
     print(f"{args.scenario}: ok ({sc.steps} steps of {sc.dt:.4g} s, {sc.elements} elements, "
           f"{sc.data['run']['wake']} wake)")

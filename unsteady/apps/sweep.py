@@ -27,28 +27,23 @@ the same sweep again skips the finished cases.
 
 from __future__ import annotations
 
-import copy
 import csv
-import hashlib
 import io
-import itertools
-import json
 import logging
 import math
 import os
-import re
 import signal
 import sys
 import tempfile
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
 
 from ..core.cautions import SWEEP_CAUTION
 from ..core.version import __version__
-from ..core.errors import InputError
 from ..inputs.scenario import ScenarioError, load_scenario
-from ..inputs.sweep import _fmt_value, build_cases, case_warnings, check_cases, expand  # noqa: F401
+from ..inputs.sweep import _fmt_value, expand  # noqa: F401
+from ..inputs.sweep_cases import build_cases, case_key, case_warnings, check_cases  # noqa: F401
 
 TABLE_NAME = "sweep.csv"
 PICTURE_NAME = "envelope.png"
@@ -234,8 +229,8 @@ def start_local_cluster(workers):
 
 
 def _worker_version():
-    import unsteady
-    return unsteady.__version__
+    from ..core.version import __version__ as v
+    return v
 
 
 @dataclass

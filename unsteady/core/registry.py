@@ -1,4 +1,4 @@
-"""Small shared helpers for the name registries and optional modules."""
+"""The name-registry decorator shared by motion laws, gust profiles and spectra."""
 
 
 def registrar(table, kind):
@@ -17,17 +17,3 @@ def registrar(table, kind):
             return cls
         return add
     return register
-
-
-def import_optional(package, modules):
-    """Import ``package.<module>`` for each module that exists (importing registers it).
-
-    A module that is absent is skipped; an import error inside a module that
-    exists is raised.
-    """
-    for mod in modules:
-        try:
-            __import__(f"{package}.{mod}")
-        except ModuleNotFoundError as exc:
-            if exc.name != f"{package}.{mod}":
-                raise

@@ -116,7 +116,7 @@ class HeaveMotion:
 
     def _trim(self, alpha0, alpha_dot0):
         """Attitude whose steady still-air cl equals cl_level (secant iteration on the vortex model)."""
-        from ..simulation.runner import build_body
+        from ..vortex.solver import build_body
         body = build_body(self.sc)
         a0 = alpha0
         f0 = self._steady_cl(body, a0, alpha_dot0) - self.cl_level

@@ -4,12 +4,11 @@ from __future__ import annotations
 
 import time
 
-from ..inputs.sections import camber_elements
 from .observers import HistoryRecorder, SnapshotRecorder, StepProgress
 from ..analysis.summary import make_summary
 from .result import Result
 from ..inputs.scenario import Scenario, load_scenario
-from ..vortex.solver import Body, SolverDiverged, VortexSolver
+from ..vortex.solver import SolverDiverged, VortexSolver, build_body
 
 
 class PrescribedMotion:
@@ -23,12 +22,6 @@ class PrescribedMotion:
 
     def after_step(self, t, dt, loads):
         pass
-
-
-def build_body(sc: Scenario) -> Body:
-    """The rigid camber line of the scenario, in metres about the pivot."""
-    p = camber_elements(sc.section, sc.elements)
-    return Body.from_section(sc.section, sc.elements, sc.chord, sc.pivot, x_nodes=p.x_nodes)
 
 
 def snapshot_interval(sc: Scenario) -> int:

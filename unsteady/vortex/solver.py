@@ -40,6 +40,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ..inputs.sections import camber_elements
 from .kernels import induced_velocity, normal_influence
 from .loads import LoadHistory
 
@@ -478,3 +479,9 @@ def default_core_radii(chord, speed, dt):
     point vortex.  Both are floored at 1e-5 chord.
     """
     return max(speed * dt, 1e-5 * chord), max(0.1 * speed * dt, 1e-5 * chord)
+
+
+def build_body(sc) -> Body:
+    """The rigid camber line of the scenario, in metres about the pivot."""
+    p = camber_elements(sc.section, sc.elements)
+    return Body.from_section(sc.section, sc.elements, sc.chord, sc.pivot, x_nodes=p.x_nodes)
