@@ -27,7 +27,7 @@ def test_level_flight_is_trimmed_and_stays_level():
     n = res.history["n"]
     assert n[0] == pytest.approx(1.0, abs=1e-9)
     assert np.max(np.abs(n - 1.0)) < 1e-6
-    assert np.max(np.abs(res.history["h"])) < 1e-6
+    assert np.max(np.abs(res.history["height_m"])) < 1e-6
     # the trimmed attitude: thin-airfoil cl = 2 pi (alpha - alpha_L0) (Abbott &
     # von Doenhoff, ch. 4) gives it within the lumped-vortex model's accuracy
     s = res.summary
@@ -54,8 +54,8 @@ def test_gust_raises_load_factor_and_summary_has_formula():
     assert s["dn_ratio"] == pytest.approx((s["n_max"] - 1.0) / dn)
     # heave: the aircraft is pushed up, and h'' = g (n - 1) (Newton)
     h = res.history
-    assert h["h"][-1] > 0.0
-    assert h["h_ddot"] == pytest.approx(aircraft.G * (h["n"] - 1.0))
+    assert h["height_m"][-1] > 0.0
+    assert h["height_accel_m_s2"] == pytest.approx(aircraft.G * (h["n"] - 1.0))
 
 
 def test_aspect_ratio_scales_the_lift():

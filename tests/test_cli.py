@@ -35,7 +35,7 @@ def test_run_writes_run_directory(tmp_path, capsys):
     names = {p.name for p in out.iterdir()}
     assert {"history.csv", "summary.json", "scenario.toml", "snapshots.npz"} <= names
     header = (out / "history.csv").read_text().splitlines()[0].split(",")
-    assert header[:7] == ["t", "t_star", "alpha_deg", "h", "cl", "cd", "cm"]
+    assert header[:7] == ["t", "chords", "pitch_deg", "height_m", "cl", "cd", "cm"]
     s = json.loads((out / "summary.json").read_text())
     for k in ("cl_max", "cl_min", "t_cl_max", "cm_max", "cm_min", "steps", "wall_time_s", "version"):
         assert k in s

@@ -49,8 +49,8 @@ def test_quasi_steady_column_is_thin_airfoil_lift():
     res = simulate(sc)
     h = res.history
     a_L0 = theory.zero_lift_angle(sc.section.slope, breaks=(0.4,))
-    alpha = np.radians(h["alpha_deg"])
-    ad = np.radians(h["alpha_dot_deg_s"])
+    alpha = np.radians(h["pitch_deg"])
+    ad = np.radians(h["pitch_rate_deg_s"])
     expect = 2 * np.pi * (alpha + sc.chord * ad / (2 * sc.speed) - a_L0)
     assert np.allclose(h["cl_quasi_steady"], expect, atol=1e-9)
     assert np.allclose(h["alpha_eff_deg"], np.degrees(expect / (2 * np.pi) + a_L0))

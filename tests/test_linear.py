@@ -149,6 +149,6 @@ def test_circulation_columns_match_the_vortex_model():
     v = simulate(d).history
     d["run"]["model"] = "linear"
     li = simulate(d).history
-    for k in ("gamma_bound", "gamma_wake"):
+    for k in ("gamma_bound_m2_s", "gamma_wake_m2_s"):
         assert li[k][-1] == pytest.approx(v[k][-1], rel=0.02), k
-    assert v["gamma_bound"][-1] < 0 < v["cl"][-1]
+    assert v["gamma_bound_m2_s"][-1] < 0 < v["cl"][-1]

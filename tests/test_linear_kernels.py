@@ -101,14 +101,14 @@ def test_window_and_tail_effect_on_peak_load_factor():
 
 
 def test_scenario_run_uses_the_compiled_march():
-    # simulate() with [aircraft] fills n, h_ddot, w_gust and the summary as
+    # simulate() with [aircraft] fills n, height_accel_m_s2, w_gust and the summary as
     # before; its rows equal the Python march's (default window, tail on).
     sc = _scenario()
     res = simulate(sc)
     ref = _march(sc, compiled=False)
-    for k in ("cl", "h", "n"):
-        assert np.max(np.abs(res.history[k] - ref[k])) < 1e-9, k
+    for k, col in (("cl", "cl"), ("h", "height_m"), ("n", "n")):
+        assert np.max(np.abs(res.history[col] - ref[k])) < 1e-9, k
     for k in ("n_max", "n_min", "t_n_max", "alpha_trim_deg", "dn_formula"):
         assert k in res.summary
     assert res.summary["n_max"] == pytest.approx(ref["n"].max(), abs=1e-9)
-    assert np.all(np.isfinite(res.history["w_gust"])) and np.all(np.isfinite(res.history["h_ddot"]))
+    assert np.all(np.isfinite(res.history["w_gust"])) and np.all(np.isfinite(res.history["height_accel_m_s2"]))

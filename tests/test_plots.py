@@ -77,12 +77,12 @@ def test_lift_loop_with_and_without_quasi_steady_line(run, captured):
     plots.plot_lift_loop(bare, plots.Path("a.png"))
     assert all(ln.get_label() != "quasi-steady" for ln in _lines(captured["a.png"]))
     # thin-airfoil quasi-steady line cl = 2 pi alpha (Abbott & von Doenhoff 1959, ch. 4)
-    h["cl_quasi_steady"] = 2 * math.pi * np.radians(h["alpha_deg"])
+    h["cl_quasi_steady"] = 2 * math.pi * np.radians(h["pitch_deg"])
     withqs = unsteady.Result(h, res.summary, res.snapshots, res.scenario)
     plots.plot_lift_loop(withqs, plots.Path("b.png"))
     qs = [ln for ln in _lines(captured["b.png"]) if ln.get_label() == "quasi-steady"]
     assert len(qs) == 1
-    assert np.array_equal(qs[0].get_xdata(), h["alpha_deg"])
+    assert np.array_equal(qs[0].get_xdata(), h["pitch_deg"])
     assert np.array_equal(qs[0].get_ydata(), h["cl_quasi_steady"])
     main_line = [ln for ln in _lines(captured["b.png"]) if ln.get_label() == "vortex model"][0]
     assert np.array_equal(main_line.get_ydata(), h["cl"])

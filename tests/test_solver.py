@@ -70,9 +70,9 @@ def test_far_wake_keeps_kelvin_and_bounds_wake():
     # cost the whole Wagner deficit 1 - phi(s) ~ 1/s, Garrick 1938: about 2 %)
     change = abs(h["cl"][-1] - full.history["cl"][-1]) / abs(full.history["cl"][-1])
     assert change < 0.002
-    assert h["gamma_bound"][-1] + h["gamma_wake"][-1] == pytest.approx(0.0, abs=1e-12)
+    assert h["gamma_bound_m2_s"][-1] + h["gamma_wake_m2_s"][-1] == pytest.approx(0.0, abs=1e-12)
     # Kelvin: bound plus wake (the far-wake lumps included) stays zero
-    assert full.history["gamma_bound"][-1] + full.history["gamma_wake"][-1] == pytest.approx(0.0, abs=1e-12)
+    assert full.history["gamma_bound_m2_s"][-1] + full.history["gamma_wake_m2_s"][-1] == pytest.approx(0.0, abs=1e-12)
 
 
 def test_steady_start_has_no_transient():

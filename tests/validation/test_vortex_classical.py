@@ -89,7 +89,7 @@ def wagner_run(elements, wake, chords=15.5):
     sc = scenario(airfoil__elements=elements, motion__pitch=constant_pitch(2.0),
                   run__start="impulsive", run__wake=wake, run__chords=chords)
     res = simulate(sc)
-    s = 2 * res.history["t_star"]
+    s = 2 * res.history["chords"]
     ratio = res.history["cl"] / (2 * math.pi * math.radians(2.0))
     return s, ratio
 
@@ -185,7 +185,7 @@ def ramp_run(to_deg=10.0, wake="free"):
 def test_kelvin_total_circulation_conserved():
     # Kelvin's theorem: bound + wake circulation constant at every step (to round-off)
     res = ramp_run(15.0)
-    total = res.history["gamma_bound"] + res.history["gamma_wake"]
+    total = res.history["gamma_bound_m2_s"] + res.history["gamma_wake_m2_s"]
     assert np.abs(total - total[0]).max() < 1e-12 * 10.0 * 0.2 * 100
 
 

@@ -40,7 +40,7 @@ def effective_alpha(history, sc, gust=None):
     Parameters
     ----------
     history : dict of ndarray
-        Needs t, alpha_deg, alpha_dot_deg_s, h, h_dot.
+        Needs t, pitch_deg, pitch_rate_deg_s, height_m, height_rate_m_s.
     sc : Scenario
     gust : GustField, optional
         The scenario's gust field when the caller has it already (a long
@@ -52,16 +52,16 @@ def effective_alpha(history, sc, gust=None):
     """
     U, c, pv = sc.speed, sc.chord, sc.pivot
     b, a = 0.5 * c, 2.0 * pv - 1.0
-    alpha = np.radians(history["alpha_deg"])
-    alpha_dot = np.radians(history["alpha_dot_deg_s"])
-    out = alpha - history["h_dot"] / U + b * (0.5 - a) * alpha_dot / U
+    alpha = np.radians(history["pitch_deg"])
+    alpha_dot = np.radians(history["pitch_rate_deg_s"])
+    out = alpha - history["height_rate_m_s"] / U + b * (0.5 - a) * alpha_dot / U
     if sc.data.get("gust"):
         from ..inputs.gusts import build_gust_field
         field = gust if gust is not None else build_gust_field(sc)
         x34 = (0.75 - pv) * c
         t = np.asarray(history["t"], dtype=float)
         # the pattern depends on xi(x, t) only, elementwise in t: one call for all rows
-        w = field.velocity(np.full(t.shape, x34), np.asarray(history["h"], dtype=float), t)[1]
+        w = field.velocity(np.full(t.shape, x34), np.asarray(history["height_m"], dtype=float), t)[1]
         out = out + w / U
     return out
 
@@ -199,7 +199,7 @@ def lag_summary(history, sc):
     t = history["t"]
     cl, qs = history["cl"], history["cl_quasi_steady"]
     U, c = sc.speed, sc.chord
-    rate = np.radians(history["alpha_dot_deg_s"]) * c / (2.0 * U)
+    rate = np.radians(history["pitch_rate_deg_s"]) * c / (2.0 * U)
     ae = history["alpha_eff_deg"]
     out = {}
     if len(t):
@@ -241,7 +241,7 @@ def lag_summary(history, sc):
             if abs(qs_hat) > 0:
                 out["amplitude_ratio"] = float(abs(cl_hat) / abs(qs_hat))
                 out["phase_lag_deg"] = float(-np.degrees(np.angle(cl_hat / qs_hat)))
-            a = history["alpha_deg"]
+            a = history["pitch_deg"]
             i = np.r_[sel_idx[0] - 1, sel_idx] if sel_idx[0] > 0 else sel_idx
             # -oint cl d(alpha) is positive for a counter-clockwise loop
             area = -np.sum(0.5 * (cl[i][1:] + cl[i][:-1]) * np.diff(a[i])) / periods

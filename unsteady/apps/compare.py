@@ -43,7 +43,7 @@ def load_run(run_dir):
     except (ValueError, IndexError, OSError) as exc:
         raise UsageError(f"error: {d}: history.csv: cannot be read ({exc}); "
                          "give a folder written by 'unsteady run'") from None
-    for k in ("t", "cl", "cm", "alpha_deg"):
+    for k in ("t", "cl", "cm", "pitch_deg"):
         if k not in history:
             raise UsageError(f"error: {d}: history.csv: column '{k}' is missing")
     return d.name, history, summary
@@ -90,11 +90,11 @@ def plot_compare(runs, path, title=""):
         name = f"{label} ({s.get('model', '?')})"
         ax_cl.plot(h["t"], h["cl"], color=col, lw=1.3, label=name)
         ax_cm.plot(h["t"], h["cm"], color=col, lw=1.1)
-        ax_loop.plot(h["alpha_deg"], h["cl"], color=col, lw=1.1, label=name)
+        ax_loop.plot(h["pitch_deg"], h["cl"], color=col, lw=1.1, label=name)
         if "cl_quasi_steady" in h and not qs_drawn:
             ax_cl.plot(h["t"], h["cl_quasi_steady"], color="#555555", lw=1.0, ls="--",
                        label="quasi-steady cl")
-            ax_loop.plot(h["alpha_deg"], h["cl_quasi_steady"], color="#555555", lw=1.0, ls="--",
+            ax_loop.plot(h["pitch_deg"], h["cl_quasi_steady"], color="#555555", lw=1.0, ls="--",
                          label="quasi-steady cl")
             qs_drawn = True
     ax_cl.set_ylabel("cl", fontsize=9)

@@ -75,12 +75,12 @@ class HeaveMotion:
     Attributes
     ----------
     columns : list of str
-        ``n`` (load factor) and ``h_ddot`` (heave acceleration, m/s^2).
+        ``n`` (load factor) and ``height_accel_m_s2`` (heave acceleration, m/s^2).
     alpha_trim : float
         Attitude at t = 0 that carries the weight in level flight, rad.
     """
 
-    columns = ["n", "h_ddot"]
+    columns = ["n", "height_accel_m_s2"]
 
     def __init__(self, sc, kinematics):
         ac = sc.data["aircraft"]
@@ -178,10 +178,10 @@ class HeaveMotion:
         pass
 
     def finish(self, history):
-        """Fill the ``n`` and ``h_ddot`` columns."""
+        """Fill the ``n`` and ``height_accel_m_s2`` columns."""
         k = len(history["t"])
         history["n"] = np.asarray(self.n_rows[:k], dtype=float)
-        history["h_ddot"] = np.asarray(self.a_rows[:k], dtype=float)
+        history["height_accel_m_s2"] = np.asarray(self.a_rows[:k], dtype=float)
 
     def summary(self, history):
         """Trim, mass ratio and, for one vertical 1-cosine gust, the gust-formula estimate."""

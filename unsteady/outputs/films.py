@@ -42,8 +42,8 @@ TRACES = {
     "cl": ("cl", "lift coefficient cl"),
     "cm": ("cm", "moment coefficient cm\n(quarter chord, nose-up +)"),
     "n": ("n", "load factor n"),
-    "pitch": ("alpha_deg", "pitch angle (deg)"),
-    "plunge": ("h", "plunge height h (m)"),
+    "pitch": ("pitch_deg", "pitch angle (deg)"),
+    "plunge": ("height_m", "height of the pitch axis (m)"),
 }
 FORMATS = (".mp4", ".gif")
 
@@ -349,7 +349,7 @@ class FilmRenderer:
         if f.air:   # the path of the pitch axis through the still air
             th = f.hist["t"]
             sel = (th >= f.t0) & (th <= f.t1)
-            ax.plot(-f.U * (th[sel] - f.t0), f.hist["h"][sel], color=LOOK["path"], lw=0.8, ls=(0, (4, 4)))
+            ax.plot(-f.U * (th[sel] - f.t0), f.hist["height_m"][sel], color=LOOK["path"], lw=0.8, ls=(0, (4, 4)))
 
     # -- flow panel --------------------------------------------------------
     def _build_flow(self, field_mode):

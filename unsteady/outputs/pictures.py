@@ -98,9 +98,9 @@ def plot_histories(result, path):
         rows.append(("n", "load factor n"))
     if "w_gust" in h and np.any(h["w_gust"] != 0):
         rows.append(("w_gust", "vertical gust at the\nleading edge (m/s)"))
-    rows.append(("alpha_deg", "pitch angle (deg)"))
-    if np.any(h["h"] != 0):
-        rows.append(("h", "plunge height h (m)"))
+    rows.append(("pitch_deg", "pitch angle (deg)"))
+    if np.any(h["height_m"] != 0):
+        rows.append(("height_m", "height of the pitch axis (m)"))
     fig, axes = plt.subplots(len(rows), 1, figsize=(8, 1.7 * len(rows) + 0.9), sharex=True,
                              facecolor=LOOK["paper"])
     axes = np.atleast_1d(axes)
@@ -126,7 +126,7 @@ def plot_lift_loop(result, path):
     fig = _figure(6.2, 5.0)
     ax = fig.add_subplot(111)
     _style(ax)
-    a, cl = h["alpha_deg"], h["cl"]
+    a, cl = h["pitch_deg"], h["cl"]
     ax.plot(a, cl, color=LOOK["trace"], lw=1.3, label="vortex model")
     ok = np.isfinite(cl)
     if ok.sum() > 1:
@@ -223,7 +223,7 @@ def plot_pressure_jump(result, path):
     colors = [LOOK["trace"], LOOK["ccw"], LOOK["cw"], LOOK["second"], LOOK["gust_up"], LOOK["muted"]]
     for c, i in zip(colors, rows):
         ax.plot(xc, dcp[i], color=c, lw=1.3, marker="o", ms=2.2,
-                label=f"t = {h['t'][i]:.4g} s (cl = {h['cl'][i]:.3f}, pitch {h['alpha_deg'][i]:.1f} deg)")
+                label=f"t = {h['t'][i]:.4g} s (cl = {h['cl'][i]:.3f}, pitch {h['pitch_deg'][i]:.1f} deg)")
     ax.axhline(0.0, color=LOOK["muted"], lw=0.6)
     ax.set_xlim(0, 1)
     ax.set_xlabel("position along the chord x/c (leading edge 0, trailing edge 1)", fontsize=9)

@@ -143,13 +143,13 @@ def simulate_linear(sc, observers=(), progress=False):
         out = H
         cl_c = H["cl_c"] + H["cl_gust"]
 
-    history = {"t": t, "t_star": U * t / c, "alpha_deg": np.degrees(alpha), "h": h,
+    history = {"t": t, "chords": U * t / c, "pitch_deg": np.degrees(alpha), "height_m": h,
                "cl": out["cl"], "cd": out["cd"], "cm": out["cm"], "cm_pivot": out["cm_pivot"],
                "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
-               "alpha_dot_deg_s": np.degrees(alpha_dot), "h_dot": h_dot}
+               "pitch_rate_deg_s": np.degrees(alpha_dot), "height_rate_m_s": h_dot}
     gamma_b = -0.5 * U * c * cl_c     # counter-clockwise positive, as the vortex model (L = -rho U Gamma)
-    history["gamma_bound"] = gamma_b
-    history["gamma_wake"] = (gamma_b[0] if start == "steady" else 0.0) - gamma_b
+    history["gamma_bound_m2_s"] = gamma_b
+    history["gamma_wake_m2_s"] = (gamma_b[0] if start == "steady" else 0.0) - gamma_b
     history["wake_vortices"] = np.zeros_like(t)
     history["cl_circulatory"] = cl_c
     for k in columns:
@@ -185,7 +185,7 @@ def simulate_linear(sc, observers=(), progress=False):
     summary = make_summary(history, steps=steps, wall_time_s=time.perf_counter() - t_wall,
                            extra=summary_extra)
     summary.update(model="linear", dt=dt, start=start, elements=sc.elements,
-                   chords_travelled=float(history["t_star"][-1] - history["t_star"][0]))
+                   chords_travelled=float(history["chords"][-1] - history["chords"][0]))
     add_quasi_steady(history, sc, gust)
     summary["lag"] = lag_summary(history, sc)
     return Result(history, summary, snapshots, sc)

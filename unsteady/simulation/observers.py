@@ -14,9 +14,9 @@ import time
 import numpy as np
 
 # history columns every run writes, in order (names of the public interface)
-BASE_COLUMNS = ("t", "t_star", "alpha_deg", "h", "cl", "cd", "cm")
+BASE_COLUMNS = ("t", "chords", "pitch_deg", "height_m", "cl", "cd", "cm")
 EXTRA_COLUMNS = ("cm_pivot", "cl_impulse", "cd_impulse", "cm_impulse",
-                 "alpha_dot_deg_s", "h_dot", "gamma_bound", "gamma_wake", "wake_vortices")
+                 "pitch_rate_deg_s", "height_rate_m_s", "gamma_bound_m2_s", "gamma_wake_m2_s", "wake_vortices")
 
 
 class HistoryRecorder:
@@ -34,11 +34,11 @@ class HistoryRecorder:
         i = s.n
         d = self.data
         d["t"][i] = s.t
-        d["t_star"][i] = self.U * s.t / self.c
-        d["alpha_deg"][i] = math.degrees(s.alpha)
-        d["h"][i] = s.h
-        d["alpha_dot_deg_s"][i] = math.degrees(s.alpha_dot)
-        d["h_dot"][i] = s.h_dot
+        d["chords"][i] = self.U * s.t / self.c
+        d["pitch_deg"][i] = math.degrees(s.alpha)
+        d["height_m"][i] = s.h
+        d["pitch_rate_deg_s"][i] = math.degrees(s.alpha_dot)
+        d["height_rate_m_s"][i] = s.h_dot
         d["wake_vortices"][i] = s.x_wake.shape[0]
         for k, v in s.loads.items():
             if k in d:

@@ -100,7 +100,7 @@ def simulate(scenario, observers=(), *, progress=False):
             summary_extra.update(o.summary(history))
     summary = make_summary(history, steps=rec.count - 1, wall_time_s=time.perf_counter() - t_wall,
                            extra=summary_extra)
-    travelled = float(history["t_star"][-1] - history["t_star"][0]) if len(history["t"]) else 0.0
+    travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
     summary.update(model="vortex", dt=sc.dt, wake=run["wake"], start=run["start"],
                    elements=sc.elements, far_wake_chords=run.get("far_wake"), chords_travelled=travelled)
     if error:

@@ -175,6 +175,6 @@ class LoadHistory:
             "cm_pivot": M_piv / (q * c * c),
             "cl_impulse": Fz_i / (q * c), "cd_impulse": Fx_i / (q * c),
             "cm_impulse": -M_ccw / (q * c * c),
-            "gamma_bound": float(gamma_b.sum()),
-            "gamma_wake": float(gs.sum() - gamma_b.sum()),
+            "gamma_bound_m2_s": float(gamma_b.sum()),
+            "gamma_wake_m2_s": float(gs.sum() - gamma_b.sum()),
         }

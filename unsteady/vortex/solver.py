@@ -379,7 +379,7 @@ class VortexSolver:
                 row = loads.add(n, t, alpha, h, gamma_b, uv, wv,
                                 src_x[:N + m], src_z[:N + m], src_g[:N + m],
                                 gamma_start + float(far_g[:nf].sum()))
-                row["gamma_wake"] += float(far_g[:nf].sum())
+                row["gamma_wake_m2_s"] += float(far_g[:nf].sum())
                 if not (np.isfinite(gamma_b).all() and math.isfinite(row["cl"])):
                     raise SolverDiverged(n, t, _likely_cause(self, gamma_b, m))
                 state = StepState(n=n, t=t, alpha=alpha, alpha_dot=alpha_dot, h=h, h_dot=h_dot,
