@@ -36,7 +36,6 @@ import math
 from pathlib import Path
 
 import numpy as np
-from scipy import fft as sp_fft
 
 from .. import theory
 from ..core.errors import InputError
@@ -380,6 +379,7 @@ def turbulence_samples(spectrum, sigma, L, length, dx, seed, component="vertical
     numpy.ndarray
         Velocities at x_j = j dx for j = 0 .. ceil(length / dx).
     """
+    from scipy import fft as sp_fft
     spec = SPECTRA[spectrum] if isinstance(spectrum, str) else spectrum
     n_need = int(math.ceil(length / dx)) + 1
     n_min = max(n_need + int(math.ceil(10.0 * L / dx)), int(math.ceil(64.0 * L / dx)), 16)

@@ -12,7 +12,6 @@ from dataclasses import dataclass
 from typing import Mapping
 
 import numpy as np
-from scipy.interpolate import CubicSpline
 
 from ..core.errors import InputError
 from ..core.registry import registrar
@@ -351,6 +350,7 @@ class Table(Law):
         if not path.is_absolute() and context.base_dir is not None:
             path = pathlib.Path(context.base_dir) / path
         self.path = path
+        from scipy.interpolate import CubicSpline
         t, q = _read_table(path)
         self.t_first, self.t_last = float(t[0]), float(t[-1])
         self.q_first, self.q_last = self.scale * float(q[0]), self.scale * float(q[-1])

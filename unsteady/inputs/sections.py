@@ -9,8 +9,6 @@ import re
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.interpolate import CubicSpline, make_lsq_spline
-from scipy.optimize import minimize_scalar
 
 from ..core.errors import InputError
 
@@ -392,6 +390,7 @@ class CoordinateSection(Section):
         if area < 0.0:
             loop = loop[::-1]
 
+        from scipy.interpolate import CubicSpline   # here: only coordinate files need it
         # 1. parametric spline; first guess of the leading edge: the farthest point from the trailing edge
         s = np.concatenate([[0.0], np.cumsum(np.sqrt(np.hypot(*np.diff(loop, axis=0).T)))])
         spline = CubicSpline(s, loop, axis=0)
@@ -453,6 +452,7 @@ class CoordinateSection(Section):
     @classmethod
     def _mean_line(cls, xu, zu, xl, zl, n_points, fname):
         """Least-squares cubic spline of the corrected mean line (steps 2, 3 and 5 listed in the class docstring)."""
+        from scipy.interpolate import make_lsq_spline
         xi = cosine_nodes(cls._STATIONS)
         z_u, z_l = np.interp(xi, xu, zu), np.interp(xi, xl, zl)
         crossing = (xi > 1e-3) & (xi < 1.0 - 1e-3) & (z_u - z_l < -2e-4)
@@ -512,6 +512,7 @@ class CoordinateSection(Section):
 
 def _support(spline, s, s_le, t0):
     """Parameter of the point of the outline farthest back along -t0, searched near s_le (the nose)."""
+    from scipy.optimize import minimize_scalar
     near = int(np.searchsorted(s, s_le))
     lo, hi = s[max(near - 8, 0)], s[min(near + 8, len(s) - 1)]
     u = np.linspace(lo, hi, 801)
@@ -523,6 +524,7 @@ def _support(spline, s, s_le, t0):
 
 def _extreme(spline, s, i, score):
     """Parameter near the point i of the loop where the spline maximises score(point)."""
+    from scipy.optimize import minimize_scalar
     lo, hi = s[max(i - 1, 0)], s[min(i + 1, len(s) - 1)]
     res = minimize_scalar(lambda u: -score(spline(u)), bounds=(lo, hi), method="bounded",
                           options={"xatol": 1e-13 * s[-1]})

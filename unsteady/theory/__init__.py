@@ -3,7 +3,9 @@
 import functools
 
 import numpy as np
-from scipy import integrate, interpolate, special
+
+# scipy's submodules are imported in the functions that use them: loading a
+# scenario imports this package, and scipy.integrate/special cost a large share of start-up.
 
 __all__ = [
     "GUST_CAUTION",
@@ -57,6 +59,7 @@ def theodorsen(k):
     complex or numpy.ndarray of complex
         C(k).
     """
+    from scipy import special
     k = np.asarray(k, dtype=float)
     k_abs = np.abs(k)
     tiny = k_abs < 1e-300  # below this, 1 - C(k) ~ k ln k is far under 1e-290
@@ -175,6 +178,7 @@ def sears(k):
     complex or numpy.ndarray of complex
         S(k); S(0) = 1, |S(k)| ~ 1/sqrt(2 pi k) for large k.
     """
+    from scipy import special
     k = np.asarray(k, dtype=float)
     S = (special.j0(k) - 1j * special.j1(k)) * np.asarray(theodorsen(k)) + 1j * special.j1(k)
     return _complex_out(S)
@@ -231,6 +235,7 @@ _FOURIER_SPLIT = 1.0  # k where the Fourier integrals switch to the infinite-ran
 
 def _branch_cut_denominator(x):
     """x^2 D(x) e^{-2x}, written with exponentially scaled Bessel functions."""
+    from scipy import special
     return x**2 * (
         np.exp(-4.0 * x) * (special.k0e(x) - special.k1e(x)) ** 2
         + np.pi**2 * (special.i0e(x) + special.i1e(x)) ** 2
@@ -247,6 +252,7 @@ def _wagner_kernel(x):
 
 def _kuessner_kernel(x):
     """e^x (I0 + I1) / (x^2 D(x)); tends to 1 as x -> 0 and decays as x^(-3/2)."""
+    from scipy import special
     x = np.asarray(x, dtype=float)
     with np.errstate(all="ignore"):
         f = (special.i0e(x) + special.i1e(x)) / _branch_cut_denominator(x)
@@ -258,6 +264,7 @@ _KERNELS = {"wagner": _wagner_kernel, "kuessner": _kuessner_kernel}
 
 def _branch_cut_values(name, s):
     """1 - r(s) by the branch-cut integral, all s at once (scipy quad_vec)."""
+    from scipy import integrate
     kernel = _KERNELS[name]
     s = np.asarray(s, dtype=float)
     deficit, _err = integrate.quad_vec(
@@ -274,6 +281,7 @@ def _branch_cut_values(name, s):
 
 def _branch_cut_point(name, s):
     """1 - r(s) by the branch-cut integral at one s, with x = u / s (scipy quad)."""
+    from scipy import integrate
     if s < 0.0:
         return 0.0
     kernel = _KERNELS[name]
@@ -293,6 +301,7 @@ def _table(name):
     sqrt(s) is the natural variable: psi(s) grows as sqrt(s) from s = 0, and
     both functions are smooth in sqrt(s).
     """
+    from scipy import interpolate
     v_near = np.linspace(0.0, 2.0, 201)  # s from 0 to 4, ds ~ 0.0001 near 0
     s_far = np.geomspace(4.0, _S_TABLE_MAX, 700)[1:]
     s = np.concatenate([v_near**2, s_far])
@@ -321,6 +330,7 @@ def _fourier_step_response(H, s, form, r_zero):
     int_0^K Re H sin(ks)/k = Si(K s) + int_0^K (Re H - 1) sin(ks)/k (bounded
     integrand), and int_K^inf by QUADPACK's Fourier rule (QAWF).
     """
+    from scipy import integrate, special
     if s < 0.0:
         return 0.0
     if s == 0.0:
