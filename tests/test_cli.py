@@ -132,3 +132,53 @@ def test_usage_errors_are_one_line_exit_2(capsys):
     assert ei.value.code == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and err[0].startswith("error: ") and "scenario" in err[0]
+
+
+@pytest.fixture
+def saved_run(tmp_path):
+    f = tmp_path / "good.toml"
+    f.write_text(GOOD)
+    out = tmp_path / "run"
+    assert main(["run", str(f), "--out", str(out), "--quiet"]) == 0
+    return out
+
+
+def _damage(run, name, how):
+    p = run / name
+    data = p.read_bytes()
+    p.write_bytes(data[: len(data) // 2] if how == "truncate" else b"\x00garbage\x01" + data[7:])
+
+
+@pytest.mark.parametrize("name,how", [("history.csv", "truncate"), ("summary.json", "truncate"),
+                                      ("summary.json", "garble"), ("snapshots.npz", "truncate"),
+                                      ("scenario.toml", "garble")])
+def test_damaged_run_files_are_one_line_exit_2(saved_run, name, how, capsys):
+    _damage(saved_run, name, how)
+    capsys.readouterr()
+    for argv in (["pictures", str(saved_run), "--quiet"],
+                 ["animate", str(saved_run), "--out", str(saved_run / "f.gif"), "--quiet"]):
+        assert main(argv) == 2, argv
+        err = capsys.readouterr().err.strip().splitlines()
+        assert len(err) == 1 and err[0].startswith(f"error: {saved_run}: {name}: "), (argv, err)
+    assert not (saved_run / "f.gif").exists()
+
+
+def test_a_truncated_history_names_its_line(saved_run, capsys):
+    _damage(saved_run, "history.csv", "truncate")
+    n_lines = (saved_run / "history.csv").read_text().count("\n") + 1
+    assert main(["compare", str(saved_run), "--out", str(saved_run.parent / "c.png")]) == 2
+    err = capsys.readouterr().err.strip()
+    assert f"line {n_lines} has" in err and "\n" not in err
+    assert not (saved_run.parent / "c.png").exists()
+
+
+def test_the_loader_checks_what_the_caller_needs(saved_run):
+    from unsteady.core.errors import UsageError
+    from unsteady.outputs.rundir import load_run
+    (saved_run / "scenario.toml").unlink()
+    res = load_run(saved_run)                   # not needed: absent is fine
+    assert res.scenario is None and len(res.history["t"]) > 10
+    with pytest.raises(UsageError, match=r"scenario.toml: missing"):
+        load_run(saved_run, need=("scenario.toml",))
+    with pytest.raises(UsageError, match=r"history.csv: column 'lift_N' is missing"):
+        load_run(saved_run, columns=("cl", "lift_N"))

@@ -38,10 +38,8 @@ def captured(monkeypatch):
 
     def keep(fig, path):
         figs[path.name] = fig
-    monkeypatch.setattr(plots, "_save", keep)
-    yield figs
-    for f in figs.values():
-        plots.plt.close(f)
+    monkeypatch.setattr(plots, "save_png", keep)
+    return figs
 
 
 def _lines(fig):

@@ -2,13 +2,11 @@
 
 from __future__ import annotations
 
-import json
 import math
 from pathlib import Path
 
 from ..core.errors import UsageError
 from ..core.cautions import MODEL_CAUTION
-from ..outputs.rundir import read_history_csv
 
 #: Columns of the printed table: (summary key, header, format).
 TABLE = [
@@ -29,24 +27,15 @@ TABLE = [
 ]
 
 
+#: History columns the picture draws.
+COLUMNS = ("t", "cl", "cm", "pitch_deg")
+
+
 def load_run(run_dir):
     """(label, history, summary) of a run directory; UsageError if it is not one."""
-    d = Path(run_dir)
-    if not d.is_dir():
-        raise UsageError(f"error: {d}: RUN_DIR: no such folder; give a folder written by 'unsteady run'")
-    for f in ("history.csv", "summary.json"):
-        if not (d / f).is_file():
-            raise UsageError(f"error: {d}: {f}: missing; give a folder written by 'unsteady run'")
-    try:
-        history = read_history_csv(d / "history.csv")
-        summary = json.loads((d / "summary.json").read_text())
-    except (ValueError, IndexError, OSError) as exc:
-        raise UsageError(f"error: {d}: history.csv: cannot be read ({exc}); "
-                         "give a folder written by 'unsteady run'") from None
-    for k in ("t", "cl", "cm", "pitch_deg"):
-        if k not in history:
-            raise UsageError(f"error: {d}: history.csv: column '{k}' is missing")
-    return d.name, history, summary
+    from ..outputs.rundir import ALWAYS, load_run as read_run
+    res = read_run(run_dir, columns=COLUMNS, read=ALWAYS)
+    return Path(run_dir).name, res.history, res.summary
 
 
 def _get(summary, dotted):
@@ -78,8 +67,8 @@ def table_text(runs):
 
 def plot_compare(runs, path, title=""):
     """One picture: cl and cm against time (with each run's quasi-steady cl dashed) and the cl-pitch loops."""
-    from ..outputs.pictures import _save, plt
-    fig = plt.figure(figsize=(11, 6.2))
+    from ..outputs.pictures import new_figure, save_png
+    fig = new_figure(11, 6.2, paper=False)
     ax_cl = fig.add_subplot(2, 2, 1)
     ax_cm = fig.add_subplot(2, 2, 3, sharex=ax_cl)
     ax_loop = fig.add_subplot(1, 2, 2)
@@ -111,7 +100,7 @@ def plot_compare(runs, path, title=""):
     fig.suptitle((title or "comparison of runs") + ("\n" + note if note else ""), fontsize=9)
     fig.text(0.5, 0.005, MODEL_CAUTION, ha="center", va="bottom", fontsize=6, wrap=True)
     fig.tight_layout(rect=(0, 0.04, 1, 1))
-    _save(fig, path)
+    save_png(fig, path)
 
 
 def add_arguments(p):

@@ -34,12 +34,12 @@ import math
 import os
 import signal
 import sys
-import tempfile
 import time
 from dataclasses import dataclass
 from pathlib import Path
 
 from ..core.cautions import SWEEP_CAUTION
+from ..core.files import write_text
 from ..core.version import __version__
 from ..inputs.scenario import ScenarioError, load_scenario
 from ..inputs.sweep import _fmt_value, expand  # noqa: F401
@@ -166,28 +166,7 @@ class SweepTable:
         w = csv.DictWriter(buf, fieldnames=cols, restval="", lineterminator="\n")
         w.writeheader()
         w.writerows(rows)
-        _atomic_write(self.path, buf.getvalue().encode())
-
-
-from ..outputs.rundir import _umask  # noqa: E402
-
-
-def _atomic_write(path, data: bytes):
-    path = Path(path)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
-    os.chmod(tmp, 0o666 & ~_umask())          # mkstemp makes it private; a table is not
-    try:
-        with os.fdopen(fd, "wb") as f:
-            f.write(data)
-            f.flush()
-            os.fsync(f.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
+        write_text(self.path, buf.getvalue())
 
 
 def read_table(path):
@@ -439,13 +418,13 @@ def write_envelope(sc, out_dir, rows):
     xs = [_as_float(r.get(across)) for r in ok]
     if not any(math.isfinite(x) for x in xs):
         return None
-    import matplotlib
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
+    import textwrap
+    from ..outputs.pictures import new_figure, save_png
     groups = {}
     for r, x in zip(ok, xs):
         groups.setdefault(r.get(lines, "") if lines else "", []).append((x, _as_float(r.get(value))))
-    fig, ax = plt.subplots(figsize=(7.0, 4.6), constrained_layout=True)
+    fig = new_figure(7.0, 4.6, paper=False, layout="constrained")
+    ax = fig.add_subplot()
     for g, pts in groups.items():
         pts = sorted(p for p in pts if math.isfinite(p[0]) and math.isfinite(p[1]))
         if pts:
@@ -456,20 +435,10 @@ def write_envelope(sc, out_dir, rows):
     ax.grid(True, alpha=0.3)
     if lines:
         ax.legend(fontsize=8)
-    import textwrap
     fig.text(0.01, 0.0, "\n".join(textwrap.wrap(SWEEP_CAUTION, 120)), fontsize=6, va="bottom", color="0.3")
     fig.get_layout_engine().set(rect=(0, 0.06, 1, 0.94))
     path = Path(out_dir) / PICTURE_NAME
-    fd, tmp = tempfile.mkstemp(prefix=f".{PICTURE_NAME}.", suffix=".png", dir=out_dir)
-    os.close(fd)
-    os.chmod(tmp, 0o666 & ~_umask())
-    try:
-        fig.savefig(tmp, dpi=120)
-        os.replace(tmp, path)
-    finally:
-        plt.close(fig)
-        if os.path.exists(tmp):
-            os.unlink(tmp)
+    save_png(fig, path, dpi=120)
     return path
 
 

@@ -10,9 +10,6 @@ import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 
-import matplotlib
-
-matplotlib.use("Agg")
 import numpy as np  # noqa: E402
 from matplotlib.backends.backend_agg import FigureCanvasAgg  # noqa: E402
 from matplotlib.colors import Normalize  # noqa: E402
@@ -20,8 +17,9 @@ from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.lines import Line2D  # noqa: E402
 from matplotlib.patches import Polygon  # noqa: E402
 
-from . import fields  # noqa: E402
+from . import fields, rundir  # noqa: E402
 from ..core.errors import UsageError  # noqa: E402
+from ..core.files import atomic_path  # noqa: E402
 from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP  # noqa: E402
 
 __all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
@@ -91,41 +89,13 @@ class FilmOptions:
 
 
 # ---------------------------------------------------------------------------
+#: The files of a run directory a film needs besides the history and summary.
+FILM_FILES = ("scenario.toml", "snapshots.npz")
+
+
 def load_run(run_dir):
-    """Read a run directory for a film; bad input raises :class:`UsageError` (exit 2)."""
-    from ..simulation.result import Result
-    run_dir = Path(run_dir)
-    if not run_dir.is_dir():
-        raise UsageError(f"error: {run_dir}: RUN_DIR: no such run directory; give a folder written by 'unsteady run'")
-    for name in ("history.csv", "summary.json", "scenario.toml"):
-        if not (run_dir / name).is_file():
-            raise UsageError(f"error: {run_dir}: {name}: missing; give a folder written by 'unsteady run'")
-    if not (run_dir / "snapshots.npz").is_file():
-        raise UsageError(f"error: {run_dir}: snapshots.npz: missing: the run kept no wake snapshots; "
-                         "rerun it with 'unsteady run' (output.snapshot_every sets their spacing)")
-    try:
-        res = Result.load(run_dir)
-    except Exception as exc:
-        raise UsageError(f"error: {run_dir}: -: cannot read the run ({type(exc).__name__}: {exc})") from None
-    if res.scenario is None:
-        res.scenario = _read_resolved_scenario(run_dir)
-    if fields.snapshot_count(res.snapshots) == 0 or "offsets" not in res.snapshots:
-        raise UsageError(f"error: {run_dir}: snapshots.npz: holds no wake snapshots; rerun the scenario")
-    return res
-
-
-def _read_resolved_scenario(run_dir):
-    """The run's scenario.toml, tolerating a resolved file that lists both density and altitude."""
-    from ..inputs.scenario import load_scenario, read_toml
-    path = Path(run_dir) / "scenario.toml"
-    try:
-        raw = read_toml(path)
-        flow = raw.get("flow", {})
-        if "density" in flow and "altitude" in flow:
-            flow.pop("altitude")
-        return load_scenario(raw, source_name=str(path), base_dir=Path(run_dir))
-    except Exception as exc:
-        raise UsageError(f"error: {path}: -: cannot be read back ({exc}); rerun the scenario") from None
+    """Read a run directory for a film (see :func:`unsteady.outputs.rundir.load_run`; UsageError, exit 2)."""
+    return rundir.load_run(run_dir, need=FILM_FILES)
 
 
 class Film:
@@ -652,40 +622,39 @@ def write_film(result, out, options=FilmOptions(), *, progress=False, label="run
                          "MP4 (H.264, yuv420p) needs an even width and height")
     film = Film(result, options, label=label)
     renderer = FilmRenderer(film)
-    size = (options.width, options.height)
-    tmp = out.with_name(f".{out.stem}.part{out.suffix}")
     bar = None
     if progress:
         from ..simulation.observers import ProgressBar
         bar = ProgressBar(film.n_frames, label="film")
-    writer = None
     try:
-        if out.suffix.lower() == ".gif":
-            n = film.n_frames
-            picks = sorted(set(int(round(v)) for v in np.linspace(0, n - 1, min(n, 4))))
-            samples = [renderer.frame(i)[::2, ::2] for i in picks]
-            writer = _GifWriter(tmp, size, options.frame_rate, samples)
-        else:
-            writer = _Mp4Writer(tmp, size, options.frame_rate)
-        for i in range(film.n_frames):
-            writer.add(renderer.frame(i))
-            if bar is not None:
-                bar.update(i + 1, f"frame {i + 1}/{film.n_frames}")
-        writer.close()
-        writer = None
-        os.replace(tmp, out)
-    except BaseException:
-        if writer is not None:
-            try:
-                (writer.abort if hasattr(writer, "abort") else writer.close)()
-            except Exception:
-                pass
-        try:
-            tmp.unlink()
-        except FileNotFoundError:
-            pass
-        raise
+        with atomic_path(out) as tmp:
+            _encode(renderer, tmp, bar)
     finally:
         if bar is not None:
             bar.close()
     return film
+
+
+def _encode(renderer, path, bar=None):
+    """Stream every frame of ``renderer`` to an MP4 or GIF at ``path``; ffmpeg is stopped on any error."""
+    film, o = renderer.film, renderer.film.opt
+    size = (o.width, o.height)
+    if path.suffix.lower() == ".gif":
+        n = film.n_frames
+        picks = sorted(set(int(round(v)) for v in np.linspace(0, n - 1, min(n, 4))))
+        samples = [renderer.frame(i)[::2, ::2] for i in picks]
+        writer = _GifWriter(path, size, o.frame_rate, samples)
+    else:
+        writer = _Mp4Writer(path, size, o.frame_rate)
+    try:
+        for i in range(film.n_frames):
+            writer.add(renderer.frame(i))
+            if bar is not None:
+                bar.update(i + 1, f"frame {i + 1}/{film.n_frames}")
+    except BaseException:
+        try:
+            (writer.abort if hasattr(writer, "abort") else writer.close)()
+        except Exception:
+            pass
+        raise
+    writer.close()

@@ -2,20 +2,18 @@
 
 from __future__ import annotations
 
-import os
 import textwrap
 from pathlib import Path
 
-import matplotlib
+import numpy as np
+from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.colors import LinearSegmentedColormap, Normalize
+from matplotlib.figure import Figure
+from matplotlib.lines import Line2D
 
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-
-from ..analysis.lag import ALPHA_EFF_LIMIT_DEG  # noqa: E402
-from ..core.cautions import GUST_CAUTION, PICTURE_CAUTION  # noqa: E402
-from matplotlib.colors import LinearSegmentedColormap, Normalize  # noqa: E402
-from matplotlib.lines import Line2D  # noqa: E402
+from ..analysis.lag import ALPHA_EFF_LIMIT_DEG
+from ..core.cautions import GUST_CAUTION, PICTURE_CAUTION
+from ..core.files import atomic_path
 
 # ---------------------------------------------------------------------------
 # The look of the project's pictures and films (our own): warm paper, slate
@@ -53,22 +51,19 @@ GUST_MAP = LinearSegmentedColormap.from_list(
 CAUTION = PICTURE_CAUTION   # the short caution on every picture
 
 
-def _save(fig, path):
-    """Write a figure atomically (temporary name, then rename) and close it."""
-    path = Path(path)
-    tmp = path.with_name(f".{path.stem}.part{path.suffix}")
-    try:
-        fig.savefig(tmp, dpi=110, facecolor=fig.get_facecolor())
-        os.replace(tmp, path)
-    finally:
-        plt.close(fig)
-        if tmp.exists():
-            tmp.unlink()
-
-
-def _figure(w, h):
-    fig = plt.figure(figsize=(w, h), facecolor=LOOK["paper"])
+def new_figure(w, h, paper=True, **kw):
+    """A w x h inch figure on an Agg canvas (no pyplot state: nothing to close), on paper or white."""
+    fig = Figure(figsize=(w, h), facecolor=LOOK["paper"] if paper else "white", **kw)
+    FigureCanvasAgg(fig)
     return fig
+
+
+def save_png(fig, path, dpi=110):
+    """Write a figure of :func:`new_figure` as PNG atomically (:func:`unsteady.core.files.atomic_path`)."""
+    with atomic_path(path) as tmp:
+        fig.savefig(tmp, format="png", dpi=dpi, facecolor=fig.get_facecolor())
+
+
 
 
 def _style(ax):
@@ -101,9 +96,8 @@ def plot_histories(result, path):
     rows.append(("pitch_deg", "pitch angle (deg)"))
     if np.any(h["height_m"] != 0):
         rows.append(("height_m", "height of the pitch axis (m)"))
-    fig, axes = plt.subplots(len(rows), 1, figsize=(8, 1.7 * len(rows) + 0.9), sharex=True,
-                             facecolor=LOOK["paper"])
-    axes = np.atleast_1d(axes)
+    fig = new_figure(8, 1.7 * len(rows) + 0.9)
+    axes = np.atleast_1d(fig.subplots(len(rows), 1, sharex=True))
     for ax, (k, label) in zip(axes, rows):
         _style(ax)
         ax.plot(t, h[k], color=LOOK["trace"], lw=1.4, label="vortex model" if k == "cl" else None)
@@ -117,13 +111,13 @@ def plot_histories(result, path):
     fig.suptitle(_title(result, "histories"), fontsize=10, color=LOOK["ink"])
     fig.tight_layout(rect=(0, 0.02, 1, 1))
     _footer(fig)
-    _save(fig, path)
+    save_png(fig, path)
 
 
 def plot_lift_loop(result, path):
     """lift-loop.png: cl against pitch angle, with the quasi-steady line when the run has it."""
     h = result.history
-    fig = _figure(6.2, 5.0)
+    fig = new_figure(6.2, 5.0)
     ax = fig.add_subplot(111)
     _style(ax)
     a, cl = h["pitch_deg"], h["cl"]
@@ -148,7 +142,7 @@ def plot_lift_loop(result, path):
     fig.suptitle(_title(result, "lift against pitch"), fontsize=10, color=LOOK["ink"])
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     _footer(fig)
-    _save(fig, path)
+    save_png(fig, path)
 
 
 def _outline(result, alpha, h, x_shift=0.0):
@@ -166,7 +160,7 @@ def plot_wake(result, path, k=-1):
     k = k % len(s["t"])
     a, b = int(s["offsets"][k]), int(s["offsets"][k + 1])
     x, z, g = s["x"][a:b], s["z"][a:b], s["gamma"][a:b]
-    fig = _figure(9.0, 4.2)
+    fig = new_figure(9.0, 4.2)
     ax = fig.add_subplot(111)
     _style(ax)
     ax.grid(False)
@@ -187,7 +181,7 @@ def plot_wake(result, path, k=-1):
     fig.suptitle(_title(result, f"wake at t = {t:.4g} s ({b - a} vortices)"), fontsize=10, color=LOOK["ink"])
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     _footer(fig)
-    _save(fig, path)
+    save_png(fig, path)
     return True
 
 
@@ -217,7 +211,7 @@ def plot_pressure_jump(result, path):
     dcp, xc = np.asarray(s["dcp"], dtype=float), np.asarray(s["x_dcp"], dtype=float)
     h = result.history
     rows = [i for i in pressure_instants(h) if i < len(dcp)]
-    fig = _figure(7.0, 4.4)
+    fig = new_figure(7.0, 4.4)
     ax = fig.add_subplot(111)
     _style(ax)
     colors = [LOOK["trace"], LOOK["ccw"], LOOK["cw"], LOOK["second"], LOOK["gust_up"], LOOK["muted"]]
@@ -232,7 +226,7 @@ def plot_pressure_jump(result, path):
     fig.suptitle(_title(result, "load along the chord"), fontsize=10, color=LOOK["ink"])
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     _footer(fig)
-    _save(fig, path)
+    save_png(fig, path)
     return True
 
 
@@ -273,7 +267,8 @@ def plot_lag(result, path):
         return
     lag = result.summary.get("lag", {})
     val = lag.get("validity", {})
-    fig, (ax1, ax2) = plt.subplots(2, 1, figsize=(8, 5.2), sharex=True)
+    fig = new_figure(8, 5.2, paper=False)
+    ax1, ax2 = fig.subplots(2, 1, sharex=True)
     t = h["t"]
     ax1.plot(t, h["cl"], color="#23395b", lw=1.4, label=f"cl ({result.summary.get('model', 'run')})")
     ax1.plot(t, h["cl_quasi_steady"], color="#c0392b", lw=1.0, ls="--", label="quasi-steady cl")
@@ -295,7 +290,7 @@ def plot_lag(result, path):
         note = "within the attached-flow range of the model"
     fig.suptitle("lift lag against the quasi-steady estimate\n" + note, fontsize=8)
     fig.tight_layout()
-    _save(fig, path)
+    save_png(fig, path)
     return True
 
 
@@ -306,7 +301,7 @@ def plot_gust_loads(result, path):
     h, s = result.history, result.summary
     if "n" not in h or not len(h["n"]):
         return
-    fig = _figure(8, 5.4)
+    fig = new_figure(8, 5.4)
     ax1 = fig.add_subplot(2, 1, 1)
     ax2 = fig.add_subplot(2, 1, 2, sharex=ax1)
     for ax in (ax1, ax2):
@@ -333,5 +328,5 @@ def plot_gust_loads(result, path):
     fig.tight_layout(rect=(0, 0.06, 1, 1))
     fig.text(0.01, 0.005, "\n".join(textwrap.wrap(GUST_CAUTION, 150)), fontsize=6.5,
              color=LOOK["muted"], ha="left", va="bottom")
-    _save(fig, path)
+    save_png(fig, path)
     return True

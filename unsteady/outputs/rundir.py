@@ -1,4 +1,4 @@
-"""The run directory on disk: atomic writing, reading back, the CSV history format."""
+"""The run directory on disk: atomic writing, the one loader, the CSV history format."""
 
 from __future__ import annotations
 
@@ -6,13 +6,23 @@ import csv
 import io
 import json
 import os
-import shutil
-import tempfile
 from pathlib import Path
 
 import numpy as np
 
+from ..core.errors import UsageError
+from ..core.files import atomic_dir
 from ..simulation.result import Result
+
+#: The files a run directory holds besides its pictures and films.
+RUN_FILES = ("history.csv", "summary.json", "scenario.toml", "snapshots.npz")
+#: Files every reader needs.
+ALWAYS = ("history.csv", "summary.json")
+#: What to say when a needed file is missing (default: it is not a run directory).
+MISSING_HINT = {
+    "snapshots.npz": "the run kept no wake snapshots; rerun it with 'unsteady run' "
+                     "(output.snapshot_every sets their spacing)",
+}
 
 
 def save_run(result, out_dir, plots=True):
@@ -26,11 +36,7 @@ def save_run(result, out_dir, plots=True):
     problem = check_out_dir(out_dir)
     if problem:
         raise ValueError(problem)
-    parent = out_dir.resolve().parent
-    parent.mkdir(parents=True, exist_ok=True)
-    tmp = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.", suffix=".part", dir=parent))
-    os.chmod(tmp, 0o777 & ~_umask())
-    try:
+    with atomic_dir(out_dir) as tmp:
         (tmp / "history.csv").write_text(history_csv(result.history))
         (tmp / "summary.json").write_text(json.dumps(_jsonable(result.summary), indent=2) + "\n")
         if result.scenario is not None:
@@ -40,45 +46,101 @@ def save_run(result, out_dir, plots=True):
         if plots:
             from .pictures import write_run_plots
             write_run_plots(result, tmp)
-        if out_dir.exists():
-            old = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.", suffix=".old", dir=parent))
-            os.rename(out_dir, old / "x")
-            os.rename(tmp, out_dir)
-            shutil.rmtree(old, ignore_errors=True)
-        else:
-            os.rename(tmp, out_dir)
-    except BaseException:
-        shutil.rmtree(tmp, ignore_errors=True)
-        raise
     return out_dir
 
 
-def load_run(run_dir):
-    """Read a run directory written by :meth:`save`."""
-    run_dir = Path(run_dir)
-    history = read_history_csv(run_dir / "history.csv")
-    summary = json.loads((run_dir / "summary.json").read_text())
-    snaps = {}
-    if (run_dir / "snapshots.npz").exists():
-        with np.load(run_dir / "snapshots.npz") as z:
-            snaps = {k: z[k] for k in z.files}
-    scenario = None
-    if (run_dir / "scenario.toml").exists():
-        from ..inputs.scenario import load_scenario
-        try:
-            scenario = load_scenario(run_dir / "scenario.toml")
-        except Exception:
-            scenario = None
-    return Result(history, summary, snaps, scenario)
+def load_run(run_dir, need=(), columns=(), read=RUN_FILES):
+    """Read a run directory written by :func:`save_run`, checking what the caller needs.
+
+    Parameters
+    ----------
+    run_dir : path
+    need : sequence of str
+        Files that must be there besides ``history.csv`` and ``summary.json``
+        (``"scenario.toml"``, ``"snapshots.npz"``: then it must hold at least
+        one wake snapshot).
+    columns : sequence of str
+        History columns that must be there.
+    read : sequence of str
+        Files to read when present (the others are left alone: a caller that
+        needs no scenario does not pay for loading one).
+
+    Returns
+    -------
+    Result
+        ``scenario`` None and ``snapshots`` empty when not read or absent.
+
+    Raises
+    ------
+    UsageError
+        ``error: <run_dir>: <file>: <what is wrong>`` for a missing folder or
+        file, a damaged or truncated file, a missing column.
+    """
+    d = Path(run_dir)
+    if not d.is_dir():
+        raise UsageError(f"error: {d}: RUN_DIR: no such folder; give a folder written by 'unsteady run'")
+    need = [*ALWAYS, *(n for n in need if n not in ALWAYS)]
+    for name in need:
+        if not (d / name).is_file():
+            hint = MISSING_HINT.get(name, "give a folder written by 'unsteady run'")
+            raise UsageError(f"error: {d}: {name}: missing; {hint}")
+    parts = {}
+    for name, reader in _READERS.items():
+        if (name in need or name in read) and (d / name).is_file():
+            try:
+                parts[name] = reader(d / name)
+            except UsageError:
+                raise
+            except Exception as exc:        # damaged, truncated, not what a run writes
+                raise UsageError(f"error: {d}: {name}: cannot be read ({_why(exc)}); "
+                                 "rerun the scenario to write it again") from None
+    history = parts["history.csv"]
+    for k in columns:
+        if k not in history:
+            raise UsageError(f"error: {d}: history.csv: column '{k}' is missing; rerun the scenario")
+    snaps = parts.get("snapshots.npz", {})
+    if "snapshots.npz" in need and (len(snaps.get("t", ())) == 0 or "offsets" not in snaps):
+        raise UsageError(f"error: {d}: snapshots.npz: holds no wake snapshots; rerun the scenario")
+    return Result(history, parts["summary.json"], snaps, parts.get("scenario.toml"))
 
 
-RUN_FILES = ("history.csv", "summary.json", "scenario.toml", "snapshots.npz")
+def _why(exc):
+    text = str(exc).strip()
+    if isinstance(exc, ValueError) and text:
+        return text
+    return f"{type(exc).__name__}: {text}" if text else type(exc).__name__
 
 
-def _umask():
-    mask = os.umask(0)
-    os.umask(mask)
-    return mask
+def read_summary(path):
+    """summary.json as a dict (ValueError when it is not a JSON object)."""
+    summary = json.loads(Path(path).read_text())
+    if not isinstance(summary, dict):
+        raise ValueError("not a JSON object")
+    return summary
+
+
+def read_snapshots(path):
+    """The arrays of snapshots.npz, read into memory."""
+    with np.load(path) as z:
+        return {k: z[k] for k in z.files}
+
+
+def read_run_scenario(path):
+    """A run's scenario.toml, tolerating a resolved file that lists both density and altitude."""
+    from ..inputs.scenario import ScenarioError, load_scenario, read_toml
+    from ..core.errors import InputError
+    path = Path(path)
+    try:
+        raw = read_toml(path)
+        flow = raw.get("flow", {})
+        if isinstance(flow, dict) and "density" in flow and "altitude" in flow:
+            flow.pop("altitude")
+        return load_scenario(raw, source_name=str(path), base_dir=path.parent)
+    except ScenarioError as exc:
+        first = exc.problems[0]
+        raise ValueError(f"{first.key}: {first.message}") from None
+    except InputError as exc:
+        raise ValueError(exc.message) from None
 
 
 def check_out_dir(out_dir):
@@ -123,11 +185,26 @@ def history_csv(history) -> str:
 
 
 def read_history_csv(path):
+    """history.csv as {column: array}; ValueError naming the line when it is damaged or truncated."""
     with open(path, newline="") as f:
         rows = list(csv.reader(f))
+    if not rows or not rows[0]:
+        raise ValueError("empty: no header row of column names")
     names = rows[0]
-    data = np.array([[float(v) for v in r] for r in rows[1:]]) if len(rows) > 1 else np.zeros((0, len(names)))
+    data = np.empty((len(rows) - 1, len(names)))
+    for i, r in enumerate(rows[1:]):
+        if len(r) != len(names):
+            raise ValueError(f"line {i + 2} has {len(r)} values where the header names {len(names)}")
+        try:
+            data[i] = [float(v) for v in r]
+        except ValueError:
+            raise ValueError(f"line {i + 2} holds a value that is not a number") from None
     return {k: data[:, i] for i, k in enumerate(names)}
+
+
+#: Reader of each file of a run directory (history and summary first).
+_READERS = {"history.csv": read_history_csv, "summary.json": read_summary,
+            "snapshots.npz": read_snapshots, "scenario.toml": read_run_scenario}
 
 
 def _jsonable(x):
