@@ -75,6 +75,24 @@ def test_table_gust(tmp_path):
     assert p(np.array([0.5, 1.0, 3.0])) == pytest.approx([1.0, 2.0, 0.0])
 
 
+@pytest.mark.parametrize("text, words", [
+    ("x,w\n0,0\n1,abc\n2,0\n", "row 2 (line 3) of 'g.csv': 'abc' in column w is not a number"),
+    ("# a comment\nx,w\n0,0\n1\n", "row 2 (line 4) of 'g.csv': an empty cell in column w"),
+    ("x,w\n0,0\n1,1\n0.5,0\n", "row 3 (line 4) of 'g.csv': x = 0.5 does not come after x = 1"),
+    ("dist,w\n0,0\n1,1\n", "no column 'x'"),
+    ("x,w\n-1,0\n1,1\n", "x starts at -1"),
+])
+def test_bad_gust_table_names_file_row_and_line(tmp_path, text, words):
+    # the same reader as the motion table law (unsteady.inputs.tables)
+    (tmp_path / "g.csv").write_text(text)
+    with pytest.raises(ScenarioError) as exc:
+        unsteady.load_scenario({
+            "flow": {"speed": 10.0, "density": 1.2}, "airfoil": {"chord": 0.5},
+            "run": {"chords": 2}, "gust": {"profile": "table", "file": "g.csv"}}, base_dir=tmp_path)
+    lines = [p.line() for p in exc.value.problems]
+    assert len(lines) == 1 and ": gust.file: " in lines[0] and words in lines[0], lines
+
+
 @pytest.mark.parametrize("gust, key, words", [
     ({"profile": "one-minus-cosine", "amplitude": 1.0, "length": 0.0}, "gust.length", "> 0"),
     ({"profile": "one-minus-cosine", "amplitude": -1.0, "length": 2.0}, "gust.amplitude", "> 0"),

@@ -30,8 +30,6 @@ see :class:`Spectrum`.
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from pathlib import Path
 
@@ -41,6 +39,7 @@ from .. import theory
 from ..core.errors import InputError
 from ..core.registry import registrar
 from .checks import choice, integer, number, register_section, unknown_keys
+from .tables import read_table, table_path
 
 __all__ = [
     "PROFILES",
@@ -248,10 +247,7 @@ class TableGust(GustProfile):
 
     def __init__(self, spec, ctx):
         super().__init__(spec, ctx)
-        path = Path(spec["file"])
-        if not path.is_absolute():
-            path = Path(ctx.get("_base_dir") or ".") / path
-        self.x, self.w = read_gust_table(path)
+        self.x, self.w = read_gust_table(table_path(spec["file"], ctx.get("_base_dir")))
 
     @classmethod
     def check(cls, spec, ctx):
@@ -266,41 +262,10 @@ class TableGust(GustProfile):
 
 
 def read_gust_table(path):
-    """Columns x and w of a CSV gust table; InputError with key ``file`` otherwise."""
-    path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except FileNotFoundError:
-        raise InputError("file", f"table '{path}' not found") from None
-    except (IsADirectoryError, UnicodeDecodeError, OSError):
-        raise InputError("file", f"'{path}' cannot be read as a CSV text file") from None
-    rows = [r for r in csv.reader(io.StringIO(text))
-            if r and "".join(r).strip() and not r[0].lstrip().startswith("#")]
-    if not rows:
-        raise InputError("file", f"'{path.name}' is empty; it needs a header row naming columns x and w")
-    header = [h.strip().lower() for h in rows[0]]
-    for col in ("x", "w"):
-        if col not in header:
-            raise InputError("file", f"'{path.name}' has no column '{col}'; the header row must name "
-                                     f"columns x (m) and w (m/s)")
-    ix, iw = header.index("x"), header.index("w")
-    x, w = [], []
-    for k, r in enumerate(rows[1:], start=1):
-        try:
-            xv, wv = float(r[ix]), float(r[iw])
-        except (ValueError, IndexError):
-            raise InputError("file", f"row {k} of '{path.name}' does not hold two numbers x, w") from None
-        if not (math.isfinite(xv) and math.isfinite(wv)):
-            raise InputError("file", f"row {k} of '{path.name}' is not finite")
-        x.append(xv)
-        w.append(wv)
-    if len(x) < 2:
-        raise InputError("file", f"'{path.name}' needs at least 2 data rows")
-    x, w = np.array(x), np.array(w)
-    if np.any(np.diff(x) <= 0.0):
-        raise InputError("file", f"'{path.name}': x must increase strictly from row to row")
+    """Columns x and w of a CSV gust table (:func:`unsteady.inputs.tables.read_table`), x from 0 on."""
+    x, w = read_table(path, {"x": "m, distance into the gust", "w": "m/s"})
     if x[0] < 0.0:
-        raise InputError("file", f"'{path.name}': x starts at {x[0]:g}; distances into the gust are >= 0")
+        raise InputError("file", f"'{Path(path).name}': x starts at {x[0]:g}; distances into the gust are >= 0")
     return x, w
 
 

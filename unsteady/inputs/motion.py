@@ -2,9 +2,7 @@
 
 from __future__ import annotations
 
-import csv
 import difflib
-import io
 import math
 import numbers
 import pathlib
@@ -15,6 +13,7 @@ import numpy as np
 
 from ..core.errors import InputError
 from ..core.registry import registrar
+from .tables import read_table, table_path
 
 __all__ = [
     "LAWS",
@@ -346,12 +345,9 @@ class Table(Law):
 
     def __init__(self, spec, context=LawContext()):
         super().__init__(spec, context)
-        path = pathlib.Path(self.spec["file"]).expanduser()
-        if not path.is_absolute() and context.base_dir is not None:
-            path = pathlib.Path(context.base_dir) / path
-        self.path = path
         from scipy.interpolate import CubicSpline
-        t, q = _read_table(path)
+        self.path = table_path(self.spec["file"], context.base_dir)
+        t, q = read_table(self.path, {"t": "s", "value": "the quantity's scenario unit"})
         self.t_first, self.t_last = float(t[0]), float(t[-1])
         self.q_first, self.q_last = self.scale * float(q[0]), self.scale * float(q[-1])
         self._spline = CubicSpline(t, self.scale * q)
@@ -370,65 +366,6 @@ class Table(Law):
 
     def _accel(self, t):
         return np.where(self._inside(t), self._d2(np.clip(t, self.t_first, self.t_last)), 0.0)
-
-
-def _read_table(path):
-    """Columns t and value of a CSV file, checked; InputError with key "file" otherwise."""
-    name = path.name
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except FileNotFoundError:
-        raise InputError("file", f"table '{path}' not found") from None
-    except IsADirectoryError:
-        raise InputError("file", f"'{path}' is a folder, not a CSV table") from None
-    except UnicodeDecodeError:
-        raise InputError("file", f"'{path}' is not a text (CSV) file") from None
-    except OSError as exc:
-        raise InputError("file", f"cannot read table '{path}' ({exc.strerror or exc})") from None
-
-    reader = csv.reader(io.StringIO(text))
-    header = None
-    rows = []  # (line number, cells)
-    for cells in reader:
-        if not cells or not "".join(cells).strip() or cells[0].lstrip().startswith("#"):
-            continue
-        if header is None:
-            header = [c.strip().lower() for c in cells]
-            continue
-        rows.append((reader.line_num, cells))
-    if header is None:
-        raise InputError("file", f"'{name}' is empty; it needs a header row naming columns t and value")
-    for col in ("t", "value"):
-        if col not in header:
-            found = ", ".join(h for h in header if h) or "nothing"
-            raise InputError("file", f"'{name}' has no column '{col}'; the header row must name columns t and value "
-                                     f"(found: {found})")
-    it, iv = header.index("t"), header.index("value")
-    t, q = [], []
-    for k, (line, cells) in enumerate(rows, start=1):
-        pair = []
-        for col, i in (("t", it), ("value", iv)):
-            cell = cells[i].strip() if i < len(cells) else ""
-            try:
-                x = float(cell)
-            except ValueError:
-                shown = f"'{cell}'" if cell else "an empty cell"
-                raise InputError("file", f"row {k} (line {line}) of '{name}': {shown} in column {col} is not a "
-                                         f"number") from None
-            if not math.isfinite(x):
-                raise InputError("file", f"row {k} (line {line}) of '{name}': {col} = {cell} is not finite")
-            pair.append(x)
-        t.append(pair[0])
-        q.append(pair[1])
-    if len(t) < 2:
-        raise InputError("file", f"'{name}' has {len(t)} data row{'s' if len(t) != 1 else ''}; at least 2 are needed")
-    t, q = np.array(t), np.array(q)
-    bad = np.flatnonzero(np.diff(t) <= 0.0)
-    if len(bad):
-        k = int(bad[0]) + 2
-        raise InputError("file", f"row {k} (line {rows[k - 1][0]}) of '{name}': t = {t[k - 1]:g} does not come after "
-                                 f"t = {t[k - 2]:g}; times must increase strictly")
-    return t, q
 
 
 class SumLaw(Law):
