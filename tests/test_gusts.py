@@ -122,7 +122,7 @@ def test_list_keys_are_indexed():
 
 
 def test_strong_gust_warns_not_fails():
-    # atan(8 / 10) = 38.7 degrees > 30: a warning, the scenario still loads
+    # 8 / 10 rad = 46 degrees at the 3/4 chord (Theodorsen, NACA Report 496) > 30: a warning, the scenario still loads
     sc = _sc({"profile": "one-minus-cosine", "amplitude": 8.0, "length": 2.0})
     assert len(sc.warnings) == 1
     assert sc.warnings[0].startswith("warning: <dict>: gust.amplitude: ")
@@ -195,3 +195,18 @@ def test_gust_run_columns_and_summary():
     assert np.max(h["w_gust"]) == pytest.approx(1.0, abs=0.01)
     assert res.summary["w_gust_max"] == pytest.approx(np.max(h["w_gust"]))
     assert res.summary["gust_profiles"] == ["one-minus-cosine"]
+
+
+def test_effective_angle_warning_counts_the_pitch_rate():
+    # the check-time estimate is the 3/4-chord angle of thin-airfoil theory
+    # (Theodorsen, NACA Report 496): a quick pitch-up about the quarter chord adds
+    # c alpha_dot / (2 U) = 0.5 * 17.5 / 20 rad = 25 deg on top of 10 deg of pitch and
+    # 3/10 rad = 17 deg of gust: warned, though pitch and gust alone stay under 30 deg
+    base = {"flow": {"speed": 10.0, "density": 1.2}, "airfoil": {"chord": 0.5},
+            "run": {"chords": 2},
+            "gust": {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 2.0}}
+    calm = unsteady.load_scenario({**base, "motion": {"pitch": {"law": "constant", "value": 10.0}}})
+    assert calm.warnings == ()
+    quick = unsteady.load_scenario({**base, "motion": {"pitch": {
+        "law": "ramp", "from": 0.0, "to": 10.0, "start": 0.01, "duration": 0.01}}})
+    assert len(quick.warnings) == 1 and "about 52 degrees" in quick.warnings[0]

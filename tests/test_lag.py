@@ -103,3 +103,36 @@ def test_rounded_fast_ramp_lags_like_a_step():
     L = simulate(sc).summary["lag"]
     s90 = brentq(lambda s: theory.wagner(s) - 0.9, 0.1, 100.0)
     assert L["t90"] == pytest.approx(s90 * sc.chord / (2 * sc.speed), abs=0.002)
+
+
+@pytest.mark.parametrize("pivot", [0.0, 0.25, 0.5, 0.75, 1.0])
+def test_effective_angle_is_the_three_quarter_chord_normal_velocity(pivot):
+    # Theodorsen, NACA Report 496 (1935): alpha_eff = alpha - h'/U + b (1/2 - a) alpha'/U + w/U.
+    # With b (1/2 - a) = (3/4 - pivot) c this is the upwash at the 3/4-chord point of a rigid
+    # chord turning about its pivot (velocity = rate x distance: common practice), over U.
+    U, c = 12.0, 0.3
+    alpha, alpha_dot, h_dot, w = 0.05, 2.0, 0.4, 0.9
+    expect = alpha + ((0.75 - pivot) * c * alpha_dot - h_dot + w) / U
+    got = theory.effective_angle(alpha, alpha_dot, h_dot, U, c, pivot, w)
+    assert float(got) == pytest.approx(expect, rel=1e-14)
+    assert float(theory.effective_angle(alpha, alpha_dot, h_dot, U, c, pivot)) == pytest.approx(expect - w / U)
+
+
+@pytest.mark.parametrize("model", ["linear", "vortex"])
+def test_summary_peak_effective_angle_is_the_column_peak(model):
+    # one definition behind the column, the summary key and the lag block (a 1-cosine gust
+    # during a pitch ramp, so the pitch rate and the gust both count)
+    sc = load_scenario({"flow": {"speed": 15.0, "density": 1.2},
+                        "airfoil": {"shape": "flat", "chord": 0.25, "elements": 12},
+                        "motion": {"pivot": 0.25, "pitch": {"law": "ramp", "from": 0.0, "to": 3.0,
+                                                             "start": 0.01, "duration": 0.03}},
+                        "gust": {"profile": "one-minus-cosine", "amplitude": 1.5, "length": 1.0,
+                                 "arrival": 0.02},
+                        "run": {"chords": 8, "model": model, "wake": "frozen"}})
+    res = simulate(sc)
+    col = res.history["alpha_eff_deg"]
+    assert res.summary["alpha_eff_max_deg"] == float(np.max(np.abs(col)))
+    assert abs(res.summary["lag"]["peak_effective_alpha_deg"]) == res.summary["alpha_eff_max_deg"]
+    # and it is the 3/4-chord angle, not a leading-edge one: the gust peak (1.5 m/s) adds
+    # about 1.5/15 rad on top of the 3 degree pitch
+    assert 3.0 + 0.8 * math.degrees(0.1) < res.summary["alpha_eff_max_deg"] < 3.0 + 1.2 * math.degrees(0.1)

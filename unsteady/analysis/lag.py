@@ -29,13 +29,14 @@ PITCH_RATE_LIMIT = 0.05
 
 
 def effective_alpha(history, sc, gust=None):
-    """Effective angle of attack at the three-quarter chord, rad.
+    """Effective angle of attack at the three-quarter chord of every row, rad.
 
     alpha_eff = alpha - h'/U + b (1/2 - a) alpha'/U + w_g(x_3/4)/U, with h
-    up, b = c/2, a = 2 pivot - 1 (the downwash at the three-quarter chord of
-    T. Theodorsen, NACA Report 496, 1935, and of thin-airfoil theory, Abbott &
-    von Doenhoff, Theory of Wing Sections, 1959, ch. 4), plus a vertical gust
-    evaluated at the three-quarter chord.
+    up, b = c/2, a = 2 pivot - 1 (T. Theodorsen, NACA Report 496, 1935;
+    Abbott & von Doenhoff, Theory of Wing Sections, 1959, ch. 4): the one
+    definition, :func:`unsteady.theory.effective_angle`, evaluated on the
+    history by :func:`unsteady.inputs.gusts.effective_angle_history` (which
+    the gust check's warning and the summary's ``alpha_eff_max_deg`` use too).
 
     Parameters
     ----------
@@ -50,20 +51,10 @@ def effective_alpha(history, sc, gust=None):
     -------
     numpy.ndarray
     """
-    U, c, pv = sc.speed, sc.chord, sc.pivot
-    b, a = 0.5 * c, 2.0 * pv - 1.0
-    alpha = np.radians(history["pitch_deg"])
-    alpha_dot = np.radians(history["pitch_rate_deg_s"])
-    out = alpha - history["height_rate_m_s"] / U + b * (0.5 - a) * alpha_dot / U
-    if sc.data.get("gust"):
-        from ..inputs.gusts import build_gust_field
-        field = gust if gust is not None else build_gust_field(sc)
-        x34 = (0.75 - pv) * c
-        t = np.asarray(history["t"], dtype=float)
-        # the pattern depends on xi(x, t) only, elementwise in t: one call for all rows
-        w = field.velocity(np.full(t.shape, x34), np.asarray(history["height_m"], dtype=float), t)[1]
-        out = out + w / U
-    return out
+    from ..inputs.gusts import build_gust_field, effective_angle_history
+    if sc.data.get("gust") and gust is None:
+        gust = build_gust_field(sc)
+    return effective_angle_history(history, sc.speed, sc.chord, sc.pivot, gust if sc.data.get("gust") else None)
 
 
 def add_quasi_steady(history, sc, gust=None):

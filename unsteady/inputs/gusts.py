@@ -60,6 +60,7 @@ __all__ = [
     "build_gust_field",
     "GustObserver",
     "check_gust_section",
+    "effective_angle_history",
     "EFFECTIVE_ANGLE_LIMIT_DEG",
 ]
 
@@ -459,15 +460,32 @@ def build_gust_field(sc):
     return GustField(profiles, sc.speed, -sc.pivot * sc.chord)
 
 
-class GustObserver:
-    """Records the gust at the leading edge (columns ``w_gust``, ``u_gust``) and the effective angle.
+def effective_angle_history(history, speed, chord, pivot, field=None):
+    """The effective angle (rad) of every row of a history, with the gust of ``field`` at the three-quarter chord.
 
-    The effective angle of attack at the leading edge is alpha + atan(w / (U
-    + u)) less the plunge-rate angle atan(h_dot / U) (small-angle reading of
-    the classical quasi-steady angle; common practice).
+    :func:`unsteady.theory.effective_angle` on the columns ``pitch_deg``,
+    ``pitch_rate_deg_s`` and ``height_rate_m_s``; the vertical gust is read
+    at x = (3/4 - pivot) c and the row's height (the pattern depends on
+    xi(x, t) only, so one call serves all rows).  The one evaluation behind
+    the history column ``alpha_eff_deg`` and the summary's ``alpha_eff_max_deg``.
+    """
+    w = None
+    if field is not None:
+        t = np.asarray(history["t"], dtype=float)
+        x34 = (0.75 - pivot) * chord
+        w = field.velocity(np.full(t.shape, x34), np.asarray(history["height_m"], dtype=float), t)[1]
+    return theory.effective_angle(np.radians(history["pitch_deg"]), np.radians(history["pitch_rate_deg_s"]),
+                                  history["height_rate_m_s"], speed, chord, pivot, w)
+
+
+class GustObserver:
+    """Records the gust at the leading edge (columns ``w_gust``, ``u_gust``); its summary adds the peak effective angle.
+
+    ``alpha_eff_max_deg`` is the largest magnitude of the history column
+    ``alpha_eff_deg`` (both from :func:`effective_angle_history`).
     """
 
-    columns = ["w_gust", "u_gust", "alpha_eff_deg"]
+    columns = ["w_gust", "u_gust"]
 
     def __init__(self, gust, sc):
         self.gust = gust
@@ -480,20 +498,17 @@ class GustObserver:
     def on_step(self, s):
         x_le = -self.pivot * self.chord * math.cos(s.alpha)
         u, w = self.gust.velocity(np.array([x_le]), np.array([s.h]), s.t)
-        u, w = float(u[0]), float(w[0])
-        self.rows["w_gust"].append(w)
-        self.rows["u_gust"].append(u)
-        self.rows["alpha_eff_deg"].append(math.degrees(s.alpha + math.atan2(w - s.h_dot, self.U + u)))
+        self.rows["w_gust"].append(float(w[0]))
+        self.rows["u_gust"].append(float(u[0]))
 
-    def record_rows(self, t, alpha, h, h_dot):
-        """:meth:`on_step` for many rows at once (arrays of t (s), alpha (rad), h (m), h_dot (m/s))."""
+    def record_rows(self, t, alpha, h, h_dot=None):
+        """:meth:`on_step` for many rows at once (arrays of t (s), alpha (rad), h (m); h_dot is not needed)."""
         t = np.asarray(t, dtype=float)
         alpha = np.asarray(alpha, dtype=float)
         x_le = -self.pivot * self.chord * np.cos(alpha)
         u, w = self.gust.velocity(x_le, np.broadcast_to(h, t.shape), t)  # xi is elementwise in t
         self.rows["w_gust"].extend(np.asarray(w, dtype=float).tolist())
         self.rows["u_gust"].extend(np.asarray(u, dtype=float).tolist())
-        self.rows["alpha_eff_deg"].extend(np.degrees(alpha + np.arctan2(w - h_dot, self.U + u)).tolist())
 
     def finish(self, history):
         """Fill the columns of the recorded rows."""
@@ -508,8 +523,8 @@ class GustObserver:
             if v is not None and len(v):
                 out[f"{k}_max"] = float(np.nanmax(v))
                 out[f"{k}_min"] = float(np.nanmin(v))
-        a = history.get("alpha_eff_deg")
-        if a is not None and len(a):
+        if len(history["t"]):
+            a = np.degrees(effective_angle_history(history, self.U, self.chord, self.pivot, self.gust))
             out["alpha_eff_max_deg"] = float(np.nanmax(np.abs(a)))
         return out
 
@@ -565,27 +580,41 @@ def _check_one(g, prefix, ctx):
     return out, errors
 
 
+def _motion_angle_peak(ctx, w_peak):
+    """Largest |effective angle| (rad) of the prescribed motion with a vertical gust of ``w_peak`` at its worst instant.
+
+    :func:`unsteady.theory.effective_angle` on the pitch and plunge laws
+    sampled at 2001 instants of the run, the gust added with either sign
+    (an upper estimate: the gust need not meet the motion's peak).  The free
+    heave of ``[aircraft]`` is left out: it lowers the angle.
+    """
+    U, chord = ctx["flow"]["speed"], ctx["airfoil"]["chord"]
+    mo = ctx.get("motion", {})
+    t = np.linspace(0.0, ctx.get("run", {}).get("duration") or 0.0, 2001)
+    alpha = alpha_dot = h_dot = np.zeros_like(t)
+    try:
+        from .motion import build_law
+        kw = dict(speed=U, chord=chord, base_dir=ctx.get("_base_dir"))
+        if "pitch" in mo:
+            pitch = build_law(mo["pitch"], scale=math.pi / 180.0, **kw)
+            alpha, alpha_dot = pitch.value(t), pitch.rate(t)
+        if "plunge" in mo:
+            h_dot = build_law(mo["plunge"], scale=1.0, **kw).rate(t)
+    except InputError:  # the motion's own check reports its problems
+        pass
+    pivot = mo.get("pivot", 0.25)      # the scenario default, when the motion has problems of its own
+    return max(float(np.max(np.abs(theory.effective_angle(alpha, alpha_dot, h_dot, U, chord, pivot, w))))
+               for w in (w_peak, -w_peak))
+
+
 def _effective_angle_warning(specs, keys, ctx):
-    """A warning line's (key, message) when the gusts can push the angle past the limit."""
-    U = ctx.get("flow", {}).get("speed")
-    if not U:
+    """A warning line's (key, message) when the gusts can push the effective angle past the limit."""
+    if not ctx.get("flow", {}).get("speed"):
         return None
     peaks = [PROFILES[g["profile"]].peak_of(g, ctx) for g in specs]
     vertical = [g.get("direction", "vertical") == "vertical" for g in specs]
     w_peak = sum(p for p, v in zip(peaks, vertical) if v)
-    u_min = -sum(p for p, v in zip(peaks, vertical) if not v)
-    alpha0 = 0.0
-    try:
-        from .motion import build_law
-        mo = ctx.get("motion", {})
-        if "pitch" in mo:
-            law = build_law(mo["pitch"], scale=1.0, speed=U, chord=ctx["airfoil"]["chord"],
-                            base_dir=ctx.get("_base_dir"))
-            T = ctx.get("run", {}).get("duration") or 0.0
-            alpha0 = float(np.max(np.abs(law.value(np.linspace(0.0, T, 2001)))))
-    except Exception:  # the motion's own check reports its problems
-        alpha0 = 0.0
-    angle = alpha0 + math.degrees(math.atan2(w_peak, max(U + u_min, 1e-9 * U)))
+    angle = math.degrees(_motion_angle_peak(ctx, w_peak))
     if angle > EFFECTIVE_ANGLE_LIMIT_DEG:
         i = int(np.argmax([p if v else 0.0 for p, v in zip(peaks, vertical)]))
         return (keys[i], f"the gust can raise the effective angle of attack to about {angle:.0f} degrees, "

@@ -24,6 +24,7 @@ __all__ = [
     "gust_load_factor_increment",
     "dryden_spectrum",
     "von_karman_spectrum",
+    "effective_angle",
     "helmbold_lift_slope",
     "thin_airfoil_coefficients",
     "zero_lift_angle",
@@ -711,6 +712,49 @@ def von_karman_spectrum(Omega, sigma, L, component="vertical"):
         Phi = (sigma**2 * (L / np.pi) * (1.0 + 8.0 / 3.0 * aLO2)
                / (1.0 + aLO2) ** (11.0 / 6.0))
     return float(Phi) if Phi.ndim == 0 else Phi
+
+
+# ---------------------------------------------------------------------------
+# Effective angle of attack (three-quarter chord)
+# ---------------------------------------------------------------------------
+
+def effective_angle(alpha, alpha_dot, h_dot, speed, chord, pivot, w=None):
+    """Effective angle of attack of thin-airfoil theory: the normal velocity at the three-quarter chord over U, rad.
+
+    alpha_eff = alpha - h'/U + b (1/2 - a) alpha'/U + w/U, with b = c/2 the
+    semichord, a = 2 pivot - 1 the pitch axis aft of mid-chord in semichords,
+    h (plunge) and w (vertical gust at the three-quarter chord) positive up:
+    the downwash term of T. Theodorsen, NACA Report 496 (1935), whose
+    2 pi alpha_eff is the quasi-steady circulatory lift, and the
+    three-quarter-chord point of thin-airfoil theory (I. H. Abbott &
+    A. E. von Doenhoff, Theory of Wing Sections, 1959, ch. 4).  Small-angle
+    form with U the flight speed; a streamwise gust does not enter.
+
+    Parameters
+    ----------
+    alpha, alpha_dot : float or array_like
+        Pitch (rad, nose-up) and pitch rate (rad/s).
+    h_dot : float or array_like
+        Plunge rate, m/s, up.
+    speed, chord : float
+        U (m/s) and c (m).
+    pivot : float
+        Pitch axis, fraction of chord aft of the leading edge.
+    w : float or array_like, optional
+        Vertical gust velocity at the three-quarter chord, m/s (none: 0).
+
+    Returns
+    -------
+    numpy.ndarray
+        alpha_eff, rad.
+    """
+    U = float(speed)
+    b, a = 0.5 * float(chord), 2.0 * float(pivot) - 1.0
+    out = (np.asarray(alpha, dtype=float) - np.asarray(h_dot, dtype=float) / U
+           + b * (0.5 - a) * np.asarray(alpha_dot, dtype=float) / U)
+    if w is not None:
+        out = out + np.asarray(w, dtype=float) / U
+    return out
 
 
 # ---------------------------------------------------------------------------
