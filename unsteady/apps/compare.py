@@ -67,7 +67,7 @@ def table_text(runs):
 
 def plot_compare(runs, path, title=""):
     """One picture: cl and cm against time (with each run's quasi-steady cl dashed) and the cl-pitch loops."""
-    from ..outputs.pictures import new_figure, save_png
+    from ..outputs.pictures import fixed_margins, new_figure, save_png
     fig = new_figure(11, 6.2, paper=False)
     ax_cl = fig.add_subplot(2, 2, 1)
     ax_cm = fig.add_subplot(2, 2, 3, sharex=ax_cl)
@@ -99,7 +99,7 @@ def plot_compare(runs, path, title=""):
     note = ("outside the attached-flow range: " + ", ".join(bad)) if bad else ""
     fig.suptitle((title or "comparison of runs") + ("\n" + note if note else ""), fontsize=9)
     fig.text(0.5, 0.005, MODEL_CAUTION, ha="center", va="bottom", fontsize=6, wrap=True)
-    fig.tight_layout(rect=(0, 0.04, 1, 1))
+    fixed_margins(fig, left=0.75, bottom=0.75, top=0.6, gap=0.6, rows=2, cols=2)
     save_png(fig, path)
 
 
