@@ -93,6 +93,14 @@ def _title(result, what):
     return f"{t}: {what}"
 
 
+def _finish(fig, result, what, path, **margins):
+    """Title, margins (:func:`fixed_margins`) and the caution footer of a run picture; then write it."""
+    fig.suptitle(_title(result, what), fontsize=10, color=LOOK["ink"])
+    fixed_margins(fig, **margins)
+    _footer(fig)
+    save_png(fig, path)
+
+
 def _footer(fig):
     fig.text(0.99, 0.005, CAUTION, fontsize=6.5, color=LOOK["muted"], ha="right", va="bottom")
 
@@ -121,10 +129,7 @@ def plot_histories(result, path):
             ax.axhline(1.0, color=LOOK["muted"], lw=0.7, ls=":")
         ax.set_ylabel(label, fontsize=8, color=LOOK["ink"])
     axes[-1].set_xlabel("time t (s)", fontsize=9)
-    fig.suptitle(_title(result, "histories"), fontsize=10, color=LOOK["ink"])
-    fixed_margins(fig, left=1.0, bottom=0.65, gap=0.18, rows=len(rows))
-    _footer(fig)
-    save_png(fig, path)
+    _finish(fig, result, "histories", path, left=1.0, bottom=0.65, gap=0.18, rows=len(rows))
 
 
 def plot_lift_loop(result, path):
@@ -152,10 +157,7 @@ def plot_lift_loop(result, path):
     ax.set_xlabel("pitch angle (deg)", fontsize=9)
     ax.set_ylabel("lift coefficient cl", fontsize=9)
     ax.legend(fontsize=7, frameon=False, loc="best")
-    fig.suptitle(_title(result, "lift against pitch"), fontsize=10, color=LOOK["ink"])
-    fixed_margins(fig, left=0.75)
-    _footer(fig)
-    save_png(fig, path)
+    _finish(fig, result, "lift against pitch", path, left=0.75)
 
 
 def _outline(result, alpha, h, x_shift=0.0):
@@ -191,10 +193,7 @@ def plot_wake(result, path, k=-1):
     ax.legend(handles=handles, fontsize=7, frameon=False, loc="upper right", ncol=2,
               title="wake vortices (dot size: strength)", title_fontsize=7)
     t = float(s["t"][k])
-    fig.suptitle(_title(result, f"wake at t = {t:.4g} s ({b - a} vortices)"), fontsize=10, color=LOOK["ink"])
-    fixed_margins(fig, left=0.75)
-    _footer(fig)
-    save_png(fig, path)
+    _finish(fig, result, f"wake at t = {t:.4g} s ({b - a} vortices)", path, left=0.75)
     return True
 
 
@@ -236,10 +235,7 @@ def plot_pressure_jump(result, path):
     ax.set_xlabel("position along the chord x/c (leading edge 0, trailing edge 1)", fontsize=9)
     ax.set_ylabel("pressure-jump coefficient\n(lower minus upper surface)", fontsize=9)
     ax.legend(fontsize=7, frameon=False, loc="best")
-    fig.suptitle(_title(result, "load along the chord"), fontsize=10, color=LOOK["ink"])
-    fixed_margins(fig, left=0.9)
-    _footer(fig)
-    save_png(fig, path)
+    _finish(fig, result, "load along the chord", path, left=0.9)
     return True
 
 
