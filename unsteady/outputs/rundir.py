@@ -173,14 +173,14 @@ def check_out_dir(out_dir):
 
 
 def history_csv(history) -> str:
-    """The history as CSV text: a header of column names, one row per step."""
+    """The history as CSV text: a header of column names, one row per step, numbers as ``%.10g``."""
     names = list(history)
     buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(names)
-    cols = [np.asarray(history[k], dtype=float) for k in names]
-    for row in zip(*cols):
-        w.writerow([f"{v:.10g}" for v in row])
+    csv.writer(buf, lineterminator="\n").writerow(names)
+    if names:
+        rows = np.column_stack([np.asarray(history[k], dtype=float) for k in names]).tolist()
+        line = ",".join(["%.10g"] * len(names)) + "\n"
+        buf.write("".join(line % tuple(r) for r in rows))
     return buf.getvalue()
 
 
