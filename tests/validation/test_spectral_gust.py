@@ -14,6 +14,7 @@ import pytest
 
 import unsteady
 from unsteady import theory
+from unsteady.theory import spectral_gust as sg
 
 C, U, RHO, MASS, AREA = 0.25, 15.0, 1.2, 3.0, 0.55     # a small drone of our own
 M_SPAN = MASS / (AREA / C)
@@ -39,7 +40,7 @@ def test_heave_response_to_a_sine_gust_matches_the_transfer_function(model, k, t
     w = 2 * math.pi / period
     A = np.c_[np.cos(w * t[sel]), np.sin(w * t[sel]), np.ones(sel.sum())]
     a, b, _ = np.linalg.lstsq(A, n[sel], rcond=None)[0]
-    H = theory.heave_load_factor_response(2 * math.pi / wavelength, speed=U, chord=C, density=RHO,
+    H = sg.heave_load_factor_response(2 * math.pi / wavelength, speed=U, chord=C, density=RHO,
                                           mass_per_span=M_SPAN)
     assert math.hypot(a, b) / 0.5 == pytest.approx(abs(H), rel=tol)
 
@@ -47,10 +48,10 @@ def test_heave_response_to_a_sine_gust_matches_the_transfer_function(model, k, t
 def test_transfer_function_limits():
     # slow gusts: the aircraft rides with the air (dn -> 0); fast: the apparent-mass-loaded
     # lift of Sears' function over the total mass (common practice for the limits)
-    H0 = theory.heave_load_factor_response(1e-6, speed=U, chord=C, density=RHO, mass_per_span=M_SPAN)
+    H0 = sg.heave_load_factor_response(1e-6, speed=U, chord=C, density=RHO, mass_per_span=M_SPAN)
     assert abs(H0) < 1e-4
     W = 1e4
-    Hinf = theory.heave_load_factor_response(W, speed=U, chord=C, density=RHO, mass_per_span=M_SPAN)
+    Hinf = sg.heave_load_factor_response(W, speed=U, chord=C, density=RHO, mass_per_span=M_SPAN)
     b = C / 2
     ref = 2 * math.pi * RHO * U * b * theory.sears(W * b) / (9.80665 * (M_SPAN + math.pi * RHO * b * b))
     assert abs(Hinf - ref) < 1e-3 * abs(ref)
@@ -65,7 +66,7 @@ def test_long_dryden_record_statistics_match_the_power_spectral_method():
     sel = t > 20 * L / U                               # start-up left out: 20 scale lengths flown
     x = n[sel] - n[sel].mean()
     span = t[sel][-1] - t[sel][0]
-    st = theory.heave_gust_statistics(lambda W: theory.dryden_spectrum(W, sig, L), sig, speed=U, chord=C,
+    st = sg.heave_gust_statistics(lambda W: theory.dryden_spectrum(W, sig, L), sig, speed=U, chord=C,
                                       density=RHO, mass_per_span=M_SPAN, omega_max=math.pi / sc.dt)
     assert x.std() == pytest.approx(st["sigma_n"], rel=0.05)
     assert st["A_bar"] == pytest.approx(st["sigma_n"] / sig, rel=1e-12)
@@ -74,4 +75,4 @@ def test_long_dryden_record_statistics_match_the_power_spectral_method():
     for y in (1.0, 2.0):                               # Rice's exceedances, within the record's scatter
         lev = y * x.std()
         count = np.sum((x[:-1] < lev) & (x[1:] >= lev)) / span
-        assert count == pytest.approx(theory.rice_exceedance_rate(lev, up, x.std()), rel=0.25)
+        assert count == pytest.approx(sg.rice_exceedance_rate(lev, up, x.std()), rel=0.25)

@@ -38,13 +38,12 @@ def elliptic_root_bending(lift_N, span):
 
 def add_dimensional_loads(history, sc):
     """Add ``lift_N``, ``cl_wing`` (kappa != 1) and ``root_bending_Nm`` (with span) to a history
-    with ``n``; returns the summary entries (``lift_max_N``, ``root_bending_max_Nm``, ``t_n_min``)."""
+    with ``n``; returns the summary entries (``lift_max_N``, ``root_bending_max_Nm``)."""
     from ..inputs.aircraft import lift_scale
     ac = sc.data.get("aircraft")
     if not ac or "n" not in history:
         return {}
     n = np.asarray(history["n"], dtype=float)
-    t = np.asarray(history["t"], dtype=float)
     history["lift_N"] = n * ac["mass"] * G
     kappa = lift_scale(ac.get("aspect_ratio"))
     if kappa != 1.0:
@@ -53,7 +52,6 @@ def add_dimensional_loads(history, sc):
     ok = np.isfinite(n)
     if ok.any():
         out["lift_max_N"] = float(np.nanmax(history["lift_N"]))
-        out["t_n_min"] = float(t[int(np.nanargmin(n))])
     if "span" in ac:
         history["root_bending_Nm"] = elliptic_root_bending(history["lift_N"], ac["span"])
         if ok.any():

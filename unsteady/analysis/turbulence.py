@@ -11,7 +11,7 @@ From a history with the load factor ``n`` (a run with ``[aircraft]`` and a
   (S. O. Rice, Bell Syst. Tech. J. 23-24, 1944-45);
 - the one-sided power spectrum of n (Welch's method, scipy.signal.welch);
 - beside them, the power-spectral method for the section free to heave
-  (:func:`unsteady.theory.heave_gust_statistics`; J. C. Houbolt, R. Steiner &
+  (:func:`unsteady.theory.spectral_gust.heave_gust_statistics`; J. C. Houbolt, R. Steiner &
   K. G. Pratt, NASA TR R-199, 1964), integrated to the record's Nyquist
   frequency, for a single vertical turbulence gust.
 
@@ -102,13 +102,14 @@ def power_spectral_method(sc, omega_max):
     """The power-spectral statistics for the scenario's section free to heave (or None)."""
     from .. import theory
     from ..inputs.aircraft import lift_scale
+    from ..theory.spectral_gust import heave_gust_statistics
     g = turbulence_gust(sc)
     if g is None or "aircraft" not in sc.data:
         return None
     ac = sc.data["aircraft"]
     spectrum = {"dryden": theory.dryden_spectrum, "von-karman": theory.von_karman_spectrum}[g["spectrum"]]
     sig, L = g["intensity"], g["scale_length"]
-    return theory.heave_gust_statistics(
+    return heave_gust_statistics(
         lambda W: spectrum(W, sig, L), sig, speed=sc.speed, chord=sc.chord, density=sc.density,
         mass_per_span=ac["mass"] / (ac["wing_area"] / sc.chord), lift_scale=lift_scale(ac.get("aspect_ratio")),
         omega_max=omega_max)

@@ -141,6 +141,11 @@ class Law:
         out.update({k: v for k, v in self.spec.items() if v is not None})
         return out
 
+    def singular_times(self):
+        """Times (s) at which the law changes instantly: its value or its rate jumps, so its
+        acceleration is a delta function (an impulse of the apparent-mass force).  None by default."""
+        return []
+
     def _value(self, t):
         raise NotImplementedError
 
@@ -183,6 +188,9 @@ class Step(Law):
 
     KEYS = ("value", "time")
     SCALED = ("value",)
+
+    def singular_times(self):
+        return [float(self.spec["time"])] if self.scaled["value"] != 0.0 else []
 
     def _value(self, t):
         return np.where(t >= float(self.spec["time"]), self.scaled["value"], 0.0)
@@ -249,6 +257,10 @@ class Ramp(Law):
         self.D = float(self.spec["duration"])
         self.t1 = self.t0 + self.D
         self.sigma = float(self.spec["smoothing"])
+
+    def singular_times(self):
+        """The two corners, when they are sharp (smoothing 0) and the ramp moves."""
+        return [self.t0, self.t1] if self.sigma == 0.0 and self.q1 != self.q0 else []
 
     def _value(self, t):
         f = np.clip(t - self.t0, 0.0, self.D) / self.D  # the sharp ramp, 0..1
@@ -377,6 +389,14 @@ class Table(Law):
                                                 0, slopes.size - 1)]
             self._d2 = lambda x: np.zeros(np.shape(x))
 
+    def singular_times(self):
+        """Linear interpolation: every point where the slope changes (and the ends, where it
+        stops); the monotone cubic has a continuous rate."""
+        if self.spec.get("interpolation", "monotone") == "monotone":
+            return []
+        slopes = np.r_[0.0, np.diff(self._q) / np.diff(self._t), 0.0]
+        return [float(ti) for ti, a, b in zip(self._t, slopes[:-1], slopes[1:]) if a != b]
+
     def _inside(self, t):
         return (t >= self.t_first) & (t <= self.t_last)
 
@@ -462,6 +482,9 @@ class SumLaw(Law):
     def resolved(self):
         """The list of law tables, defaults filled in."""
         return [law.resolved() for law in self.laws]
+
+    def singular_times(self):
+        return sorted({ti for law in self.laws for ti in law.singular_times()})
 
     def _value(self, t):
         return sum((law._value(t) for law in self.laws), np.zeros_like(t))
@@ -641,6 +664,10 @@ class Kinematics:
     def state(self, t):
         """(alpha, alpha_dot, h, h_dot) at time(s) t: rad, rad/s, m, m/s."""
         return self.pitch.value(t), self.pitch.rate(t), self.plunge.value(t), self.plunge.rate(t)
+
+    def singular_times(self):
+        """Times (s) at which pitch or plunge changes instantly (see :meth:`Law.singular_times`)."""
+        return sorted(set(self.pitch.singular_times()) | set(self.plunge.singular_times()))
 
     def accel(self, t):
         """(alpha_ddot, h_ddot) at time(s) t: rad/s^2, m/s^2."""

@@ -901,7 +901,3 @@ def naca4_slope(m, p, x):
         dz = np.where(x < p, 2.0 * m / p**2 * (p - x), 2.0 * m / (1.0 - p) ** 2 * (p - x))
     return float(dz) if dz.ndim == 0 else dz
 
-
-# Power-spectral gust loads of a section free to heave (continuous turbulence).
-from .spectral_gust import (heave_gust_statistics, heave_load_factor_response,  # noqa: E402,F401
-                            rice_exceedance_rate)

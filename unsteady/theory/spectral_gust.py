@@ -41,6 +41,8 @@ import math
 import numpy as np
 from scipy import integrate
 
+from . import sears, theodorsen
+
 #: Standard acceleration of gravity, m/s^2 (U.S. Standard Atmosphere 1976).
 G = 9.80665
 
@@ -65,7 +67,6 @@ def heave_load_factor_response(Omega, *, speed, chord, density, mass_per_span, l
     complex or numpy.ndarray of complex
         H_n, 1/(m/s).
     """
-    from . import sears, theodorsen
     Om = np.asarray(Omega, dtype=float)
     U, b, rho, m, kap = float(speed), 0.5 * float(chord), float(density), float(mass_per_span), float(lift_scale)
     omega = U * Om
