@@ -1,4 +1,4 @@
-"""Tests of unsteady.aircraft: trim, free heave, load factor, aspect-ratio scaling and the [aircraft] check."""
+"""Tests of unsteady.dynamics.heave: trim, free heave, load factor, aspect-ratio scaling and the [aircraft] check."""
 
 import math
 

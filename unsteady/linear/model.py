@@ -336,12 +336,12 @@ class LinearMarcher:
         values, m/s); used instead of ``w_le``/``u_le`` when given.
     s_max : float, optional
         Window of the direct Duhamel sums of the compiled march, semichords
-        (default :data:`unsteady.linear_kernels.S_MAX_DEFAULT`); older
+        (default :data:`unsteady.linear.kernels.S_MAX_DEFAULT`); older
         inputs are carried by the exponential-sum tail (``tail=True``) or
-        forgotten (``tail=False``).  See :mod:`unsteady.linear_kernels`.
+        forgotten (``tail=False``).  See :mod:`unsteady.linear.kernels`.
     compiled : bool
         Use the compiled march when the motion offers it (a
-        :class:`~unsteady.aircraft.HeaveMotion`: ``pitch``,
+        :class:`~unsteady.dynamics.heave.HeaveMotion`: ``pitch``,
         ``heave_constants``, ``take_rows``) and ``accel`` is given; else the
         step-by-step Python march, which also serves any other motion object.
     """
@@ -438,7 +438,7 @@ class LinearMarcher:
         return H
 
     def _run_compiled(self):
-        """The march of :meth:`run` in :func:`unsteady.linear_kernels.march_heave` (free heave)."""
+        """The march of :meth:`run` in :func:`unsteady.linear.kernels.march_heave` (free heave)."""
         from .kernels import march_heave, memory_tail
         N, dt = self.N, self.dt
         t = np.arange(N) * dt
