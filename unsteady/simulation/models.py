@@ -321,8 +321,10 @@ class LinearModel(Model):
         load factors compare on the same aircraft (and the linear histories
         stay those of earlier versions).  The linear model's own steady lift,
         2 pi (alpha - alpha_L0) plus the pitch-rate terms, differs from it by
-        the lumped-vortex discretisation: a few 1e-4 of cl with the bundled
-        element counts, so the linear run starts about that far from n = 1.
+        the lumped-vortex discretisation, so the linear run does not start
+        exactly level: n = 1.0002 to 1.0007 at t = 0 in the bundled drone
+        scenarios (measured; trimmed on its own lift instead, the trim moves
+        by under 0.004 degrees and n_max by about 1e-4).
         """
         if self._trim_model is None:
             self._trim_model = VortexModel(self.sc, None, None)
