@@ -60,7 +60,6 @@ __all__ = [
     "turbulence_samples",
     "GustField",
     "build_gust_field",
-    "GustObserver",
     "check_gust_section",
     "EFFECTIVE_ANGLE_LIMIT_DEG",
 ]
@@ -492,61 +491,6 @@ def build_gust_field(sc):
     ctx["_base_dir"] = sc.base_dir
     profiles = [PROFILES[g["profile"]](g, ctx) for g in _gust_list(sc.data["gust"])]
     return GustField(profiles, sc.speed, -sc.pivot * sc.chord)
-
-
-class GustObserver:
-    """Records the gust at the leading edge (columns ``w_gust``, ``u_gust``) and the effective angle.
-
-    The effective angle of attack at the leading edge is alpha + atan(w / (U
-    + u)) less the plunge-rate angle atan(h_dot / U) (small-angle reading of
-    the classical quasi-steady angle; common practice).
-    """
-
-    columns = ["w_gust", "u_gust", "alpha_eff_deg"]
-
-    def __init__(self, gust, sc):
-        self.gust = gust
-        self.chord = sc.chord
-        self.pivot = sc.pivot
-        self.U = sc.speed
-        self.profiles = [g["profile"] for g in _gust_list(sc.data["gust"])]
-        self.rows = {k: [] for k in self.columns}
-
-    def on_step(self, s):
-        x_le = -self.pivot * self.chord * math.cos(s.alpha)
-        u, w = self.gust.velocity(np.array([x_le]), np.array([s.h]), s.t)
-        u, w = float(u[0]), float(w[0])
-        self.rows["w_gust"].append(w)
-        self.rows["u_gust"].append(u)
-        self.rows["alpha_eff_deg"].append(math.degrees(s.alpha + math.atan2(w - s.h_dot, self.U + u)))
-
-    def record_rows(self, t, alpha, h, h_dot):
-        """:meth:`on_step` for many rows at once (arrays of t (s), alpha (rad), h (m), h_dot (m/s))."""
-        t = np.asarray(t, dtype=float)
-        alpha = np.asarray(alpha, dtype=float)
-        x_le = -self.pivot * self.chord * np.cos(alpha)
-        u, w = self.gust.velocity(x_le, np.broadcast_to(h, t.shape), t)  # xi is elementwise in t
-        self.rows["w_gust"].extend(np.asarray(w, dtype=float).tolist())
-        self.rows["u_gust"].extend(np.asarray(u, dtype=float).tolist())
-        self.rows["alpha_eff_deg"].extend(np.degrees(alpha + np.arctan2(w - h_dot, self.U + u)).tolist())
-
-    def finish(self, history):
-        """Fill the columns of the recorded rows."""
-        n = len(history["t"])
-        for k, v in self.rows.items():
-            history[k] = np.asarray(v[:n], dtype=float)
-
-    def summary(self, history):
-        out = {"gust_profiles": self.profiles}
-        for k in ("w_gust", "u_gust"):
-            v = history.get(k)
-            if v is not None and len(v):
-                out[f"{k}_max"] = float(np.nanmax(v))
-                out[f"{k}_min"] = float(np.nanmin(v))
-        a = history.get("alpha_eff_deg")
-        if a is not None and len(a):
-            out["alpha_eff_max_deg"] = float(np.nanmax(np.abs(a)))
-        return out
 
 
 # ---------------------------------------------------------------------------
