@@ -1,4 +1,4 @@
-"""Tests of unsteady.aircraft: trim, free heave, load factor, aspect-ratio scaling and the [aircraft] check."""
+"""Tests of unsteady.dynamics.heave: trim, free heave, load factor, aspect-ratio scaling and the [aircraft] check."""
 
 import math
 
@@ -101,3 +101,23 @@ def test_heavy_wing_loading_warns():
     sc = unsteady.load_scenario({"flow": {"speed": 15.0, "density": 1.2}, "airfoil": {"chord": 0.25},
                                  "run": {"chords": 2}, "aircraft": {"mass": 9.0, "wing_area": 0.55}})
     assert any(w.startswith("warning: <dict>: aircraft.mass:") for w in sc.warnings)
+
+
+def test_heave_step_integrates_a_linear_acceleration_exactly():
+    # Second-order Adams-Bashforth is exact for a rate whose derivative is
+    # linear in time (each step then uses the mid-step value), the trapezoidal
+    # rule for a height whose rate is linear (common practice of multistep
+    # integration); only the first, Euler step is off, by k dt^2 / 2 in the rate.
+    from unsteady.linear.kernels import heave_step
+    n_per_cl, dt, c0, c1 = 1.7, 0.01, 0.8, 3.0          # cl = c0 + c1 t, so h'' = g (n_per_cl cl - 1)
+    k = aircraft.G * n_per_cl * c1                       # d h'' / dt
+    for step in (heave_step, heave_step.py_func):
+        h = h_dot = a_prev = 0.0
+        for i in range(50):
+            t = i * dt
+            n, acc, h, h_dot = step(c0 + c1 * t, h, h_dot, a_prev, i == 0, dt, n_per_cl, aircraft.G)
+            a_prev = acc
+            assert acc == pytest.approx(aircraft.G * (n_per_cl * (c0 + c1 * t) - 1.0), rel=1e-14)
+        t = 50 * dt
+        a0 = aircraft.G * (n_per_cl * c0 - 1.0)
+        assert h_dot == pytest.approx(a0 * t + 0.5 * k * t**2 - 0.5 * k * dt**2, rel=1e-12)

@@ -124,7 +124,7 @@ def test_bad_model_name_is_an_input_error():
 
 
 def test_free_heave_in_a_gust_matches_the_vortex_model():
-    # Both models drive the same heave model (unsteady.aircraft); in a gentle
+    # Both models drive the same heave model (unsteady.dynamics.heave); in a gentle
     # 1-cosine gust the vortex model is in its linear limit, so the load
     # factors must agree (common practice). Measured: n_max 2.3148 (linear)
     # against 2.3144 (vortex) over 40 chords; here 20 chords, 20 elements.

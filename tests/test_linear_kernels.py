@@ -1,4 +1,4 @@
-"""The compiled free-heave march of the linear model (unsteady.linear_kernels) against the Python march."""
+"""The compiled free-heave march of the linear model (unsteady.linear.kernels) against the Python march."""
 
 import numpy as np
 import pytest
@@ -39,7 +39,12 @@ def _march(sc, **options):
 def test_compiled_march_equals_python_march(start):
     # The Python march of LinearMarcher (one row at a time through
     # HeaveMotion.after_step) is the oracle: with a window of the whole run
-    # the compiled march must repeat it to round-off (common practice).
+    # the compiled march must repeat it to round-off (common practice).  Both
+    # take the apparent-mass terms and the heave step from their one copy
+    # (theory.apparent_mass, kernels.heave_step: checked on their own in
+    # tests/validation/test_linear_classical.py and tests/test_aircraft.py);
+    # what this compares is the rest: the windowed Duhamel sums, the order of
+    # the row's steps, the backward difference of h', the load sums.
     sc = _scenario(start)
     ref = _march(sc, compiled=False)
     fast = _march(sc, s_max=1e9)

@@ -340,3 +340,27 @@ def test_missing_motion_is_zero():
     with pytest.raises(InputError) as err:
         Kinematics(float("nan"))
     assert err.value.key == "pivot"
+
+
+@pytest.mark.parametrize("interp", ["monotone", "linear"])
+def test_table_law_does_not_overshoot_a_step_in_the_data(tmp_path, interp):
+    # 0, 0, 10, 10 degrees: a not-a-knot cubic spline gave 11.2 and -3.0; a
+    # shape-preserving interpolant (Fritsch & Carlson 1980) stays within the data
+    f = tmp_path / "pitch.csv"
+    f.write_text("t,value\n0,0\n1,0\n2,10\n3,10\n")
+    law = build_law({"law": "table", "file": str(f), "interpolation": interp}, scale=1.0)
+    t = np.linspace(-0.5, 3.5, 4001)
+    q = law.value(t)
+    assert q.min() >= -1e-12 and q.max() <= 10 + 1e-12
+    assert law.value(1.5) == pytest.approx(5.0)
+    # the rate is the interpolant's own derivative (central differences away from the points)
+    tt = np.array([0.3, 1.25, 1.7, 2.4])
+    fd = (law.value(tt + 1e-6) - law.value(tt - 1e-6)) / 2e-6
+    assert np.allclose(law.rate(tt), fd, atol=1e-5)
+
+
+def test_table_law_refuses_an_unknown_interpolation(tmp_path):
+    f = tmp_path / "pitch.csv"
+    f.write_text("t,value\n0,0\n1,1\n")
+    problems = law_problems({"law": "table", "file": str(f), "interpolation": "cubic"})
+    assert [p.key for p in problems] == ["interpolation"] and "monotone" in problems[0].message

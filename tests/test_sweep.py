@@ -133,7 +133,7 @@ run.wake = "rolling"
     assert cli.main(["check", str(p)]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 2
-    assert err[0].startswith(f"error: {p}: sweep[too-slow].flow.speed: must be > 0")
+    assert err[0].startswith(f"error: {p}: sweep[too-slow].flow.speed: must be >= 0.01 and <= 340 m/s")
     assert err[1].startswith(f"error: {p}: sweep[odd-wake].run.wake: must be one of")
     # a good sweep checks
     assert cli.main(["check", str(write(tmp_path, SIX.format(chords=4), "ok.toml"))]) == 0
@@ -237,7 +237,7 @@ def test_local_cluster_matches_one_by_one_and_resumes(tmp_path):
             assert r[k] == want[r["name"]][k], (r["name"], k)     # bit for bit
     # the case with a bad value fails alone, with its message
     assert rows[6]["name"] == "bad" and rows[6]["status"] == "failed"
-    assert "flow.speed: must be > 0" in rows[6]["message"]
+    assert "flow.speed: must be >= 0.01" in rows[6]["message"]
     assert (out / "envelope.png").stat().st_size > 1000
     # each case's own run directory, as `unsteady run` writes it
     import json

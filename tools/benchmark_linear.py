@@ -5,8 +5,9 @@
 1. Prescribed motion (pitch-step, pitch-up, flapping-plate, perching), CHORDS
    chords per run (default 10).
 2. Free heave in a 1-cosine gust (scenarios/drone-gust-1cos.toml as it
-   stands): vortex model, the linear model's compiled march and its Python
-   march (the oracle of tests/test_linear_kernels.py).
+   stands): vortex model, the linear model's compiled march, the same run
+   with one user observer (the runner then steps it through every row), and
+   the Python march (the oracle of tests/test_linear_kernels.py).
 3. A long turbulence run with free heave (scenarios/drone-turbulence.toml,
    60 s of flight, 3,600 chords; 10 s with --quick): both models, and the
    effect of the linear model's Duhamel window on the peak load factors
@@ -81,11 +82,22 @@ def heave_case(label, path, overrides, python_march=True):
     print(f"  vortex model           {tv:10.3f} s   n_max {rv.summary['n_max']:.5f}  n_min {rv.summary['n_min']:.5f}")
     print(f"  linear, compiled march {tl:10.4f} s   n_max {rl.summary['n_max']:.5f}  n_min {rl.summary['n_min']:.5f}"
           f"   speed-up {tv / tl:.0f}x")
+    to, _ = timed(lambda: simulate(sc_l, [_CountRows()]), 3)
+    print(f"  linear, one observer   {to:10.4f} s   (on_step for each of {sc_l.steps + 1} rows)")
     if python_march:
         tp, _ = timed(lambda: simulate_python_march(sc_l))
         print(f"  linear, Python march   {tp:10.4f} s   (speed-up {tv / tp:.0f}x; the compiled march is "
               f"{tp / tl:.0f}x faster)")
     return sc_l
+
+
+class _CountRows:
+    """A user observer that only counts the rows it sees."""
+
+    rows = 0
+
+    def on_step(self, state):
+        self.rows += 1
 
 
 def simulate_python_march(sc):

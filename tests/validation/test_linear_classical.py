@@ -156,3 +156,28 @@ def test_vortex_departs_from_linear_on_a_large_ramp():
     # end). A change beyond +-0.5 points flags a regression in either model.
     d = _ramp_runs(30.0, "free")
     assert d == pytest.approx(0.0457, abs=0.005)
+
+
+@pytest.mark.parametrize("a", [-0.5, 0.0, 0.4])
+def test_apparent_mass_is_the_flat_plate_added_mass(a):
+    # The one copy of Theodorsen's non-circulatory terms (theory.apparent_mass,
+    # used by the linear model's sums and its compiled march), without the
+    # stream terms: a flat plate of chord 2b accelerated in fluid at rest has
+    # the added mass pi rho b^2 per span in normal motion and the added moment
+    # of inertia pi rho b^4 / 8 about its mid-chord (J. N. Newman, Marine
+    # Hydrodynamics, 1977, sec. 4.13; from memory). About a pitch axis a b aft
+    # of mid-chord the mid-chord accelerates by h'' + a b alpha'' (h up) and
+    # its reaction acts a b ahead of the axis (rigid-body statics, common practice).
+    rho, b, U = 1.2, 0.3, 10.0
+    rng = np.random.default_rng(7)
+    h_ddot, alpha_ddot = rng.normal(size=(2, 5)) * [[4.0], [30.0]]
+    F_mid = -np.pi * rho * b**2 * (h_ddot + a * b * alpha_ddot)       # up
+    M_axis = -np.pi * rho * b**4 / 8 * alpha_ddot + F_mid * a * b       # nose-up
+    cl_nc, M_nc = theory.apparent_mass(-b * h_ddot / U**2, 0.0, b**2 * alpha_ddot / U**2, a)
+    assert cl_nc * rho * U**2 * b == pytest.approx(F_mid, rel=1e-12)
+    assert M_nc * rho * U**2 * b**2 == pytest.approx(M_axis, rel=1e-12)
+    # the compiled twin of the march gives the same numbers
+    from unsteady.linear.kernels import _apparent_mass
+    for i in range(5):
+        assert _apparent_mass(-b * h_ddot[i] / U**2, 0.0, b**2 * alpha_ddot[i] / U**2, a) == \
+            pytest.approx((cl_nc[i], M_nc[i]), rel=1e-13)

@@ -1,1 +1,1 @@
-"""analysis."""
+"""What a history means: the summary's headline numbers and the lift-lag metrics."""

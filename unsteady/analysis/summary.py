@@ -1,4 +1,14 @@
-"""The headline numbers of a history (summary.json)."""
+"""The headline numbers of a history (summary.json).
+
+Headline peaks describe the flow, never a numerical transient.  Where a motion
+law changes instantly (a ``step``, a ``ramp`` with sharp corners, the points of
+a linearly interpolated ``table``), the acceleration is a delta function and
+the apparent-mass force an impulse: its peak grows as 1/dt while its time
+integral stays finite.  The rows within a few steps of such an instant are
+therefore left out of the peaks, and the impulse is reported on its own, as
+the time integrals of cl and cm above the level the flow has on either side
+(``impulses``), which converge as the step shrinks.
+"""
 
 from __future__ import annotations
 
@@ -7,26 +17,90 @@ import numpy as np
 from ..core.cautions import MODEL_CAUTION
 from ..core.version import __version__
 
+#: Rows with T - 0.5 dt < t < T + 2.5 dt of an instantaneous change at T are left out of
+#: the peaks: the vortex model's pressure route carries the impulse on the first two rows
+#: at or after T (a second-order backward difference of the potential jump).
+IMPULSE_WINDOW = (0.5, 2.5)
 
-def make_summary(history, *, steps, wall_time_s, extra=None):
-    """Headline numbers of a history (keys as in the public interface)."""
-    cl = history["cl"]
-    cm = history["cm"]
-    t = history["t"]
-    ok = np.isfinite(cl)
+
+def impulse_mask(t, times, dt):
+    """True on the rows inside the window of any of ``times`` (see :data:`IMPULSE_WINDOW`)."""
+    t = np.asarray(t, dtype=float)
+    out = np.zeros(t.shape, dtype=bool)
+    lo, hi = IMPULSE_WINDOW
+    for T in times:
+        out |= (t > T - lo * dt) & (t < T + hi * dt)
+    return out
+
+
+def apparent_mass_impulses(history, times, dt):
+    """Per instant T: ``t_s``, and the integrals (s) of cl and cm above the straight line
+    joining the rows on either side of its window (``cl_impulse_s``, ``cm_impulse_s``)."""
+    t = np.asarray(history["t"], dtype=float)
+    out = []
+    for T in times:
+        idx = np.nonzero(impulse_mask(t, [T], dt))[0]
+        if idx.size == 0 or idx[0] == 0 or idx[-1] + 1 >= t.size:
+            continue
+        a, b = idx[0] - 1, idx[-1] + 1
+        row = {"t_s": float(T)}
+        for k in ("cl", "cm"):
+            y = np.asarray(history[k], dtype=float)
+            base = np.interp(t[idx], [t[a], t[b]], [y[a], y[b]])
+            row[f"{k}_impulse_s"] = float(np.sum(y[idx] - base) * dt)
+        out.append(row)
+    return out
+
+
+def _peaks(s, name, y, t, keep):
+    """``<name>_max``, ``t_<name>_max``, ``<name>_min``, ``t_<name>_min`` over the kept rows."""
+    ok = keep & np.isfinite(y)
+    if not ok.any():
+        return
+    i = np.nonzero(ok)[0]
+    i_max, i_min = i[int(np.argmax(y[ok]))], i[int(np.argmin(y[ok]))]
+    s.update({f"{name}_max": float(y[i_max]), f"t_{name}_max": float(t[i_max]),
+              f"{name}_min": float(y[i_min]), f"t_{name}_min": float(t[i_min])})
+
+
+def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None):
+    """Headline numbers of a history (keys as in the public interface).
+
+    Parameters
+    ----------
+    history : dict of ndarray
+    steps : int
+    wall_time_s : float
+    extra : dict, optional
+        Merged in last.
+    impulse_times : sequence of float
+        Instants (s) at which the motion changes instantly
+        (:meth:`unsteady.inputs.motion.Kinematics.singular_times`); needs ``dt``.
+    dt : float, optional
+        Time step (s).
+    """
+    cl = np.asarray(history["cl"], dtype=float)
+    t = np.asarray(history["t"], dtype=float)
+    keep = np.ones(t.shape, dtype=bool)
+    times = [T for T in impulse_times if t.size and t[0] <= T <= t[-1]] if dt else []
+    if times:
+        keep = ~impulse_mask(t, times, dt)
     s = {"version": __version__, "steps": int(steps), "wall_time_s": float(wall_time_s)}
+    _peaks(s, "cl", cl, t, keep)
+    cm = np.asarray(history["cm"], dtype=float)
+    ok = keep & np.isfinite(cm)
     if ok.any():
-        i_max = int(np.nanargmax(cl))
-        i_min = int(np.nanargmin(cl))
-        s.update(cl_max=float(cl[i_max]), t_cl_max=float(t[i_max]),
-                 cl_min=float(cl[i_min]), t_cl_min=float(t[i_min]),
-                 cm_max=float(np.nanmax(cm)), cm_min=float(np.nanmin(cm)),
-                 cd_mean=float(np.nanmean(history["cd"])),
-                 cl_final=float(cl[ok][-1]))
+        s.update(cm_max=float(cm[ok].max()), cm_min=float(cm[ok].min()),
+                 cd_mean=float(np.nanmean(history["cd"])), cl_final=float(cl[np.isfinite(cl)][-1]))
     if "n" in history and np.isfinite(history["n"]).any():
-        n = history["n"]
-        j = int(np.nanargmax(n))
-        s.update(n_max=float(n[j]), t_n_max=float(t[j]), n_min=float(np.nanmin(n)))
+        n = np.asarray(history["n"], dtype=float)
+        _peaks(s, "n", n, t, keep)
+    if times:
+        s["impulses"] = apparent_mass_impulses(history, times, dt)
+        s["impulses_note"] = ("the motion changes instantly at these times (a step or a sharp corner): "
+                              "the apparent-mass force is an impulse there, given as the time integrals "
+                              "of cl and cm (s); the peaks above leave out the rows within "
+                              f"{IMPULSE_WINDOW[0]:g} step before to {IMPULSE_WINDOW[1]:g} steps after")
     s["caution"] = MODEL_CAUTION
     if extra:
         s.update(extra)

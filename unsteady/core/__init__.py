@@ -1,1 +1,1 @@
-"""core."""
+"""Bottom layer: error types, the name registry, the caution texts, the version."""

@@ -7,7 +7,7 @@ aeroplane, heave only, no pitch response)::
     m' h'' = L' - m' g,    L' = kappa cl q c,    n = L' / (m' g)
 
 with m' = mass / span the wing mass per span, span = wing_area / chord,
-q = rho U^2 / 2 and cl the section's lift coefficient from the vortex model
+q = rho U^2 / 2 and cl the section's lift coefficient from the run model
 (circulatory and apparent-mass parts alike).  Without ``aspect_ratio``,
 kappa = 1 (a 2-D section).  With it, kappa = a(A) / (2 pi), Helmbold's
 finite-wing lift slope (H. B. Helmbold, 1942, as used in the USAF DATCOM)
@@ -17,15 +17,18 @@ trailing-vortex downwash) are NOT modelled, and the ``cl`` column stays the
 section's.
 
 Level flight at the start: the attitude is trimmed so that the steady
-section lift in still air at t = 0 carries the weight, kappa cl q c = m' g.
+section lift in still air at t = 0 carries the weight, kappa cl q c = m' g
+(:meth:`HeaveMotion.trim`, on the steady lift the run model gives:
+:meth:`unsteady.simulation.models.Model.steady_cl`).
 The pitch law of ``[motion]`` (if any) is read as the change of attitude
 from that trimmed attitude; a prescribed plunge is not allowed (the heave is
 free).  The summary gives the trimmed attitude as ``alpha_trim_deg``.
 
-Integration: the solver calls :meth:`HeaveMotion.state` before the solve at
+Integration: the model calls :meth:`HeaveMotion.state` before the solve at
 each step and :meth:`HeaveMotion.after_step` after the loads; the heave rate
 advances by second-order Adams-Bashforth and the height by the trapezoidal
-rule.  The apparent mass of the section, pi rho c^2 / 4 per span, is a
+rule (:func:`unsteady.linear.kernels.heave_step`, shared with the compiled
+march of the linear model).  The apparent mass of the section, pi rho c^2 / 4 per span, is a
 fraction 1/(4 mu_g) of the wing mass (2-D); it enters explicitly, through
 the loads of the previous step, which is stable for the mass ratios of
 aircraft (mu_g of order 10 or more).
@@ -41,29 +44,15 @@ from .. import theory
 from ..core.cautions import GUST_CAUTION
 from ..core.errors import InputError
 from ..inputs.aircraft import G, lift_scale
+from ..linear.kernels import heave_step
 
 __all__ = ["HeaveMotion"]
 
-class _Fixed:
-    """A motion frozen at one attitude (for trimming)."""
-
-    def __init__(self, alpha, alpha_dot):
-        self.s = (alpha, alpha_dot, 0.0, 0.0)
-
-    def state(self, t):
-        return self.s
-
-    def after_step(self, t, dt, loads):
-        pass
-
-
-class _LastCl:
-    def on_step(self, s):
-        self.cl = s.loads["cl"]
-
-
 class HeaveMotion:
-    """Free heave of the aircraft under the section lift (the solver's motion AND an observer).
+    """Free heave of the aircraft under the section lift: a model's motion, and its columns and summary.
+
+    Build it, then :meth:`trim` it on the run model's steady lift before the
+    march; the runner calls :meth:`finish` and :meth:`summary` after it.
 
     Parameters
     ----------
@@ -96,10 +85,8 @@ class HeaveMotion:
         self.kappa = lift_scale(ac.get("aspect_ratio"))
         self.cl_level = self.W_span / (self.kappa * self.q * self.c)
         self.n_per_cl = self.kappa * self.q * self.c / self.W_span   # n = n_per_cl cl
-        t0 = 0.0
-        alpha0, alpha_dot0, _, _ = kinematics.state(t0)
-        self.alpha_offset = self._trim(alpha0, alpha_dot0) - alpha0
-        self.alpha_trim = alpha0 + self.alpha_offset
+        self.alpha_offset = None          # set by trim()
+        self.alpha_trim = None
         self.h = 0.0
         self.h_dot = 0.0
         self.a_prev = None
@@ -107,27 +94,41 @@ class HeaveMotion:
         self.a_rows = []
 
     # -- trim ---------------------------------------------------------------
-    def _steady_cl(self, body, alpha, alpha_dot):
-        from ..vortex.solver import VortexSolver
-        obs = _LastCl()
-        VortexSolver(body, _Fixed(alpha, alpha_dot), speed=self.sc.speed,
-                     density=self.sc.density, dt=self.sc.dt, steps=0, start="steady").run([obs])
-        return obs.cl
+    def trim(self, steady_cl):
+        """Trim for level flight: the attitude whose steady still-air cl equals ``cl_level``.
 
-    def _trim(self, alpha0, alpha_dot0):
-        """Attitude whose steady still-air cl equals cl_level (secant iteration on the vortex model)."""
-        from ..vortex.solver import build_body
-        body = build_body(self.sc)
-        a0 = alpha0
-        f0 = self._steady_cl(body, a0, alpha_dot0) - self.cl_level
+        Secant iteration on the model's own steady lift, started with the
+        thin-airfoil slope 2 pi; sets ``alpha_offset`` (added to the pitch law)
+        and ``alpha_trim``.  Call once, before the march.
+
+        Parameters
+        ----------
+        steady_cl : callable
+            ``steady_cl(alpha, alpha_dot) -> cl`` of the run model
+            (:meth:`unsteady.simulation.models.Model.steady_cl`).
+
+        Raises
+        ------
+        InputError
+            (key ``aircraft.mass``) when no attitude below 45 degrees carries the weight.
+        """
+        alpha0, alpha_dot0, _, _ = self.kin.state(0.0)
+        alpha = self._secant(lambda x: steady_cl(x, alpha_dot0) - self.cl_level, alpha0)
+        self.alpha_offset = alpha - alpha0
+        self.alpha_trim = alpha0 + self.alpha_offset
+        return self
+
+    def _secant(self, f, a0):
+        """Root of f near a0 (rad), checked to lie below 45 degrees."""
+        f0 = f(a0)
         a1 = a0 - f0 / (2.0 * math.pi)           # thin-airfoil slope for the first step
         for _ in range(20):
-            f1 = self._steady_cl(body, a1, alpha_dot0) - self.cl_level
+            f1 = f(a1)
             if abs(f1) < 1e-12 * max(1.0, self.cl_level) or f1 == f0:
                 break
             a0, a1, f0 = a1, a1 - f1 * (a1 - a0) / (f1 - f0), f1
         if not (math.isfinite(a1) and abs(a1) < math.radians(45.0)
-                and abs(self._steady_cl(body, a1, alpha_dot0) - self.cl_level) < 1e-6 * max(1.0, self.cl_level)):
+                and abs(f(a1)) < 1e-6 * max(1.0, self.cl_level)):
             raise InputError("aircraft.mass", f"no attitude below 45 degrees gives the level-flight lift "
                                               f"coefficient {self.cl_level:.3f}: raise flow.speed or "
                                               f"aircraft.wing_area, or lower aircraft.mass")
@@ -137,28 +138,31 @@ class HeaveMotion:
     def state(self, t):
         """(alpha, alpha_dot, h, h_dot) at time t: prescribed pitch + trim, free heave."""
         alpha, alpha_dot, _, _ = self.kin.state(t)
-        return alpha + self.alpha_offset, alpha_dot, self.h, self.h_dot
+        return alpha + self._offset(), alpha_dot, self.h, self.h_dot
+
+    def _offset(self):
+        if self.alpha_offset is None:
+            raise RuntimeError("HeaveMotion.trim(steady_cl) must run before the march")
+        return self.alpha_offset
 
     def after_step(self, t, dt, loads):
-        """Advance the heave from t to t + dt with the lift of step t: m' h'' = L' - m' g."""
-        n = self.n_per_cl * loads["cl"]
-        a = G * (n - 1.0)
+        """Advance the heave from t to t + dt with the lift of step t (:func:`unsteady.linear.kernels.heave_step`)."""
+        first = self.a_prev is None
+        # the step's Python source as it stands (plain IEEE arithmetic; the compiled
+        # form may fuse multiply-adds, which the vortex histories need not see)
+        n, a, self.h, self.h_dot = heave_step.py_func(float(loads["cl"]), self.h, self.h_dot,
+                                                      0.0 if first else self.a_prev, first, dt,
+                                                      self.n_per_cl, G)
         self.n_rows.append(n)
         self.a_rows.append(a)
-        if self.a_prev is None:
-            h_dot_new = self.h_dot + dt * a
-        else:
-            h_dot_new = self.h_dot + dt * (1.5 * a - 0.5 * self.a_prev)
-        self.h += 0.5 * dt * (self.h_dot + h_dot_new)
-        self.h_dot = h_dot_new
         self.a_prev = a
 
-    # -- for a compiled march (unsteady.linear_kernels) ----------------------
+    # -- for a compiled march (unsteady.linear.kernels.march_heave) -----------
     def pitch(self, t):
         """(alpha, alpha_dot) at times t (vectorised): the prescribed pitch plus the trim offset."""
         t = np.asarray(t, dtype=float)
         alpha, alpha_dot, _, _ = self.kin.state(t)
-        return (np.broadcast_to(np.asarray(alpha, dtype=float) + self.alpha_offset, t.shape).copy(),
+        return (np.broadcast_to(np.asarray(alpha, dtype=float) + self._offset(), t.shape).copy(),
                 np.broadcast_to(np.asarray(alpha_dot, dtype=float), t.shape).copy())
 
     def heave_constants(self):
@@ -173,10 +177,7 @@ class HeaveMotion:
         self.h, self.h_dot = float(h_end), float(h_dot_end)
         self.a_prev = self.a_rows[-1] if self.a_rows else None
 
-    # -- observer -----------------------------------------------------------
-    def on_step(self, s):
-        pass
-
+    # -- for the runner, after the march ------------------------------------
     def finish(self, history):
         """Fill the ``n`` and ``height_accel_m_s2`` columns."""
         k = len(history["t"])

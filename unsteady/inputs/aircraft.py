@@ -33,10 +33,10 @@ def lift_scale(aspect_ratio):
 
 @register_section("aircraft")
 def check_aircraft_section(value, ctx):
-    """Check ``[aircraft]``: mass (kg), wing_area (m^2), optional aspect_ratio; (resolved, [InputError])."""
+    """Check ``[aircraft]``: mass (kg), wing_area (m^2), optional aspect_ratio and span (m); (resolved, [InputError])."""
     if not isinstance(value, dict):
         return value, [InputError("aircraft", "must be a table [aircraft] with mass (kg) and wing_area (m^2)")]
-    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio"}, "aircraft.")
+    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio", "span"}, "aircraft.")
     out = {}
     for key, unit in (("mass", "kg"), ("wing_area", "m^2")):
         if key not in value:
@@ -52,6 +52,17 @@ def check_aircraft_section(value, ctx):
                                          unit="(span^2 / wing area)")
         except InputError as e:
             errors.append(e)
+    if "span" in value:
+        try:
+            out["span"] = number("aircraft.span", value["span"], gt=0.0, le=200.0, unit="m (tip to tip)")
+        except InputError as e:
+            errors.append(e)
+    if {"span", "wing_area", "aspect_ratio"} <= set(out):
+        ar = out["span"] ** 2 / out["wing_area"]
+        if abs(ar - out["aspect_ratio"]) > 0.01 * out["aspect_ratio"]:
+            errors.append(InputError("aircraft.span", f"gives span^2 / wing_area = {ar:.3g}, not the "
+                                                      f"aspect_ratio {out['aspect_ratio']:g}: give two of the "
+                                                      f"three, or make them agree within 1 %"))
     if "plunge" in ctx.get("motion", {}):
         errors.append(InputError("motion.plunge", "cannot be prescribed with [aircraft]: the aircraft heaves "
                                                   "freely under its lift; remove motion.plunge or [aircraft]"))

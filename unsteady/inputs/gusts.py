@@ -58,7 +58,6 @@ __all__ = [
     "turbulence_samples",
     "GustField",
     "build_gust_field",
-    "GustObserver",
     "check_gust_section",
     "effective_angle_history",
     "EFFECTIVE_ANGLE_LIMIT_DEG",
@@ -476,57 +475,6 @@ def effective_angle_history(history, speed, chord, pivot, field=None):
         w = field.velocity(np.full(t.shape, x34), np.asarray(history["height_m"], dtype=float), t)[1]
     return theory.effective_angle(np.radians(history["pitch_deg"]), np.radians(history["pitch_rate_deg_s"]),
                                   history["height_rate_m_s"], speed, chord, pivot, w)
-
-
-class GustObserver:
-    """Records the gust at the leading edge (columns ``w_gust``, ``u_gust``); its summary adds the peak effective angle.
-
-    ``alpha_eff_max_deg`` is the largest magnitude of the history column
-    ``alpha_eff_deg`` (both from :func:`effective_angle_history`).
-    """
-
-    columns = ["w_gust", "u_gust"]
-
-    def __init__(self, gust, sc):
-        self.gust = gust
-        self.chord = sc.chord
-        self.pivot = sc.pivot
-        self.U = sc.speed
-        self.profiles = [g["profile"] for g in _gust_list(sc.data["gust"])]
-        self.rows = {k: [] for k in self.columns}
-
-    def on_step(self, s):
-        x_le = -self.pivot * self.chord * math.cos(s.alpha)
-        u, w = self.gust.velocity(np.array([x_le]), np.array([s.h]), s.t)
-        self.rows["w_gust"].append(float(w[0]))
-        self.rows["u_gust"].append(float(u[0]))
-
-    def record_rows(self, t, alpha, h, h_dot=None):
-        """:meth:`on_step` for many rows at once (arrays of t (s), alpha (rad), h (m); h_dot is not needed)."""
-        t = np.asarray(t, dtype=float)
-        alpha = np.asarray(alpha, dtype=float)
-        x_le = -self.pivot * self.chord * np.cos(alpha)
-        u, w = self.gust.velocity(x_le, np.broadcast_to(h, t.shape), t)  # xi is elementwise in t
-        self.rows["w_gust"].extend(np.asarray(w, dtype=float).tolist())
-        self.rows["u_gust"].extend(np.asarray(u, dtype=float).tolist())
-
-    def finish(self, history):
-        """Fill the columns of the recorded rows."""
-        n = len(history["t"])
-        for k, v in self.rows.items():
-            history[k] = np.asarray(v[:n], dtype=float)
-
-    def summary(self, history):
-        out = {"gust_profiles": self.profiles}
-        for k in ("w_gust", "u_gust"):
-            v = history.get(k)
-            if v is not None and len(v):
-                out[f"{k}_max"] = float(np.nanmax(v))
-                out[f"{k}_min"] = float(np.nanmin(v))
-        if len(history["t"]):
-            a = np.degrees(effective_angle_history(history, self.U, self.chord, self.pivot, self.gust))
-            out["alpha_eff_max_deg"] = float(np.nanmax(np.abs(a)))
-        return out
 
 
 # ---------------------------------------------------------------------------

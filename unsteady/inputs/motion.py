@@ -140,6 +140,11 @@ class Law:
         out.update({k: v for k, v in self.spec.items() if v is not None})
         return out
 
+    def singular_times(self):
+        """Times (s) at which the law changes instantly: its value or its rate jumps, so its
+        acceleration is a delta function (an impulse of the apparent-mass force).  None by default."""
+        return []
+
     def _value(self, t):
         raise NotImplementedError
 
@@ -182,6 +187,9 @@ class Step(Law):
 
     KEYS = ("value", "time")
     SCALED = ("value",)
+
+    def singular_times(self):
+        return [float(self.spec["time"])] if self.scaled["value"] != 0.0 else []
 
     def _value(self, t):
         return np.where(t >= float(self.spec["time"]), self.scaled["value"], 0.0)
@@ -248,6 +256,10 @@ class Ramp(Law):
         self.D = float(self.spec["duration"])
         self.t1 = self.t0 + self.D
         self.sigma = float(self.spec["smoothing"])
+
+    def singular_times(self):
+        """The two corners, when they are sharp (smoothing 0) and the ramp moves."""
+        return [self.t0, self.t1] if self.sigma == 0.0 and self.q1 != self.q0 else []
 
     def _value(self, t):
         f = np.clip(t - self.t0, 0.0, self.D) / self.D  # the sharp ramp, 0..1
@@ -326,9 +338,15 @@ class Sine(Law):
 class Table(Law):
     """q(t) interpolated in a CSV table with columns ``t`` (s) and ``value``.
 
-    A cubic spline through the points (scipy.interpolate.CubicSpline,
-    not-a-knot ends; a straight line for two rows) whose first and second
-    derivatives are the rate and acceleration, so the three are consistent.
+    ``interpolation = "monotone"`` (default): the shape-preserving piecewise
+    cubic Hermite interpolant (F. N. Fritsch & R. E. Carlson, SIAM J. Numer.
+    Anal. 17, 1980; scipy.interpolate.PchipInterpolator): it never overshoots
+    the data (a table 0, 0, 10, 10 stays within 0..10) and its first derivative
+    is continuous; its rate and acceleration are the interpolant's own exact
+    derivatives.  ``interpolation = "linear"``: straight lines between the
+    points, the rate piecewise constant and the acceleration zero inside each
+    interval (the jumps of the rate at the points carry an apparent-mass
+    impulse that this law does not supply: prefer "monotone" for loads).
     Before the first time and after the last the end values are held (rate
     and acceleration zero there).  Other columns are ignored; blank lines and
     lines starting with ``#`` are skipped.  ``value`` is in the quantity's
@@ -336,30 +354,51 @@ class Table(Law):
     """
 
     KEYS = ("file",)
-    TEXT = ("file",)
+    OPTIONAL = {"interpolation": "monotone"}
+    TEXT = ("file", "interpolation")
+    INTERPOLATIONS = ("monotone", "linear")
 
     @classmethod
     def check(cls, spec):
         if not spec["file"].strip():
             raise InputError("file", "is empty; give the path of a CSV file with columns t and value")
+        if spec["interpolation"] not in cls.INTERPOLATIONS:
+            raise InputError("interpolation", f"must be one of {', '.join(map(repr, cls.INTERPOLATIONS))}, "
+                                              f"got {spec['interpolation']!r}")
 
     def __init__(self, spec, context=LawContext()):
         super().__init__(spec, context)
-        from scipy.interpolate import CubicSpline
         self.path = table_path(self.spec["file"], context.base_dir)
         t, q = read_table(self.path, {"t": "s", "value": "the quantity's scenario unit"})
         self.t_first, self.t_last = float(t[0]), float(t[-1])
         self.q_first, self.q_last = self.scale * float(q[0]), self.scale * float(q[-1])
-        self._spline = CubicSpline(t, self.scale * q)
-        self._d1 = self._spline.derivative(1)
-        self._d2 = self._spline.derivative(2)
+        self._t, self._q = np.asarray(t, float), self.scale * np.asarray(q, float)
+        if self.spec.get("interpolation", "monotone") == "monotone":
+            from scipy.interpolate import PchipInterpolator
+            self._curve = PchipInterpolator(self._t, self._q)
+            self._d1 = self._curve.derivative(1)
+            self._d2 = self._curve.derivative(2)
+        else:
+            self._curve = lambda x: np.interp(x, self._t, self._q)
+            slopes = np.diff(self._q) / np.diff(self._t)
+            self._d1 = lambda x: slopes[np.clip(np.searchsorted(self._t, x, side="right") - 1,
+                                                0, slopes.size - 1)]
+            self._d2 = lambda x: np.zeros(np.shape(x))
+
+    def singular_times(self):
+        """Linear interpolation: every point where the slope changes (and the ends, where it
+        stops); the monotone cubic has a continuous rate."""
+        if self.spec.get("interpolation", "monotone") == "monotone":
+            return []
+        slopes = np.r_[0.0, np.diff(self._q) / np.diff(self._t), 0.0]
+        return [float(ti) for ti, a, b in zip(self._t, slopes[:-1], slopes[1:]) if a != b]
 
     def _inside(self, t):
         return (t >= self.t_first) & (t <= self.t_last)
 
     def _value(self, t):
         tc = np.clip(t, self.t_first, self.t_last)
-        return self._spline(tc)
+        return self._curve(tc)
 
     def _rate(self, t):
         return np.where(self._inside(t), self._d1(np.clip(t, self.t_first, self.t_last)), 0.0)
@@ -380,6 +419,9 @@ class SumLaw(Law):
     def resolved(self):
         """The list of law tables, defaults filled in."""
         return [law.resolved() for law in self.laws]
+
+    def singular_times(self):
+        return sorted({ti for law in self.laws for ti in law.singular_times()})
 
     def _value(self, t):
         return sum((law._value(t) for law in self.laws), np.zeros_like(t))
@@ -559,6 +601,10 @@ class Kinematics:
     def state(self, t):
         """(alpha, alpha_dot, h, h_dot) at time(s) t: rad, rad/s, m, m/s."""
         return self.pitch.value(t), self.pitch.rate(t), self.plunge.value(t), self.plunge.rate(t)
+
+    def singular_times(self):
+        """Times (s) at which pitch or plunge changes instantly (see :meth:`Law.singular_times`)."""
+        return sorted(set(self.pitch.singular_times()) | set(self.plunge.singular_times()))
 
     def accel(self, t):
         """(alpha_ddot, h_ddot) at time(s) t: rad/s^2, m/s^2."""

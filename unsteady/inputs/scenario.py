@@ -32,6 +32,29 @@ RUN_MODELS = ("vortex", "linear")   # [run] model; unsteady.simulation.models re
 
 
 STEPS_PER_PERIOD = 120
+
+#: Allowed ranges of the flight condition and the section (physically meaningful
+#: for a low-speed, incompressible section model of a small aircraft or rig).
+SPEED_RANGE = (0.01, 340.0)       # m/s
+DENSITY_RANGE = (0.01, 2.0)       # kg/m^3
+CHORD_RANGE = (1e-3, 20.0)        # m
+
+
+def memory_estimate(steps, elements):
+    """Bytes a vortex run of ``steps`` steps and ``elements`` elements holds at its peak (an
+    upper estimate: history ~30 columns, the pressure jump per element, wake arrays of
+    up to one vortex per step, snapshots of up to 200 wakes)."""
+    rows = steps + 1
+    return int(rows * 30 * 8 + rows * elements * 4 + (elements + rows) * 12 * 8 + 200 * min(rows, 2e5) * 12)
+
+
+def available_memory():
+    """Physical memory of this machine in bytes (None where the system does not say)."""
+    import os
+    try:
+        return os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
+    except (ValueError, OSError, AttributeError):
+        return None
 DEFAULT_FAR_WAKE = 30.0   # chords
 
 
@@ -300,11 +323,13 @@ def resolve(raw, base_dir, stem="scenario"):
     if "speed" not in fl:
         errors.append(InputError("flow.speed", "is required (m/s, > 0)"))
     else:
-        flow["speed"] = grab(number, "flow.speed", fl["speed"], gt=0.0, unit="m/s")
+        flow["speed"] = grab(number, "flow.speed", fl["speed"], ge=SPEED_RANGE[0], le=SPEED_RANGE[1],
+                             unit="m/s (an incompressible model: below the speed of sound)")
     if ("density" in fl) == ("altitude" in fl):
         errors.append(InputError("flow.density", "give exactly one of flow.density (kg/m^3) or flow.altitude (m, standard atmosphere)"))
     elif "density" in fl:
-        flow["density"] = grab(number, "flow.density", fl["density"], gt=0.0, unit="kg/m^3")
+        flow["density"] = grab(number, "flow.density", fl["density"], ge=DENSITY_RANGE[0], le=DENSITY_RANGE[1],
+                               unit="kg/m^3 (air: 1.225 at sea level, 0.09 at 20 km)")
     else:
         alt = grab(number, "flow.altitude", fl["altitude"], unit="m")
         if alt is not None:
@@ -327,7 +352,7 @@ def resolve(raw, base_dir, stem="scenario"):
     if "chord" not in af:
         errors.append(InputError("airfoil.chord", "is required (m, > 0)"))
     else:
-        airfoil["chord"] = grab(number, "airfoil.chord", af["chord"], gt=0.0, unit="m")
+        airfoil["chord"] = grab(number, "airfoil.chord", af["chord"], ge=CHORD_RANGE[0], le=CHORD_RANGE[1], unit="m")
     airfoil["elements"] = grab(integer, "airfoil.elements", af.get("elements", 40), ge=4, le=1000)
     if grab(text, "airfoil.shape", airfoil["shape"]) is not None:
         from .sections import section_from_shape
@@ -397,6 +422,14 @@ def resolve(raw, base_dir, stem="scenario"):
             errors.append(InputError("run.dt", f"gives {steps:.3g} steps; at most 5e6 are allowed: shorten run.duration or raise run.dt"))
         elif steps < 1:
             errors.append(InputError("run.dt", "is longer than the run itself: lower run.dt or lengthen run.duration"))
+    if not errors and run.get("duration") and run.get("dt") and elements:
+        need = memory_estimate(int(math.ceil(run["duration"] / run["dt"])), elements)
+        have = available_memory()
+        if have and need > 0.5 * have:
+            errors.append(InputError("run.dt", f"the run would need about {need / 2**30:.3g} GiB of memory "
+                                               f"(history, wake and snapshots), over half of the "
+                                               f"{have / 2**30:.3g} GiB this machine has: shorten run.duration, "
+                                               f"raise run.dt or use fewer airfoil.elements"))
     out["run"] = run
 
     # [output]

@@ -30,7 +30,9 @@ import math
 import numpy as np
 from numba import njit
 
-__all__ = ["memory_tail", "march_heave", "S_MAX_DEFAULT", "TAIL_STEP"]
+from .. import theory
+
+__all__ = ["memory_tail", "march_heave", "heave_step", "S_MAX_DEFAULT", "TAIL_STEP"]
 
 #: Default window of the direct Duhamel sum, semichords (25 chords).  The far
 #: memory beyond it is carried by the exponential sum, which matches the
@@ -47,7 +49,6 @@ TAIL_STEP = 0.3
 
 @functools.lru_cache(maxsize=32)
 def _memory_tail_cached(name, ds, M, s_end):
-    from .. import theory
     kernel = {"wagner": theory._wagner_kernel, "kuessner": theory._kuessner_kernel}[name]
     s_near = M * ds
     x_hi = 45.0 / s_near                    # e^{-x s} < 3e-20 for every lag beyond the window
@@ -87,24 +88,68 @@ def memory_tail(name, ds, M, s_end):
     return _memory_tail_cached(str(name), float(ds), int(M), float(s_end))
 
 
+#: Theodorsen's apparent-mass terms compiled for the march: the one copy is
+#: :func:`unsteady.theory.apparent_mass` (plain arithmetic, so numba compiles it as it stands).
+#: Functions the march calls are compiled with its fastmath flags: LLVM drops the caller's
+#: fast-math attributes when it inlines a callee without them (measured: the march ran 3x slower).
+_apparent_mass = njit(cache=True, fastmath=True)(theory.apparent_mass)
+
+
+@njit(cache=True, fastmath=True)
+def heave_step(cl, h, h_dot, h_ddot_prev, first, dt, n_per_cl, g):
+    """One step of the free heave, m' h'' = L' - m' g (the one copy of this step).
+
+    n = n_per_cl cl (n_per_cl = kappa q c / (m' g)), h'' = g (n - 1); the rate
+    advances by second-order Adams-Bashforth (an Euler step on the ``first``
+    step) and the height by the trapezoidal rule (common practice of
+    multistep integration).  Called by :meth:`unsteady.dynamics.heave.HeaveMotion.after_step`
+    (from Python, for the vortex model and the Python march) and by
+    :func:`march_heave` (compiled); it lives here, the lowest layer both reach.
+
+    Parameters
+    ----------
+    cl : float
+        Lift coefficient of the step.
+    h, h_dot : float
+        Height (m) and heave rate (m/s) at the step.
+    h_ddot_prev : float
+        Heave acceleration of the previous step, m/s^2 (ignored when ``first``).
+    first : bool
+    dt, n_per_cl, g : float
+        Step (s), load factor per unit cl, gravity (m/s^2).
+
+    Returns
+    -------
+    n, h_ddot, h_next, h_dot_next : float
+        Load factor and heave acceleration of the step; height and rate at the next.
+    """
+    n = n_per_cl * cl
+    acc = g * (n - 1.0)
+    if first:
+        h_dot_next = h_dot + dt * acc
+    else:
+        h_dot_next = h_dot + dt * (1.5 * acc - 0.5 * h_ddot_prev)
+    return n, acc, h + 0.5 * dt * (h_dot + h_dot_next), h_dot_next
+
+
 @njit(cache=True, fastmath=True, error_model="numpy")
 def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
                 cw, dw, ck, dk, h_ddot0, dt, U, c, pivot, alpha_L0, cm0, n_per_cl, g,
                 h, h_dot, h_ddot, n_load, cl, cd, cm, cm_pivot, cl_c, cl_nc, cl_gust, q34):
     """March the linear model with free heave over all rows (outputs filled in place).
 
-    The arithmetic of :class:`unsteady.linear.LinearMarcher` driving
-    :class:`unsteady.aircraft.HeaveMotion`, row by row:
+    The arithmetic of :class:`unsteady.linear.model.LinearMarcher` driving
+    :class:`unsteady.dynamics.heave.HeaveMotion`, row by row:
 
     * Q = alpha - alpha_L0 - h'/U + b (1/2 - a) alpha'/U; cl_c = 2 pi
       [x_0 R_n + sum_j dQ_j W_{n-j}], cl_g likewise with w_LE/U, psi
       (Duhamel superposition; H. Wagner, ZAMM 5, 1925; H. G. Kuessner,
       Luftfahrtforschung 13, 1936), lags of M = len(W) steps and more from
       the exponential sum (cw, dw), (ck, dk) (empty arrays: none);
-    * apparent mass (T. Theodorsen, NACA Report 496, 1935), h'' from a
-      backward difference of h' (row 0: ``h_ddot0``);
-    * n = n_per_cl cl, h'' = g (n - 1); h' by second-order Adams-Bashforth,
-      h by the trapezoidal rule (as HeaveMotion.after_step).
+    * apparent mass (T. Theodorsen, NACA Report 496, 1935;
+      :func:`unsteady.theory.apparent_mass`), h'' from a backward difference
+      of h' (row 0: ``h_ddot0``);
+    * the heave by :func:`heave_step` (as HeaveMotion.after_step).
 
     Inputs are float64 arrays of the N rows (alpha with the trim offset)
     and floats; R_w, R_k are the start responses (1 for a steady start).
@@ -170,8 +215,7 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
         hT_ddot = -b * hdd / (U * U)
         adb = b * ad_n / U
         add = b * b * alpha_ddot[n] / (U * U)
-        clnc = math.pi * (hT_ddot + adb - a * add)
-        M_nc = math.pi * (a * hT_ddot - (0.5 - a) * adb - (0.125 + a * a) * add)
+        clnc, M_nc = _apparent_mass(hT_ddot, adb, add, a)
         cl_n = (clc + clnc + clg) * (1.0 + 2.0 * u / U)
         cmp_n = 0.5 * (M_nc + (a + 0.5) * clc) + clg * (pivot - 0.25) + cm0
         cl[n] = cl_n
@@ -183,16 +227,11 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
         cl_nc[n] = clnc
         cl_gust[n] = clg
         # heave: m' h'' = L' - m' g
-        nl = n_per_cl * cl_n
-        acc = g * (nl - 1.0)
+        nl, acc, h_new, hd_new = heave_step(cl_n, hc, hdc, a_prev, n == 0, dt, n_per_cl, g)
         n_load[n] = nl
         h_ddot[n] = acc
-        if n == 0:
-            hd_new = hdc + dt * acc
-        else:
-            hd_new = hdc + dt * (1.5 * acc - 0.5 * a_prev)
         hd_prev = hdc
-        hc += 0.5 * dt * (hdc + hd_new)
+        hc = h_new
         hdc = hd_new
         a_prev = acc
     return hc, hdc

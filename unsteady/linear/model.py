@@ -116,7 +116,7 @@ def motion_loads(q34, alpha_dot, alpha_ddot, h_ddot, *, speed, chord, pivot, ds,
     The circulatory lift is the Wagner superposition of the downwash at the
     three-quarter chord, cl_c = 2 pi [phi * Q](s); the non-circulatory
     (apparent-mass) terms are Theodorsen's (T. Theodorsen, NACA Report 496,
-    1935; h_T = -h):
+    1935; h_T = -h), :func:`unsteady.theory.apparent_mass`:
 
         cl_nc = pi (b h_T''/U^2 + b alpha'/U - a b^2 alpha''/U^2)
         2 cm_pivot = pi (a b h_T''/U^2 - (1/2 - a) b alpha'/U - (1/8 + a^2) b^2 alpha''/U^2)
@@ -151,8 +151,7 @@ def motion_loads(q34, alpha_dot, alpha_ddot, h_ddot, *, speed, chord, pivot, ds,
     hT_ddot = -b * np.asarray(h_ddot, dtype=float) / U**2
     ad = b * np.asarray(alpha_dot, dtype=float) / U
     add = b**2 * np.asarray(alpha_ddot, dtype=float) / U**2
-    cl_nc = np.pi * (hT_ddot + ad - a * add)
-    M_nc = np.pi * (a * hT_ddot - (0.5 - a) * ad - (0.125 + a**2) * add)
+    cl_nc, M_nc = theory.apparent_mass(hT_ddot, ad, add, a)
     cl = cl_c + cl_nc
     cm_pivot = 0.5 * (M_nc + (a + 0.5) * cl_c)
     cm = cm_pivot + cl * (0.25 - float(pivot))
@@ -337,12 +336,12 @@ class LinearMarcher:
         values, m/s); used instead of ``w_le``/``u_le`` when given.
     s_max : float, optional
         Window of the direct Duhamel sums of the compiled march, semichords
-        (default :data:`unsteady.linear_kernels.S_MAX_DEFAULT`); older
+        (default :data:`unsteady.linear.kernels.S_MAX_DEFAULT`); older
         inputs are carried by the exponential-sum tail (``tail=True``) or
-        forgotten (``tail=False``).  See :mod:`unsteady.linear_kernels`.
+        forgotten (``tail=False``).  See :mod:`unsteady.linear.kernels`.
     compiled : bool
         Use the compiled march when the motion offers it (a
-        :class:`~unsteady.aircraft.HeaveMotion`: ``pitch``,
+        :class:`~unsteady.dynamics.heave.HeaveMotion`: ``pitch``,
         ``heave_constants``, ``take_rows``) and ``accel`` is given; else the
         step-by-step Python march, which also serves any other motion object.
     """
@@ -419,8 +418,7 @@ class LinearMarcher:
             hT_ddot = -b * h_ddot / U**2
             ad = b * alpha_dot / U
             add = b**2 * alpha_ddot / U**2
-            cl_nc = np.pi * (hT_ddot + ad - a * add)
-            M_nc = np.pi * (a * hT_ddot - (0.5 - a) * ad - (0.125 + a**2) * add)
+            cl_nc, M_nc = theory.apparent_mass(hT_ddot, ad, add, a)
             cl = (cl_c + cl_nc + cl_g) * (1.0 + 2.0 * u / U)
             cm_pivot = 0.5 * (M_nc + (a + 0.5) * cl_c) + cl_g * (pv - 0.25) + self.cm0
             cm = cm_pivot + (cl_c + cl_nc + cl_g) * (0.25 - pv)
@@ -440,7 +438,7 @@ class LinearMarcher:
         return H
 
     def _run_compiled(self):
-        """The march of :meth:`run` in :func:`unsteady.linear_kernels.march_heave` (free heave)."""
+        """The march of :meth:`run` in :func:`unsteady.linear.kernels.march_heave` (free heave)."""
         from .kernels import march_heave, memory_tail
         N, dt = self.N, self.dt
         t = np.arange(N) * dt

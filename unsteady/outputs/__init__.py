@@ -1,1 +1,1 @@
-"""outputs."""
+"""Files and pictures of a run: the run directory, pictures, flow fields, films."""

@@ -5,7 +5,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.ndimage import gaussian_filter
 
 from ..vortex.kernels import induced_stream_function, induced_velocity
 from ..vortex.solver import default_core_radii, to_inertial
@@ -204,6 +203,7 @@ def vorticity_field(grid: Grid, sources, sigma=None):
                             (0, 1, (1 - ax) * az), (1, 1, ax * az)):
             acc += np.bincount((j + dj) * nx + (i + di), weights=g * wgt, minlength=nz * nx)
     omega = acc.reshape(nz, nx) / (dx * dz)
+    from scipy.ndimage import gaussian_filter     # here: only the vorticity drawing needs it
     if sigma is None:
         sigma = 1.5 * max(dx, dz)
     return gaussian_filter(omega, sigma=(sigma / dz, sigma / dx), mode="constant", truncate=4.0)

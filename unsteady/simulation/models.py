@@ -1,42 +1,47 @@
-"""Registry of alternative run models, chosen by ``[run] model`` (the vortex model is the default)."""
+"""Run models, chosen by ``[run] model``: the contract every model follows, its registry, the vortex and linear models."""
 
 from __future__ import annotations
 
-import time
-
 import numpy as np
 
-from ..analysis.lag import add_quasi_steady, lag_summary
-from ..analysis.summary import make_summary
 from ..dynamics.heave import HeaveMotion
 from ..inputs import scenario
-from ..inputs.gusts import GustObserver, build_gust_field
+from ..inputs.gusts import build_gust_field
+from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
-from .observers import BASE_COLUMNS, EXTRA_COLUMNS
-from .result import Result
+from ..vortex.solver import SolverDiverged, StepState, VortexSolver, build_body
+from .observers import Rows
 
-#: name -> fn(sc, observers=(), progress=False) -> Result
+__all__ = ["Model", "MODELS", "register_model", "get", "VortexModel", "LinearModel",
+           "linear_heave_marcher"]
+
+#: name -> Model subclass
 MODELS = {}
 
 
 def register_model(name):
-    """Decorator: register ``fn(sc, observers=(), progress=False) -> Result`` under ``name``.
+    """Class decorator: register a :class:`Model` subclass as ``[run] model = name``.
 
-    The name becomes an allowed value of ``[run] model``.
+    Raises
+    ------
+    ValueError
+        When ``name`` is not in :data:`unsteady.inputs.scenario.RUN_MODELS`
+        (the scenario check would refuse it).
     """
     if name not in scenario.RUN_MODELS:
         raise ValueError(f"model {name!r} is not an allowed value of [run] model; "
                          f"add it to unsteady.inputs.scenario.RUN_MODELS")
 
-    def deco(fn):
-        MODELS[name] = fn
-        return fn
+    def deco(cls):
+        cls.name = name
+        MODELS[name] = cls
+        return cls
     return deco
 
 
 def get(name):
-    """The run function registered as ``name``.
+    """The :class:`Model` subclass registered as ``name``.
 
     Raises
     ------
@@ -49,10 +54,322 @@ def get(name):
         raise KeyError(f"no run model {name!r}; registered: {', '.join(sorted(MODELS))}") from None
 
 
+class Model:
+    """A run model: one way of marching a scenario in time (``[run] model``).
+
+    The runner (:func:`unsteady.simulation.runner.simulate`) builds the gust
+    field and the motion, then the model, trims the free heave on the
+    model's steady lift, marches the model through :meth:`run` with its
+    observers and finishes the history and the summary in one way for
+    every model.
+
+    Rules for a model (a subclass; :class:`VortexModel` and
+    :class:`LinearModel` follow them):
+
+    1. Register the class with ``@register_model("name")``.  The name must
+       be one of :data:`unsteady.inputs.scenario.RUN_MODELS`, so that the
+       scenario check accepts ``[run] model = "name"`` and refuses other
+       names before anything runs.
+    2. ``__init__(sc, gust, motion)`` takes the checked scenario, the gust
+       field (:class:`~unsteady.inputs.gusts.GustField`, or None) and the
+       motion (``state(t) -> (alpha, alpha_dot, h, h_dot)`` and
+       ``after_step(t, dt, loads)``; a
+       :class:`~unsteady.dynamics.heave.HeaveMotion` with ``[aircraft]``),
+       and calls ``super().__init__(sc, gust, motion)``.  It may prepare
+       what the march needs (geometry, tables) but marches nothing and asks
+       the motion for no state: the heave is trimmed after the model is
+       built.  The scenario check has refused bad input already; trust it.
+    3. ``steady_cl(alpha, alpha_dot) -> float`` is the lift coefficient of
+       the settled flow in still air at pitch ``alpha`` (rad, nose-up) and
+       pitch rate ``alpha_dot`` (rad/s), without heave.  The heave trim
+       calls it a few times before the march.
+    4. ``_march(observers)`` marches the rows n = 0 .. ``sc.steps`` in
+       order, in one of two ways:
+
+       a. row by row: build a state with the fields of
+          :class:`~unsteady.vortex.solver.StepState` (arrays the model does
+          not have are empty), call ``on_step(state)`` of every observer in
+          the order given, then ``motion.after_step(t, dt, state.loads)``;
+       b. all rows in one pass: hand them over once with
+          :meth:`deliver_rows` (an :class:`~unsteady.simulation.observers.Rows`
+          block); the model advances the motion itself, by ``after_step``
+          per row or by a compiled step followed by the motion's
+          ``take_rows``.
+
+       ``loads`` carries ``cl``, ``cd``, ``cm``, ``cm_pivot``,
+       ``cl_impulse``, ``cd_impulse``, ``cm_impulse``, ``gamma_bound_m2_s``,
+       ``gamma_wake_m2_s`` (a block also ``wake_vortices``) and the model's
+       own :attr:`COLUMNS`.  When the state stops being finite, raise
+       :class:`~unsteady.vortex.solver.SolverDiverged`: the rows delivered
+       before it stay, and the run ends with ``Result.error`` set.
+    5. ``COLUMNS`` (a class attribute) names the history columns the model
+       writes beyond ``BASE_COLUMNS + EXTRA_COLUMNS`` of
+       :mod:`unsteady.simulation.observers` (all of which it writes).
+    6. ``summary() -> dict`` gives the model's own summary keys (time step,
+       start, wake options); ``snapshot_extras() -> dict`` what it adds to
+       ``Result.snapshots`` (default: nothing).
+
+    What the base class and the runner own, for every model: ``on_start(model)``
+    before the march and ``on_end(model)`` after it, also when it diverges
+    (:meth:`run`); the gust field; the free heave and its trim; the history
+    recorder; the snapshot spacing (``output.snapshot_every``); the progress
+    bar; the gust and heave columns; every observer's ``finish(history)``
+    and ``summary(history)``; the quasi-steady column and lag metrics
+    (:mod:`unsteady.analysis.lag`); the summary
+    (:func:`unsteady.analysis.summary.make_summary`); the divergence stop.
+
+    Attributes
+    ----------
+    name : str
+        The registered name (set by :func:`register_model`).
+    sc, gust, motion
+        As given.
+    """
+
+    name = None
+    COLUMNS = ()
+
+    def __init__(self, sc, gust, motion):
+        self.sc = sc
+        self.gust = gust
+        self.motion = motion
+
+    def steady_cl(self, alpha, alpha_dot):
+        """Settled still-air lift coefficient at pitch alpha (rad) and rate alpha_dot (rad/s) (rule 3)."""
+        raise NotImplementedError
+
+    def _march(self, observers):
+        raise NotImplementedError
+
+    def summary(self):
+        """The model's own summary keys (rule 6)."""
+        return {}
+
+    def snapshot_extras(self):
+        """What the model adds to ``Result.snapshots`` (rule 6)."""
+        return {}
+
+    def run(self, observers):
+        """March with ``on_start(model)`` / ``on_end(model)`` around it; the error text when it diverged, else None."""
+        for o in observers:
+            if hasattr(o, "on_start"):
+                o.on_start(self)
+        try:
+            self._march(observers)
+        except SolverDiverged as exc:
+            return str(exc)
+        finally:
+            for o in observers:
+                if hasattr(o, "on_end"):
+                    o.on_end(self)
+        return None
+
+    @staticmethod
+    def deliver_rows(rows, observers):
+        """Give a block of rows to the observers (rule 4b).
+
+        Observers with ``on_rows(rows)`` take the whole block; the others
+        then see every row through ``on_step(state)``, in order (a
+        :class:`~unsteady.vortex.solver.StepState` with no wake or body
+        points, ``dcp`` empty).
+        """
+        stepped = [o for o in observers if not hasattr(o, "on_rows")]
+        for o in observers:
+            if hasattr(o, "on_rows"):
+                o.on_rows(rows)
+        if not stepped:
+            return
+        empty = np.zeros(0)
+        for n in range(rows.t.shape[0]):
+            st = StepState(n=n, t=float(rows.t[n]), alpha=float(rows.alpha[n]),
+                           alpha_dot=float(rows.alpha_dot[n]), h=float(rows.h[n]),
+                           h_dot=float(rows.h_dot[n]), gamma_bound=empty, x_wake=empty,
+                           z_wake=empty, gamma_wake=empty, x_body=empty, z_body=empty,
+                           loads={k: float(v[n]) for k, v in rows.loads.items()}, dcp=empty)
+            for o in stepped:
+                o.on_step(st)
+
+
+# ---------------------------------------------------------------------------
+# the discrete-vortex model
+# ---------------------------------------------------------------------------
+
+class _Fixed:
+    """A motion frozen at one attitude (for the steady lift)."""
+
+    def __init__(self, alpha, alpha_dot):
+        self.s = (alpha, alpha_dot, 0.0, 0.0)
+
+    def state(self, t):
+        return self.s
+
+    def after_step(self, t, dt, loads):
+        pass
+
+
+class _LastCl:
+    def on_step(self, s):
+        self.cl = s.loads["cl"]
+
+
+class _Relay:
+    """The one observer the solver sees: passes each state on, in order (the model owns on_start/on_end)."""
+
+    def __init__(self, observers):
+        self.observers = observers
+
+    def on_step(self, s):
+        for o in self.observers:
+            o.on_step(s)
+
+
+class _PressureRows:
+    """The pressure-jump coefficient per step and element (``snapshots["dcp"]``)."""
+
+    def __init__(self, steps, elements):
+        self.dcp = np.full((steps + 1, elements), np.nan, dtype=np.float32)
+        self.count = 0
+
+    def on_step(self, s):
+        self.dcp[s.n] = s.dcp
+        self.count = s.n + 1
+
+
+@register_model("vortex")
+class VortexModel(Model):
+    """The time-marching discrete-vortex model (:mod:`unsteady.vortex.solver`), row by row (rule 4a).
+
+    Its steady lift is the solver's own steady start (no shed vortex), so
+    that a trimmed aircraft starts at n = 1 to round-off.
+    """
+
+    def __init__(self, sc, gust, motion):
+        super().__init__(sc, gust, motion)
+        self.body = build_body(sc)
+        self._pressure = None
+
+    def steady_cl(self, alpha, alpha_dot):
+        """cl of the solver's steady start at a fixed attitude (step 0, no wake shed yet)."""
+        sc = self.sc
+        obs = _LastCl()
+        VortexSolver(self.body, _Fixed(alpha, alpha_dot), speed=sc.speed, density=sc.density,
+                     dt=sc.dt, steps=0, start="steady").run([obs])
+        return obs.cl
+
+    def _march(self, observers):
+        sc, run = self.sc, self.sc.data["run"]
+        self._pressure = _PressureRows(sc.steps, sc.elements)
+        solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
+                              steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
+                              shed_offset=run.get("shed_offset", 0.3),
+                              core_radius=run.get("core_radius"), far_wake=run.get("far_wake"))
+        solver.run([_Relay([self._pressure] + list(observers))])
+
+    def summary(self):
+        run = self.sc.data["run"]
+        return {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
+                "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+
+    def snapshot_extras(self):
+        """``dcp`` (per step and element) and ``x_dcp`` (element mid-points, chord fractions)."""
+        p = self._pressure
+        x = camber_elements(self.sc.section, self.sc.elements).x_nodes
+        dcp = p.dcp[:p.count] if p is not None else np.zeros((0, self.sc.elements), np.float32)
+        return {"dcp": dcp, "x_dcp": x[:-1] + 0.5 * np.diff(x)}
+
+
+# ---------------------------------------------------------------------------
+# the linear (indicial) model
+# ---------------------------------------------------------------------------
+
 @register_model("linear")
-def run_linear(sc, observers=(), progress=False):
-    """Classical indicial-response model (Wagner, Kuessner, Theodorsen): see :mod:`unsteady.linear`."""
-    return simulate_linear(sc, observers=observers, progress=progress)
+class LinearModel(Model):
+    """Classical indicial-response model (Wagner, Kuessner, Theodorsen): see :mod:`unsteady.linear.model`.
+
+    All rows in one pass (rule 4b): prescribed motion is summed by FFT
+    convolutions (:func:`~unsteady.linear.model.linear_loads`); with
+    ``[aircraft]`` the loads drive the heave through the compiled march
+    (:meth:`~unsteady.linear.model.LinearMarcher.run`).  The vortex-only
+    columns get their linear equivalents: ``gamma_bound_m2_s`` is the
+    circulation that carries the circulatory lift by Kutta-Joukowski
+    (L = -rho U Gamma, counter-clockwise positive as in the vortex model),
+    ``gamma_wake_m2_s`` the circulation shed since the start, ``wake_vortices``
+    0; ``cl_circulatory`` is the circulatory lift (motion and gust).
+
+    Parameters
+    ----------
+    sc, gust, motion
+        As :class:`Model`.
+    **march_options
+        ``s_max``, ``tail``, ``compiled`` of
+        :class:`~unsteady.linear.model.LinearMarcher` (free heave only; for
+        tests and benchmarks).
+    """
+
+    COLUMNS = ("cl_circulatory",)
+
+    def __init__(self, sc, gust, motion, **march_options):
+        super().__init__(sc, gust, motion)
+        self.alpha_L0, self.cm0 = section_constants(sc.section)
+        self.march_options = march_options
+        self._trim_model = None
+
+    def steady_cl(self, alpha, alpha_dot):
+        """The vortex model's steady lift (:meth:`VortexModel.steady_cl`), on purpose.
+
+        Both models then trim an aircraft to one attitude, so that their
+        load factors compare on the same aircraft (and the linear histories
+        stay those of earlier versions).  The linear model's own steady lift,
+        2 pi (alpha - alpha_L0) plus the pitch-rate terms, differs from it by
+        the lumped-vortex discretisation, so the linear run does not start
+        exactly level: n = 1.0002 to 1.0007 at t = 0 in the bundled drone
+        scenarios (measured; trimmed on its own lift instead, the trim moves
+        by under 0.004 degrees and n_max by about 1e-4).
+        """
+        if self._trim_model is None:
+            self._trim_model = VortexModel(self.sc, None, None)
+        return self._trim_model.steady_cl(alpha, alpha_dot)
+
+    def marcher(self):
+        """The :class:`~unsteady.linear.model.LinearMarcher` of the free heave (``[aircraft]``), trimmed motion."""
+        return linear.heave_marcher(self.sc, self.motion, self.gust, **self.march_options)
+
+    def _march(self, observers):
+        sc = self.sc
+        if isinstance(self.motion, HeaveMotion):
+            out = self.marcher().run()
+            t, alpha, alpha_dot, h, h_dot = (out[k] for k in ("t", "alpha", "alpha_dot", "h", "h_dot"))
+        else:
+            t, alpha, alpha_dot, h, h_dot, out = self._prescribed()
+        cl_c = out["cl_c"] + out["cl_gust"]
+        gamma_b = -0.5 * sc.speed * sc.chord * cl_c     # L = -rho U Gamma, counter-clockwise positive
+        gamma_0 = gamma_b[0] if sc.data["run"]["start"] == "steady" else 0.0
+        loads = {"cl": out["cl"], "cd": out["cd"], "cm": out["cm"], "cm_pivot": out["cm_pivot"],
+                 "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
+                 "gamma_bound_m2_s": gamma_b, "gamma_wake_m2_s": gamma_0 - gamma_b,
+                 "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c}
+        self.deliver_rows(Rows(t, alpha, alpha_dot, h, h_dot, loads), observers)
+
+    def _prescribed(self):
+        """(t, alpha, alpha_dot, h, h_dot, loads) of a prescribed motion, summed in one pass."""
+        sc, gust = self.sc, self.gust
+        t = np.arange(sc.steps + 1) * sc.dt
+        alpha, alpha_dot, h, h_dot = (np.broadcast_to(np.asarray(v, dtype=float), t.shape).copy()
+                                      for v in self.motion.state(t))
+        alpha_ddot, h_ddot = (np.broadcast_to(np.asarray(v, dtype=float), t.shape).copy()
+                              for v in self.motion.accel(t))
+        u_le = w_le = None
+        if gust is not None:
+            # the gust met by the leading edge (its path at zero pitch), m/s
+            u_le, w_le = _gust_series(gust, -sc.pivot * sc.chord, t, h)
+        out = linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, speed=sc.speed,
+                           chord=sc.chord, pivot=sc.pivot, alpha_L0=self.alpha_L0, cm0=self.cm0,
+                           w_le=w_le, u_le=u_le if gust is not None and gust.streamwise else None,
+                           start=sc.data["run"]["start"])
+        return t, alpha, alpha_dot, h, h_dot, out
+
+    def summary(self):
+        return {"dt": self.sc.dt, "start": self.sc.data["run"]["start"], "elements": self.sc.elements}
 
 
 def linear_heave_marcher(sc, **options):
@@ -60,132 +377,7 @@ def linear_heave_marcher(sc, **options):
 
     ``options``: ``s_max``, ``tail``, ``compiled`` of :class:`unsteady.linear.model.LinearMarcher`.
     """
-    return linear.heave_marcher(sc, HeaveMotion(sc, sc.kinematics), **options)
-
-
-class _LightState:
-    """What a time-loop observer sees from the linear model (no wake, no body points)."""
-
-    def __init__(self, n, t, alpha, alpha_dot, h, h_dot, loads):
-        self.n, self.t = n, t
-        self.alpha, self.alpha_dot, self.h, self.h_dot = alpha, alpha_dot, h, h_dot
-        self.loads = loads
-        empty = np.zeros(0)
-        self.gamma_bound = self.x_wake = self.z_wake = self.gamma_wake = empty
-        self.x_body = self.z_body = self.dcp = empty
-        self.extra = {}
-
-
-def simulate_linear(sc, observers=(), progress=False):
-    """Run a scenario with the linear model and return a :class:`~unsteady.results.Result`.
-
-    The same run directory and history columns as the vortex model (the
-    vortex-only columns get their linear equivalents: ``gamma_bound`` is the
-    circulation that carries the circulatory lift by Kutta-Joukowski,
-    ``gamma_wake`` the circulation shed since the start, ``wake_vortices`` 0).
-    Prescribed motion is summed in one pass of FFT convolutions; with
-    ``[aircraft]`` the loads drive the heave, and the model marches step by
-    step (:class:`LinearMarcher`).
-
-    Parameters
-    ----------
-    sc : Scenario
-    observers : sequence
-        Time-loop observers; they see each row's time, motion and loads (no
-        wake or body points, which this model does not have).
-    progress : bool
-        Accepted for symmetry with the vortex model; the run takes well under
-        a second, so no bar is drawn.
-    """
-
-    t_wall = time.perf_counter()
-    U, c, pv, dt = sc.speed, sc.chord, sc.pivot, sc.dt
-    steps = sc.steps
-    start = sc.data["run"]["start"]
-    alpha_L0, cm0 = section_constants(sc.section)
-    kin = sc.kinematics
-    gust = g_obs = None
-    extra_obs, columns = [], []
-    if sc.data.get("gust"):
-        gust = build_gust_field(sc)
-        g_obs = GustObserver(gust, sc)
-        extra_obs.append(g_obs)
-        columns += list(g_obs.columns)
-    x_le = -pv * c
-
-    def gust_at_le(t, h):
-        """Gust (u, w) met by the leading edge (its path at zero pitch), m/s."""
-        return _gust_series(gust, x_le, np.atleast_1d(t), np.atleast_1d(h))
-
-    motion = None
-    if sc.data.get("aircraft"):
-        motion = HeaveMotion(sc, kin)
-        columns += [k for k in motion.columns if k not in columns]
-        extra_obs.append(motion)
-
-    rows = []
-    if motion is None:
-        t = np.arange(steps + 1) * dt
-        alpha, alpha_dot, h, h_dot = (np.broadcast_to(np.asarray(v, dtype=float), t.shape).copy()
-                                      for v in kin.state(t))
-        alpha_ddot, h_ddot = (np.broadcast_to(np.asarray(v, dtype=float), t.shape).copy()
-                              for v in kin.accel(t))
-        u_le = w_le = None
-        if gust is not None:
-            u_le, w_le = gust_at_le(t, h)
-        out = linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, speed=U, chord=c,
-                           pivot=pv, alpha_L0=alpha_L0, cm0=cm0, w_le=w_le,
-                           u_le=u_le if gust is not None and gust.streamwise else None, start=start)
-        cl_c = out["cl_c"] + out["cl_gust"]
-    else:
-        H = linear.heave_marcher(sc, motion, gust).run()
-        t, alpha, alpha_dot, h, h_dot = H["t"], H["alpha"], H["alpha_dot"], H["h"], H["h_dot"]
-        out = H
-        cl_c = H["cl_c"] + H["cl_gust"]
-
-    history = {"t": t, "chords": U * t / c, "pitch_deg": np.degrees(alpha), "height_m": h,
-               "cl": out["cl"], "cd": out["cd"], "cm": out["cm"], "cm_pivot": out["cm_pivot"],
-               "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
-               "pitch_rate_deg_s": np.degrees(alpha_dot), "height_rate_m_s": h_dot}
-    gamma_b = -0.5 * U * c * cl_c     # counter-clockwise positive, as the vortex model (L = -rho U Gamma)
-    history["gamma_bound_m2_s"] = gamma_b
-    history["gamma_wake_m2_s"] = (gamma_b[0] if start == "steady" else 0.0) - gamma_b
-    history["wake_vortices"] = np.zeros_like(t)
-    history["cl_circulatory"] = cl_c
-    for k in columns:
-        history.setdefault(k, np.full(t.shape, np.nan))
-    assert all(k in history for k in BASE_COLUMNS + EXTRA_COLUMNS)
-
-    # Observers see every row (the gust observer fills its columns here).
-    if g_obs is not None and not observers and hasattr(g_obs, "record_rows"):
-        g_obs.record_rows(t, alpha, h, h_dot)      # the same rows, in one call
-    elif extra_obs or observers:
-        for n in range(t.shape[0]):
-            loads = {k: float(history[k][n]) for k in ("cl", "cd", "cm", "cm_pivot")}
-            st = _LightState(n, float(t[n]), float(alpha[n]), float(alpha_dot[n]),
-                             float(h[n]), float(h_dot[n]), loads)
-            for o in ([g_obs] if g_obs is not None else []) + list(observers):
-                o.on_step(st)
-            for k, v in st.extra.items():
-                if k in history:
-                    history[k][n] = v
-    for o in extra_obs:
-        if hasattr(o, "finish"):
-            o.finish(history)
-    summary_extra = {}
-    for o in extra_obs:
-        if hasattr(o, "summary"):
-            summary_extra.update(o.summary(history))
-    every = max(1, steps // 200)
-    idx = np.unique(np.r_[np.arange(0, steps + 1, every), steps])
-    snapshots = {"t": t[idx], "alpha": alpha[idx], "h": h[idx],
-                 "offsets": np.zeros(idx.size + 1, dtype=np.int64),
-                 "x": np.zeros(0, np.float32), "z": np.zeros(0, np.float32),
-                 "gamma": np.zeros(0, np.float32)}
-    summary = make_summary(history, steps=steps, wall_time_s=time.perf_counter() - t_wall,
-                           extra=summary_extra)
-    summary.update(model="linear", dt=dt, start=start, elements=sc.elements,
-                   chords_travelled=float(history["chords"][-1] - history["chords"][0]))
-    add_quasi_steady(history, sc, gust)
-    summary["lag"] = lag_summary(history, sc)
-    return Result(history, summary, snapshots, sc)
+    gust = build_gust_field(sc) if sc.data.get("gust") else None
+    model = LinearModel(sc, gust, HeaveMotion(sc, sc.kinematics), **options)
+    model.motion.trim(model.steady_cl)
+    return model.marcher()

@@ -13,7 +13,7 @@ class Result:
     summary : dict
         The headline numbers (as ``summary.json``).
     snapshots : dict of str -> ndarray
-        Wake snapshots (see :class:`unsteady.observers.SnapshotRecorder`) and
+        Wake snapshots (see :class:`unsteady.simulation.observers.SnapshotRecorder`) and
         ``dcp`` (pressure-jump coefficient per step and element).
     scenario : Scenario or None
     error : str or None

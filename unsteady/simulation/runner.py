@@ -1,24 +1,32 @@
-"""Run a scenario: build geometry, motion and fields, march the model, gather a Result."""
+"""Run a scenario: one pipeline for every model (gust, heave, recorders, observers, summary) into a Result."""
 
 from __future__ import annotations
 
 import time
 
-from .observers import HistoryRecorder, SnapshotRecorder, StepProgress
+from ..analysis.lag import add_quasi_steady, lag_summary
 from ..analysis.summary import make_summary
-from .result import Result
+from ..dynamics.heave import HeaveMotion
+from ..inputs.gusts import build_gust_field
 from ..inputs.scenario import Scenario, load_scenario
-from ..vortex.solver import SolverDiverged, VortexSolver, build_body
+from . import models
+from .observers import GustObserver, HistoryRecorder, SnapshotRecorder, StepProgress
+from .result import Result
 
 
 class PrescribedMotion:
-    """Pitch and plunge given by motion laws (the solver's motion interface)."""
+    """Pitch and plunge given by motion laws (the models' motion interface)."""
 
     def __init__(self, kinematics):
         self.kin = kinematics
 
     def state(self, t):
+        """(alpha, alpha_dot, h, h_dot) at time(s) t (rad, rad/s, m, m/s)."""
         return self.kin.state(t)
+
+    def accel(self, t):
+        """(alpha_ddot, h_ddot) at time(s) t (rad/s^2, m/s^2)."""
+        return self.kin.accel(t)
 
     def after_step(self, t, dt, loads):
         pass
@@ -33,79 +41,79 @@ def snapshot_interval(sc: Scenario) -> int:
 
 
 def simulate(scenario, observers=(), *, progress=False):
-    """Run a scenario and return its :class:`~unsteady.results.Result`.
+    """Run a scenario with the model of ``[run] model`` and return its :class:`~unsteady.simulation.result.Result`.
+
+    The one pipeline for every registered model
+    (:class:`~unsteady.simulation.models.Model`): it builds the gust field
+    and the motion (free heave with ``[aircraft]``, trimmed on the model's
+    steady lift), records the history and the snapshots, marches the model
+    with the observers, then adds the gust and heave columns, the summary,
+    the quasi-steady column and the lag metrics.
 
     Parameters
     ----------
     scenario : Scenario, dict, str or Path
         A checked scenario, or something :func:`load_scenario` accepts.
     observers : sequence
-        Extra time-loop observers (``on_step(state)``, optional ``on_start``,
-        ``on_end``).
+        Extra time-loop observers.  Each has ``on_step(state)`` (a
+        :class:`~unsteady.vortex.solver.StepState`; a model without wake
+        gives empty wake and body arrays) and any of ``on_start(model)``,
+        ``on_end(model)`` (also when the run diverges), ``finish(history)``
+        (called once the history is complete, quasi-steady column included;
+        it may add columns, one value per row) and ``summary(history)``
+        (its dict is merged into the summary, after the built-in keys).
     progress : bool
         Show a progress bar on stderr (only drawn when stderr is a terminal).
 
-    A run whose state stops being finite returns the steps computed so far
-    with ``Result.error`` set (it does not raise).
+    Returns
+    -------
+    Result
+        A run whose state stops being finite returns the steps computed so
+        far with ``Result.error`` set (it does not raise).
     """
     sc = scenario if isinstance(scenario, Scenario) else load_scenario(scenario)
-    model = sc.data["run"].get("model", "vortex")
-    if model != "vortex":
-        from . import models
-        return models.get(model)(sc, observers=observers, progress=progress)
     t_wall = time.perf_counter()
-    body = build_body(sc)
-    motion = PrescribedMotion(sc.kinematics)
-    gust = None
-    extra_obs = []
-    columns = []
-    summary_extra = {}
-    if sc.data.get("gust"):
-        from ..inputs.gusts import build_gust_field, GustObserver
-        gust = build_gust_field(sc)
-        g_obs = GustObserver(gust, sc)
-        extra_obs.append(g_obs)
-        columns += g_obs.columns
-    if sc.data.get("aircraft"):
-        from ..dynamics.heave import HeaveMotion
-        motion = HeaveMotion(sc, sc.kinematics)
-        columns += motion.columns
-        extra_obs.append(motion)
-    steps = sc.steps
-    run = sc.data["run"]
-    solver = VortexSolver(body, motion, speed=sc.speed, density=sc.density, dt=sc.dt,
-                          steps=steps, wake=run["wake"], start=run["start"], gust=gust,
-                          shed_offset=run.get("shed_offset", 0.3),
-                          core_radius=run.get("core_radius"),
-                          far_wake=run.get("far_wake"))
-    rec = HistoryRecorder(steps, sc.elements, sc.speed, sc.chord, columns)
-    snaps = SnapshotRecorder(snapshot_interval(sc), steps)
-    obs = [rec, snaps] + extra_obs + list(observers)
+    cls = models.get(sc.data["run"].get("model", "vortex"))
+    gust = build_gust_field(sc) if sc.data.get("gust") else None
+    heave = HeaveMotion(sc, sc.kinematics) if sc.data.get("aircraft") else None
+    model = cls(sc, gust, heave if heave is not None else PrescribedMotion(sc.kinematics))
+    if heave is not None:
+        heave.trim(model.steady_cl)
+    builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
+    columns = list(cls.COLUMNS)
+    for o in builtin:
+        columns += [k for k in o.columns if k not in columns]
+    rec = HistoryRecorder(sc.steps, sc.speed, sc.chord, columns)
+    snaps = SnapshotRecorder(snapshot_interval(sc), sc.steps)
+    step_obs = [rec, snaps] + [o for o in builtin if hasattr(o, "on_step")] + list(observers)
     if progress:
-        obs.append(StepProgress(steps, label="run"))
-    error = None
-    try:
-        solver.run(obs)
-    except SolverDiverged as exc:
-        error = str(exc)
+        step_obs.append(StepProgress(sc.steps, label="run"))
+    error = model.run(step_obs)
     history = rec.history()
-    for o in extra_obs:
+    summary = _summarise(model, history, builtin, rec.count - 1, time.perf_counter() - t_wall, error)
+    snapshots = snaps.arrays()
+    snapshots.update(model.snapshot_extras())
+    add_quasi_steady(history, sc, gust)           # quasi-steady column, lag metrics, validity flag
+    summary["lag"] = lag_summary(history, sc)
+    for o in observers:
         if hasattr(o, "finish"):
             o.finish(history)
-    snapshots = snaps.arrays()
-    snapshots["dcp"] = rec.dcp[:rec.count]
-    snapshots["x_dcp"] = (body.xi_0 + 0.5 * body.ds * body.t_xi) / sc.chord + sc.pivot   # element mid-points
-    for o in extra_obs:
+    for o in observers:
         if hasattr(o, "summary"):
-            summary_extra.update(o.summary(history))
-    summary = make_summary(history, steps=rec.count - 1, wall_time_s=time.perf_counter() - t_wall,
-                           extra=summary_extra)
+            summary.update(o.summary(history))
+    return Result(history, summary, snapshots, sc, error=error)
+
+
+def _summarise(model, history, builtin, steps, wall_time_s, error):
+    """Fill the built-in observers' columns and build the summary (before the lag block)."""
+    for o in builtin:
+        o.finish(history)
+    extra = {}
+    for o in builtin:
+        extra.update(o.summary(history))
+    summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra)
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
-    summary.update(model="vortex", dt=sc.dt, wake=run["wake"], start=run["start"],
-                   elements=sc.elements, far_wake_chords=run.get("far_wake"), chords_travelled=travelled)
+    summary.update(model=model.name, **model.summary(), chords_travelled=travelled)
     if error:
         summary["error"] = error
-    from ..analysis.lag import add_quasi_steady, lag_summary  # quasi-steady column, lag metrics, validity flag
-    add_quasi_steady(history, sc)
-    summary["lag"] = lag_summary(history, sc)
-    return Result(history, summary, snapshots, sc, error=error)
+    return summary

@@ -11,6 +11,7 @@ __all__ = [
     "GUST_CAUTION",
     "theodorsen",
     "theodorsen_loads",
+    "apparent_mass",
     "wagner",
     "wagner_exact_point",
     "wagner_jones",
@@ -76,6 +77,40 @@ def theodorsen(k):
     return complex(C) if C.ndim == 0 else C
 
 
+def apparent_mass(hT_ddot, alpha_dot, alpha_ddot, a):
+    """Theodorsen's non-circulatory (apparent-mass) lift and pitching moment of a thin section.
+
+    In the nondimensional derivatives of T. Theodorsen, NACA Report 496, 1935
+    (the pi rho b^2 terms of P and M_alpha; h_T positive down)::
+
+        cl_nc = pi (h_T'' + alpha' - a alpha'')
+        M_nc  = pi (a h_T'' - (1/2 - a) alpha' - (1/8 + a^2) alpha'')
+
+    with h_T'' = b h_T''/U^2, alpha' = b alpha'/U, alpha'' = b^2 alpha''/U^2
+    (b = c/2), a the pitch axis aft of mid-chord in semichords,
+    cl_nc = L_nc / (rho U^2 b) and M_nc = M_nc / (rho U^2 b^2) = 2 cm_nc about
+    the pitch axis (nose-up).  The one copy of these terms: the harmonic loads
+    (:func:`theodorsen_loads`), the linear model's sums and its compiled march
+    (through a numba-compiled twin of this function) call it.  Plain
+    arithmetic, so real or complex scalars and arrays alike.
+
+    Parameters
+    ----------
+    hT_ddot, alpha_dot, alpha_ddot : float, complex or array_like
+        b h_T''/U^2, b alpha'/U and b^2 alpha''/U^2 (h_T = -h of this program).
+    a : float or array_like
+        Pitch axis aft of mid-chord, semichords (a = 2 pivot - 1).
+
+    Returns
+    -------
+    cl_nc, M_nc
+        Apparent-mass lift coefficient and 2 cm_nc about the pitch axis.
+    """
+    cl_nc = np.pi * (hT_ddot + alpha_dot - a * alpha_ddot)
+    M_nc = np.pi * (a * hT_ddot - (0.5 - a) * alpha_dot - (0.125 + a * a) * alpha_ddot)
+    return cl_nc, M_nc
+
+
 def theodorsen_loads(k, alpha_amp=0.0, h_amp_c=0.0, pivot=0.25, moment_ref=0.25):
     """Complex lift and moment amplitudes of a harmonically pitching and plunging section.
 
@@ -139,11 +174,10 @@ def theodorsen_loads(k, alpha_amp=0.0, h_amp_c=0.0, pivot=0.25, moment_ref=0.25)
     alpha_ddot = -(k**2) * alpha_hat
     Q = hT_dot + alpha_hat + (0.5 - a) * alpha_dot  # 3/4-chord downwash / U
     # L / (rho U^2 b) = cl  (since 0.5 rho U^2 c = rho U^2 b)
-    cl_nc = np.pi * (hT_ddot + alpha_dot - a * alpha_ddot)
+    # M_a / (rho U^2 b^2) = 2 cm_pivot  (since 0.5 rho U^2 c^2 = 2 rho U^2 b^2)
+    cl_nc, M_nc = apparent_mass(hT_ddot, alpha_dot, alpha_ddot, a)
     cl_c = 2.0 * np.pi * C * Q
     cl_hat = cl_nc + cl_c
-    # M_a / (rho U^2 b^2) = 2 cm_pivot  (since 0.5 rho U^2 c^2 = 2 rho U^2 b^2)
-    M_nc = np.pi * (a * hT_ddot - (0.5 - a) * alpha_dot - (0.125 + a**2) * alpha_ddot)
     M_c = 2.0 * np.pi * (a + 0.5) * C * Q
     cm_pivot = 0.5 * (M_nc + M_c)
     # Transfer: M_ref = M_pivot + L (x_ref - x_pivot), lift up, x aft, nose-up.
@@ -954,3 +988,4 @@ def naca4_slope(m, p, x):
     else:
         dz = np.where(x < p, 2.0 * m / p**2 * (p - x), 2.0 * m / (1.0 - p) ** 2 * (p - x))
     return float(dz) if dz.ndim == 0 else dz
+

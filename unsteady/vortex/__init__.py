@@ -1,1 +1,1 @@
-"""vortex."""
+"""The discrete-vortex model: Biot-Savart kernels, bodies, shedding sites, the bordered solve, loads, the time march."""
