@@ -24,7 +24,7 @@ __all__ = ["write_report", "folder_kind", "check_report_path", "run_page", "swee
 MARK = '<meta name="generator" content="unsteady report">'
 #: Size (pixels) and most frames of a film made for a page when the run has none.
 FILM_SIZE = (960, 540)
-FILM_FRAMES = 240
+FILM_FRAMES = 200
 #: A run's own film.mp4 above this size is not embedded (a smaller one is made).
 FILM_BYTES_LIMIT = 25 * 2 ** 20
 SUMMARY_REQUIRED = ("cl_max", "cl_min", "t_cl_max", "cm_max", "cm_min", "steps", "version")
