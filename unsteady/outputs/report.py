@@ -566,7 +566,8 @@ body{font-size:10.5pt}
 main{max-width:none;padding:0}
 nav,video,.screen-only{display:none}
 .print-only{display:block}
-figure.big{break-before:page}
+section#film,section#pictures,section#envelope{break-before:page}
+figure img{max-height:205mm;width:auto;max-width:100%}
 h2,h3{break-after:avoid}
 tr{break-inside:avoid}
 pre{white-space:pre-wrap}
@@ -607,9 +608,8 @@ def _nav(items):
     return f"<nav><strong>Contents</strong><ol>{links}</ol></nav>"
 
 
-def _figure(uri, caption, alt, big=False):
-    cls = " class=\"big\"" if big else ""
-    return (f"<figure{cls}><img src=\"{uri}\" alt=\"{_e(alt)}\">"
+def _figure(uri, caption, alt):
+    return (f"<figure><img src=\"{uri}\" alt=\"{_e(alt)}\">"
             f"<figcaption>{caption}</figcaption></figure>")
 
 
@@ -758,7 +758,7 @@ def film_html(film):
     if film.poster:
         poster = (f"<img class=\"print-only\" src=\"{data_uri(film.poster, 'image/png')}\" "
                   "alt=\"one frame of the film\">")
-    return (f"<figure class=\"big\" id=\"the-film\"><video controls muted loop preload=\"auto\" "
+    return (f"<figure id=\"the-film\"><video controls muted loop preload=\"auto\" "
             f"width=\"{film.width}\" height=\"{film.height}\" src=\"{data_uri(film.blob, 'video/mp4')}\">"
             f"</video>{poster}<figcaption>{cap}</figcaption></figure>")
 
@@ -767,7 +767,7 @@ def pictures_html(pictures):
     if not pictures:
         return "<p>The run has no pictures and none could be drawn.</p>"
     figs = [_figure(data_uri(blob, "image/png"), f"<strong>{_e(name)}</strong>: {_e(CAPTIONS.get(name, ''))}",
-                    name, big=i > 0) for i, (name, blob) in enumerate(pictures)]
+                    name) for name, blob in pictures]
     return "\n".join(figs)
 
 
