@@ -24,6 +24,7 @@ COMMANDS = {
     "animate": ("animate", "turn a run directory into a film (MP4 or GIF)"),
     "pictures": ("pictures", "redraw the PNG pictures of a run directory"),
     "compare": ("compare", "overlay the histories and loops of several runs and tabulate their lag metrics"),
+    "report": ("report", "write one self-contained HTML page (pictures, film) of a run or a sweep folder"),
 }
 
 

@@ -5,7 +5,9 @@ from __future__ import annotations
 import time
 
 from ..analysis.lag import add_quasi_steady, lag_summary
+from ..analysis.loads import add_dimensional_loads
 from ..analysis.summary import make_summary
+from ..analysis.turbulence import turbulence_summary
 from ..dynamics.heave import HeaveMotion
 from ..inputs.gusts import build_gust_field
 from ..inputs.scenario import Scenario, load_scenario
@@ -111,9 +113,20 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
     extra = {}
     for o in builtin:
         extra.update(o.summary(history))
-    summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra)
+    sc = model.sc
+    extra.update(add_dimensional_loads(history, sc))      # lift_N, cl_wing, root_bending_Nm
+    extra.update(turbulence_summary(history, sc))         # n_rms, A_bar, N0 in turbulence
+    summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra,
+                           impulse_times=_singular_times(sc), dt=sc.dt)
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
     summary.update(model=model.name, **model.summary(), chords_travelled=travelled)
     if error:
         summary["error"] = error
     return summary
+
+
+def _singular_times(sc):
+    """Instants at which the prescribed motion changes instantly (none for a motion object
+    that does not say, such as a test's stand-in)."""
+    fn = getattr(sc.kinematics, "singular_times", None)
+    return fn() if fn is not None else []
