@@ -180,5 +180,7 @@ def test_the_loader_checks_what_the_caller_needs(saved_run):
     assert res.scenario is None and len(res.history["t"]) > 10
     with pytest.raises(UsageError, match=r"scenario.toml: missing"):
         load_run(saved_run, need=("scenario.toml",))
-    with pytest.raises(UsageError, match=r"history.csv: column 'lift_N' is missing"):
+    with pytest.raises(UsageError, match=r"history.csv: lacks the column\(s\) lift_N"):
         load_run(saved_run, columns=("cl", "lift_N"))
+    with pytest.raises(UsageError, match=r"summary.json: lacks the key\(s\) n_max"):
+        load_run(saved_run, keys=("cl_max", "n_max"))

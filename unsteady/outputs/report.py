@@ -6,7 +6,6 @@ import base64
 import csv
 import datetime
 import html
-import json
 import os
 import sys
 import tempfile
@@ -15,6 +14,7 @@ from pathlib import Path
 
 from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SWEEP_CAUTION
 from ..core.errors import UsageError
+from ..core.files import write_text
 from ..core.version import __version__
 
 __all__ = ["write_report", "folder_kind", "check_report_path", "run_page", "sweep_page",
@@ -80,43 +80,6 @@ def check_report_path(out):
     return out
 
 
-def _read_summary(folder):
-    path = folder / "summary.json"
-    if not path.is_file():
-        raise UsageError(f"error: {folder}: summary.json: missing; give a folder written by 'unsteady run'")
-    try:
-        summary = json.loads(path.read_text())
-    except (OSError, UnicodeDecodeError, ValueError) as exc:
-        raise UsageError(f"error: {folder}: summary.json: damaged ({type(exc).__name__}: "
-                         f"{str(exc)[:120]}); rerun the scenario") from None
-    if not isinstance(summary, dict):
-        raise UsageError(f"error: {folder}: summary.json: damaged (not a JSON object); rerun the scenario")
-    lacking = [k for k in SUMMARY_REQUIRED if k not in summary]
-    if lacking:
-        raise UsageError(f"error: {folder}: summary.json: lacks {', '.join(lacking)}; "
-                         "give a run directory written by 'unsteady run'")
-    return summary
-
-
-def _read_history(folder):
-    from .rundir import read_history_csv
-    path = folder / "history.csv"
-    if not path.is_file():
-        raise UsageError(f"error: {folder}: history.csv: missing; give a folder written by 'unsteady run'")
-    try:
-        hist = read_history_csv(path)
-    except (OSError, UnicodeDecodeError, ValueError, IndexError) as exc:
-        raise UsageError(f"error: {folder}: history.csv: damaged ({type(exc).__name__}: "
-                         f"{str(exc)[:120]}); rerun the scenario") from None
-    lacking = [k for k in HISTORY_REQUIRED if k not in hist]
-    if lacking:
-        raise UsageError(f"error: {folder}: history.csv: lacks the column(s) {', '.join(lacking)}; "
-                         "give a run directory written by 'unsteady run'")
-    if len(hist["t"]) == 0:
-        raise UsageError(f"error: {folder}: history.csv: holds no time step; rerun the scenario")
-    return hist
-
-
 @dataclass
 class RunInput:
     """A run folder read for its page: the Result and what could not be read, in words."""
@@ -128,37 +91,34 @@ class RunInput:
 
 
 def read_run(folder):
-    """Read a run folder for its page; missing or damaged summary/history raise UsageError."""
-    from ..simulation.result import Result
-    from .rundir import load_run
+    """Read a run folder for its page (:func:`unsteady.outputs.rundir.load_run`).
+
+    A missing or damaged summary or history raises UsageError; snapshots and
+    scenario that cannot be read are said in ``notes`` (the page then has no
+    film, or no scenario description).
+    """
+    from .rundir import ALWAYS, load_run, read_run_scenario, read_snapshots
     folder = Path(folder)
-    summary = _read_summary(folder)
-    history = _read_history(folder)
+    res = load_run(folder, columns=HISTORY_REQUIRED, keys=SUMMARY_REQUIRED, read=ALWAYS)
+    if len(res.history["t"]) == 0:
+        raise UsageError(f"error: {folder}: history.csv: holds no time step; rerun the scenario")
     notes = []
-    try:
-        res = load_run(folder)
-    except Exception as exc:   # history and summary read above: what is left is the snapshots
-        notes.append(f"snapshots.npz cannot be read ({type(exc).__name__}: {exc}): no film")
-        res = Result(history, summary, {}, None)
+    if (folder / "snapshots.npz").is_file():
+        try:
+            res.snapshots = read_snapshots(folder / "snapshots.npz")
+        except Exception as exc:   # damaged snapshots: the page goes without a film
+            notes.append(f"snapshots.npz cannot be read ({type(exc).__name__}: {exc}): no film")
     text = ""
     toml = folder / "scenario.toml"
     if toml.is_file():
         text = toml.read_text(errors="replace")
-        if res.scenario is None:
-            res.scenario = _scenario_or_note(toml, notes)
+        try:
+            res.scenario = read_run_scenario(toml)
+        except Exception as exc:
+            notes.append(f"scenario.toml cannot be read back ({exc}): the scenario cannot be described")
     else:
         notes.append("the run folder holds no scenario.toml: the scenario cannot be described and no film made")
     return RunInput(folder, res, notes, text)
-
-
-def _scenario_or_note(toml, notes):
-    from ..inputs.scenario import load_scenario
-    try:
-        return load_scenario(toml)
-    except Exception as exc:
-        why = "; ".join(p.line() for p in getattr(exc, "problems", ())) or f"{type(exc).__name__}: {exc}"
-        notes.append(f"scenario.toml cannot be read back ({why}): the scenario cannot be described")
-        return None
 
 
 # ---------------------------------------------------------------------------
@@ -975,24 +935,5 @@ def write_report(folder, out=None, *, film=True, progress=False):
         text, film = run_page(folder, film=film, progress=show, say=say)
     else:
         text, film = sweep_page(folder, say=say), None
-    atomic_write_text(out, text)
+    write_text(out, text)
     return out, kind, film
-
-
-def atomic_write_text(path, text):
-    """Write ``text`` to ``path`` through a temporary file in the same folder (removed on failure)."""
-    path = Path(path)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.absolute().parent)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as f:
-            f.write(text)
-        mask = os.umask(0)
-        os.umask(mask)
-        os.chmod(tmp, 0o666 & ~mask)
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise

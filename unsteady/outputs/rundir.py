@@ -49,7 +49,7 @@ def save_run(result, out_dir, plots=True):
     return out_dir
 
 
-def load_run(run_dir, need=(), columns=(), read=RUN_FILES):
+def load_run(run_dir, need=(), columns=(), read=RUN_FILES, keys=()):
     """Read a run directory written by :func:`save_run`, checking what the caller needs.
 
     Parameters
@@ -61,6 +61,8 @@ def load_run(run_dir, need=(), columns=(), read=RUN_FILES):
         one wake snapshot).
     columns : sequence of str
         History columns that must be there.
+    keys : sequence of str
+        Summary keys that must be there.
     read : sequence of str
         Files to read when present (the others are left alone: a caller that
         needs no scenario does not pay for loading one).
@@ -74,7 +76,7 @@ def load_run(run_dir, need=(), columns=(), read=RUN_FILES):
     ------
     UsageError
         ``error: <run_dir>: <file>: <what is wrong>`` for a missing folder or
-        file, a damaged or truncated file, a missing column.
+        file, a damaged or truncated file, a missing column or summary key.
     """
     d = Path(run_dir)
     if not d.is_dir():
@@ -92,20 +94,22 @@ def load_run(run_dir, need=(), columns=(), read=RUN_FILES):
             except UsageError:
                 raise
             except Exception as exc:        # damaged, truncated, not what a run writes
-                raise UsageError(f"error: {d}: {name}: cannot be read ({_why(exc)}); "
-                                 "rerun the scenario to write it again") from None
-    history = parts["history.csv"]
-    for k in columns:
-        if k not in history:
-            raise UsageError(f"error: {d}: history.csv: column '{k}' is missing; rerun the scenario")
+                raise UsageError(f"error: {d}: {name}: damaged ({_why(exc)}); rerun the scenario") from None
+    history, summary = parts["history.csv"], parts["summary.json"]
+    for name, have, want, what in (("history.csv", history, columns, "the column(s)"),
+                                   ("summary.json", summary, keys, "the key(s)")):
+        lacking = [k for k in want if k not in have]
+        if lacking:
+            raise UsageError(f"error: {d}: {name}: lacks {what} {', '.join(lacking)}; "
+                             "give a run directory written by 'unsteady run'")
     snaps = parts.get("snapshots.npz", {})
     if "snapshots.npz" in need and (len(snaps.get("t", ())) == 0 or "offsets" not in snaps):
         raise UsageError(f"error: {d}: snapshots.npz: holds no wake snapshots; rerun the scenario")
-    return Result(history, parts["summary.json"], snaps, parts.get("scenario.toml"))
+    return Result(history, summary, snaps, parts.get("scenario.toml"))
 
 
 def _why(exc):
-    text = str(exc).strip()
+    text = str(exc).strip()[:160]
     if isinstance(exc, ValueError) and text:
         return text
     return f"{type(exc).__name__}: {text}" if text else type(exc).__name__
