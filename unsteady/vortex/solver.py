@@ -303,16 +303,16 @@ class VortexSolver:
         """Stage 1: motion state, refactor if a body moved, bodies placed, sites located."""
         s.alpha, s.alpha_dot, s.h, s.h_dot = self.motion.state(s.t)
         self.system.refactor_if_changed(s.t)
-        N = self.system.n
-        s.tx, s.tz = np.empty(2 * N), np.empty(2 * N)
-        s.nx, s.nz = np.empty(N), np.empty(N)
-        for model, sl in zip(self.models, self.system.slices):
+        placed = []
+        for model in self.models:
             p = model.points(s.t)
-            vl = slice(N + sl.start, N + sl.stop)
-            s.tx[vl], s.tz[vl] = to_inertial(p.xi_v, p.zeta_v, s.alpha, s.h)
-            s.tx[sl], s.tz[sl] = to_inertial(p.xi_c, p.zeta_c, s.alpha, s.h)
-            s.nx[sl], s.nz[sl] = rotate(p.n_xi, p.n_zeta, s.alpha)
-        s.xc, s.zc, s.xv, s.zv = s.tx[:N], s.tz[:N], s.tx[N:], s.tz[N:]
+            placed.append(to_inertial(p.xi_c, p.zeta_c, s.alpha, s.h)
+                          + to_inertial(p.xi_v, p.zeta_v, s.alpha, s.h)
+                          + rotate(p.n_xi, p.n_zeta, s.alpha))
+        columns = placed[0] if len(placed) == 1 else [np.concatenate(c) for c in zip(*placed)]
+        s.xc, s.zc, s.xv, s.zv, s.nx, s.nz = columns
+        s.tx = np.concatenate((s.xc, s.xv))       # the targets of stage 2
+        s.tz = np.concatenate((s.zc, s.zv))
         for site in self.sites:
             site.locate(s)
 
@@ -384,7 +384,7 @@ class VortexSolver:
         uv -= s.alpha_dot * (s.zv - s.h)
         wv -= s.h_dot - s.alpha_dot * s.xv
         xs, zs, gs = self.store.sources()
-        far = self.far.total()
+        s.far_total = far = self.far.total()
         s.loads = []
         for hist, sl in zip(self.load_histories, self.system.slices):
             row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
@@ -402,7 +402,7 @@ class VortexSolver:
                           gamma_bound=s.gamma, x_wake=wx, z_wake=wz, gamma_wake=wg,
                           x_body=s.xv, z_body=s.zv, loads=s.loads[0],
                           dcp=self.load_histories[0].dcp_last,
-                          extra={"gamma_start": self.gamma_start, "gamma_far": far.total(),
+                          extra={"gamma_start": self.gamma_start, "gamma_far": s.far_total,
                                  "x_te": te.x, "z_te": te.z},
                           wake_site=st.site[:st.m], far_x=far.x[:far.n], far_z=far.z[:far.n],
                           far_gamma=far.g[:far.n], far_site=far.site[:far.n], body_loads=s.loads)
@@ -430,8 +430,8 @@ class VortexSolver:
             return
         k = self.lump_n
         for site in self.sites:
-            idx, have = self.store.oldest(site.index, k)
-            if have > k + 1 and self.store.x[self.store.nb + idx[-1]] > site.x + self.far_wake:
+            idx, x_young = self.store.oldest(site.index, k)
+            if idx is not None and x_young > site.x + self.far_wake:
                 gx, gz, gg = self.store.remove(idx)
                 for hist in self.load_histories:
                     hist.retire(gx, gz, gg)

@@ -1,4 +1,4 @@
-"""The bordered linear system of a step: the bodies' factored influence matrix and its Schur-complement solve."""
+"""The bordered system of a step: the bodies' factored influence matrix and its Schur-complement solve."""
 
 from __future__ import annotations
 
@@ -41,21 +41,22 @@ def solve_bordered(a_inv, reduced_rows, columns, d, r, e):
     -------
     g : (N,) array
         Bound circulations (m^2/s).
-    s : (k,) array
+    s : sequence of k floats
         Strengths of the new vortices (m^2/s).
     """
     k = len(columns)
     if k == 0:
-        return a_inv @ r, np.zeros(0)
+        return a_inv @ r, ()
+    if k == 1:                                  # the common case, in scalars
+        row, col = reduced_rows[0], columns[0]
+        s = (e[0] - row @ r) / (d[0][0] - row @ col)
+        return a_inv @ (r - col * s), (s,)
     schur = np.empty((k, k))
     rhs = np.empty(k)
     for i in range(k):
         rhs[i] = e[i] - reduced_rows[i] @ r
         for j in range(k):
             schur[i, j] = d[i][j] - reduced_rows[i] @ columns[j]
-    if k == 1:
-        s = rhs / schur[0, 0]
-        return a_inv @ (r - columns[0] * s[0]), s
     s = np.linalg.solve(schur, rhs)
     return a_inv @ (r - s @ np.asarray(columns)), s
 
@@ -97,9 +98,10 @@ class BodySystem:
 
     def refactor_if_changed(self, t):
         """Rebuild and refactor the matrix if any body's points moved; True if it did."""
-        if any(m.changed(t) for m in self.models):
-            self._factor(t)
-            return True
+        for m in self.models:
+            if m.changed(t):
+                self._factor(t)
+                return True
         return False
 
     def kelvin_row(self, body):

@@ -112,24 +112,29 @@ class VortexStore:
         self.new = 0
 
     def oldest(self, site, count):
-        """Wake indices of the ``count`` oldest vortices shed by ``site``, and how many it has."""
+        """The ``count`` oldest vortices shed by ``site``: their wake indices, or None if it has
+        no more than ``count + 1``, and the x (m) of the youngest of them."""
         if self.single_site:
-            return np.arange(min(count, self.m)), self.m
+            if self.m <= count + 1:
+                return None, 0.0
+            return slice(0, count), self.x[self.nb + count - 1]
         own = np.flatnonzero(self.site[:self.m] == site)
-        return own[:count], own.size
+        if own.size <= count + 1:
+            return None, 0.0
+        return own[:count], self.x[self.nb + own[count - 1]]
 
     def remove(self, idx):
-        """Take wake vortices ``idx`` out of the store; returns copies of their ``(x, z, gamma)``."""
+        """Take wake vortices ``idx`` (a slice or indices) out; returns copies of their ``(x, z, gamma)``."""
         m, nb = self.m, self.nb
-        gone = (self.x[nb + idx], self.z[nb + idx], self.g[nb + idx])
         keep = np.ones(m, dtype=bool)
         keep[idx] = False
-        for arr in (self.x, self.z, self.g):
-            arr[nb:nb + m - idx.size] = arr[nb:nb + m][keep]
-        for arr in (self.site, self.prev_u, self.prev_w):
-            arr[:m - idx.size] = arr[:m][keep]
-        self.m -= idx.size
-        return gone
+        gone = ~keep
+        wx, wz, wg = self.wake()
+        out = (wx[gone], wz[gone], wg[gone])
+        for arr in (wx, wz, wg, self.site[:m], self.prev_u[:m], self.prev_w[:m]):
+            arr[:keep.sum()] = arr[keep]
+        self.m = int(keep.sum())
+        return out
 
 
 class FarWake:
@@ -164,7 +169,8 @@ class FarWake:
         wgt = gg if abs(G) > 0.5 * np.abs(gg).sum() else np.abs(gg)
         if self.n == self.x.shape[0]:
             cap = 2 * self.n
-            self.x, self.z, self.g, self.site = (np.resize(a, cap) for a in (self.x, self.z, self.g, self.site))
+            self.x, self.z, self.g, self.site = (np.resize(a, cap)
+                                                 for a in (self.x, self.z, self.g, self.site))
         i = self.n
         self.x[i] = (wgt * gx).sum() / wgt.sum() if wgt.sum() != 0 else gx.mean()
         self.z[i] = (wgt * gz).sum() / wgt.sum() if wgt.sum() != 0 else gz.mean()
