@@ -108,7 +108,20 @@ class Body:
 
 
 def to_inertial(xi, zeta, alpha, h):
-    """Body coordinates -> computation frame (x, z) at pitch alpha, height h."""
+    """Body coordinates -> computation frame (x, z) at pitch alpha, height h.
+
+    The computation runs in a frame that follows the aircraft's mean flight,
+    so the air streams past at ``+U`` along x; z is up.  The pitch axis
+    (pivot) sits at x = 0 and at height ``h(t)``.  A body point with body
+    coordinates (xi, zeta) (xi aft of the pivot along the chord, zeta up,
+    both at zero pitch) lies at::
+
+        x = xi cos(alpha) + zeta sin(alpha)
+        z = h - xi sin(alpha) + zeta cos(alpha)
+
+    with ``alpha`` nose-up; its velocity is ``(alpha_dot (z - h), h_dot -
+    alpha_dot x)``.
+    """
     ca, sa = math.cos(alpha), math.sin(alpha)
     return xi * ca + zeta * sa, h - xi * sa + zeta * ca
 

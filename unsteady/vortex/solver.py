@@ -66,11 +66,12 @@ class Step:
     """The working record of one time step, filled in by the stages in turn.
 
     ``n, t`` and the motion ``alpha, alpha_dot, h, h_dot`` (place); the
-    placed points ``tx, tz`` (collocation points of all bodies, then their
-    vortex points) and collocation normals ``nx, nz`` (place); the air's
-    velocity ``u_air, w_air`` at ``tx, tz`` (air velocities); ``proposals``
-    (shed); ``gamma`` of the bound vortices and each proposal's strength
-    (solve); ``loads`` of each body (loads).
+    placed collocation points ``xc, zc``, their normals ``nx, nz`` and the
+    vortex points ``xv, zv`` of all bodies in body order, and ``tx, tz``
+    (collocation points, then vortex points) (place); the air's velocity
+    ``u_air, w_air`` at ``tx, tz`` (air velocities); ``proposals`` (shed);
+    ``gamma`` of the bound vortices and each proposal's strength (solve);
+    ``loads``, one dict per body, and ``far_total`` (loads).
     """
 
     def __init__(self, n, t):
@@ -138,7 +139,10 @@ class VortexSolver:
     3. ``locate(step)``: its position ``x, z`` now (the far wake measures its
        wake's distance from there).
     4. ``sheds(step)``: whether it sheds this step (a suction criterion such
-       as LESP decides here; a site that does not shed adds no row).
+       as LESP decides here; a site that does not shed adds no row).  Sites
+       are asked in list order and ``step.proposals`` already holds the
+       earlier sites' proposals, so a criterion site placed after its body's
+       Kelvin site can make a trial :func:`solve_bordered` without itself.
     5. ``propose(step)``: where its new vortex goes.
     6. ``border_row(step, proposals)``: ``(c A^-1, d, e)``, its row over the
        bound circulations already reduced by the inverse body matrix (use
