@@ -17,29 +17,34 @@ import numpy as np
 from ..core.cautions import MODEL_CAUTION
 from ..core.version import __version__
 
-#: Rows with T - 0.5 dt < t < T + 2.5 dt of an instantaneous change at T are left out of
-#: the peaks: the vortex model's pressure route carries the impulse on the first two rows
-#: at or after T (a second-order backward difference of the potential jump).
-IMPULSE_WINDOW = (0.5, 2.5)
+#: Rows with T - 0.5 dt < t < T + max(2.5 dt, 0.1 c / U) of an instantaneous change at T are
+#: left out of the peaks: the vortex model's pressure route carries the impulse on the first
+#: two rows at or after T (a second-order backward difference of the potential jump), and the
+#: circulatory response right after a jump of the motion is resolved only as the step
+#: shrinks, so a fixed tenth of a chord of travel is left out too (the peaks then converge).
+IMPULSE_WINDOW = (0.5, 2.5, 0.1)
 
 
-def impulse_mask(t, times, dt):
-    """True on the rows inside the window of any of ``times`` (see :data:`IMPULSE_WINDOW`)."""
+def impulse_mask(t, times, dt, chord_time=0.0):
+    """True on the rows inside the window of any of ``times`` (see :data:`IMPULSE_WINDOW`);
+    ``chord_time`` = c / U, s."""
     t = np.asarray(t, dtype=float)
     out = np.zeros(t.shape, dtype=bool)
-    lo, hi = IMPULSE_WINDOW
+    lo, hi, chords = IMPULSE_WINDOW
     for T in times:
-        out |= (t > T - lo * dt) & (t < T + hi * dt)
+        out |= (t > T - lo * dt) & (t < T + max(hi * dt, chords * chord_time))
     return out
 
 
-def apparent_mass_impulses(history, times, dt):
+def apparent_mass_impulses(history, times, dt, chord_time=0.0):
     """Per instant T: ``t_s``, and the integrals (s) of cl and cm above the straight line
-    joining the rows on either side of its window (``cl_impulse_s``, ``cm_impulse_s``)."""
+    joining the rows on either side of its window (``cl_impulse_s``, ``cm_impulse_s``).
+
+    With ``chord_time`` 0 the window is the few steps that carry the impulse itself."""
     t = np.asarray(history["t"], dtype=float)
     out = []
     for T in times:
-        idx = np.nonzero(impulse_mask(t, [T], dt))[0]
+        idx = np.nonzero(impulse_mask(t, [T], dt, chord_time))[0]
         if idx.size == 0 or idx[0] == 0 or idx[-1] + 1 >= t.size:
             continue
         a, b = idx[0] - 1, idx[-1] + 1
@@ -63,7 +68,7 @@ def _peaks(s, name, y, t, keep):
               f"{name}_min": float(y[i_min]), f"t_{name}_min": float(t[i_min])})
 
 
-def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None):
+def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None, chord_time=0.0):
     """Headline numbers of a history (keys as in the public interface).
 
     Parameters
@@ -78,13 +83,15 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
         (:meth:`unsteady.inputs.motion.Kinematics.singular_times`); needs ``dt``.
     dt : float, optional
         Time step (s).
+    chord_time : float, optional
+        c / U (s), for the window after an instantaneous change.
     """
     cl = np.asarray(history["cl"], dtype=float)
     t = np.asarray(history["t"], dtype=float)
     keep = np.ones(t.shape, dtype=bool)
     times = [T for T in impulse_times if t.size and t[0] <= T <= t[-1]] if dt else []
     if times:
-        keep = ~impulse_mask(t, times, dt)
+        keep = ~impulse_mask(t, times, dt, chord_time)
     s = {"version": __version__, "steps": int(steps), "wall_time_s": float(wall_time_s)}
     _peaks(s, "cl", cl, t, keep)
     cm = np.asarray(history["cm"], dtype=float)
@@ -99,8 +106,9 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
         s["impulses"] = apparent_mass_impulses(history, times, dt)
         s["impulses_note"] = ("the motion changes instantly at these times (a step or a sharp corner): "
                               "the apparent-mass force is an impulse there, given as the time integrals "
-                              "of cl and cm (s); the peaks above leave out the rows within "
-                              f"{IMPULSE_WINDOW[0]:g} step before to {IMPULSE_WINDOW[1]:g} steps after")
+                              "of cl and cm (s); the peaks above leave out the rows from "
+                              f"{IMPULSE_WINDOW[0]:g} step before to {IMPULSE_WINDOW[1]:g} steps or "
+                              f"{IMPULSE_WINDOW[2]:g} chord of travel after, whichever is longer")
     s["caution"] = MODEL_CAUTION
     if extra:
         s.update(extra)

@@ -1,48 +1,22 @@
-"""The time-marching discrete-vortex model of a thin airfoil (lumped vortices).
-
-The airfoil's camber line is cut into ``N`` straight elements, each carrying a
-lumped vortex at its quarter point with the no-penetration condition enforced
-at its three-quarter point (J. Katz & A. Plotkin, *Low-Speed Aerodynamics*,
-2nd ed., 2001, sections 11.1 and 13.8).  Every step one vortex is shed from
-the trailing edge with the strength that keeps the total circulation of body
-and wake constant (Kelvin's theorem), placed a fraction of the trailing
-edge's last-step travel behind it (common practice: 0.2-0.3).  The wake then
-moves with the local velocity (free wake, second-order Adams-Bashforth) or
-with the freestream (frozen wake).
-
-Frames: the computation runs in a frame that follows the aircraft's mean
-flight, so the air streams past at ``+U`` along x; z is up.  The pitch axis
-(pivot) sits at x = 0 and at height ``h(t)``.  A body point with body
-coordinates (xi, zeta) (xi aft of the pivot along the chord, zeta up, both at
-zero pitch) lies at::
-
-    x = xi cos(alpha) + zeta sin(alpha)
-    z = h - xi sin(alpha) + zeta cos(alpha)
-
-with ``alpha`` nose-up.  Its velocity is ``(alpha_dot (z - h), h_dot -
-alpha_dot x)``.  Circulation is counter-clockwise positive, so a lifting
-airfoil in a stream towards +x carries negative bound circulation.
-
-The airfoil is rigid, so its own influence matrix is built and factored once;
-per step only the newly shed vortex's influence (one column) changes, and the
-bordered system (no-penetration + Kelvin) is solved by the Schur complement
-of that one column.  The time loop is written as a sequence of stages
-(place bodies, shed, solve, loads, convect) over lists of bodies and
-shedding sites so that a leading-edge site, more bodies, a ground image or
-thick panels can be added as further stages.
-"""
+"""The time-marching discrete-vortex model: one time step as stages over bodies and shedding sites."""
 
 from __future__ import annotations
 
-import dataclasses
 import math
 from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..inputs.sections import camber_elements
+from .bodies import Body, BodyPoints, RigidCamber, as_body_models, build_body, rotate, to_inertial
 from .kernels import induced_velocity, normal_influence
 from .loads import LoadHistory
+from .sites import SheddingSite, TrailingEdgeSite
+from .system import BodySystem, solve_bordered
+from .wake import FarWake, VortexStore
+
+__all__ = ["Body", "BodyPoints", "RigidCamber", "SheddingSite", "SolverDiverged", "StepState",
+           "TrailingEdgeSite", "VortexSolver", "build_body", "default_core_radii", "rotate",
+           "solve_bordered", "to_inertial"]
 
 
 class SolverDiverged(RuntimeError):
@@ -55,116 +29,15 @@ class SolverDiverged(RuntimeError):
         self.cause = cause
 
 
-@dataclass(frozen=True)
-class Body:
-    """A rigid camber line in body coordinates (metres, relative to the pivot).
-
-    Attributes are arrays over the N elements: vortex points ``xi_v, zeta_v``
-    (quarter of each element), collocation points ``xi_c, zeta_c`` (three
-    quarters), unit normals ``n_xi, n_zeta`` (upper side), unit tangents
-    ``t_xi, t_zeta`` (towards the trailing edge), lengths ``ds`` and the
-    element start nodes ``xi_0, zeta_0``; ``xi_te, zeta_te`` is the trailing
-    edge.  ``xi_ref, zeta_ref`` is the quarter-chord point (moment reference).
-    ``nc_xi, nc_zeta`` are the unit normals of the camber line itself at the
-    collocation points (the no-penetration condition uses these: with the
-    chord of a curved element instead, the error is first order in the
-    element length).
-    """
-
-    xi_v: np.ndarray
-    zeta_v: np.ndarray
-    xi_c: np.ndarray
-    zeta_c: np.ndarray
-    n_xi: np.ndarray
-    n_zeta: np.ndarray
-    t_xi: np.ndarray
-    t_zeta: np.ndarray
-    ds: np.ndarray
-    xi_0: np.ndarray
-    zeta_0: np.ndarray
-    xi_te: float
-    zeta_te: float
-    xi_ref: float
-    zeta_ref: float
-    chord: float
-    nc_xi: np.ndarray = None
-    nc_zeta: np.ndarray = None
-
-    @classmethod
-    def from_section(cls, section, n, chord, pivot, x_nodes=None):
-        """Build from a camber-line section (``camber(x)``, ``slope(x)``).
-
-        Nodes at cosine spacing (or ``x_nodes``, chord fractions); vortex and
-        collocation points sit on the camber line at a quarter and three
-        quarters of each element's chordwise extent, and the collocation
-        normals follow the exact camber slope there.
-        """
-        if x_nodes is None:
-            x_nodes = 0.5 * (1.0 - np.cos(np.pi * np.arange(n + 1) / n))
-        xn = np.asarray(x_nodes, float)
-        zn = np.asarray(section.camber(xn), float)
-        body = cls.from_nodes(xn, zn, chord, pivot)
-        dx = np.diff(xn)
-        xv = xn[:-1] + 0.25 * dx
-        xc = xn[:-1] + 0.75 * dx
-        slope_c = np.asarray(section.slope(xc), float)
-        norm = np.sqrt(1.0 + slope_c ** 2)
-        z_ref = float(section.camber(np.array([0.25]))[0]) * chord
-        return dataclasses.replace(
-            body,
-            xi_v=(xv - pivot) * chord, zeta_v=np.asarray(section.camber(xv), float) * chord,
-            xi_c=(xc - pivot) * chord, zeta_c=np.asarray(section.camber(xc), float) * chord,
-            nc_xi=-slope_c / norm, nc_zeta=1.0 / norm, zeta_ref=z_ref)
-
-    def __post_init__(self):
-        if self.nc_xi is None:
-            object.__setattr__(self, "nc_xi", self.n_xi)
-            object.__setattr__(self, "nc_zeta", self.n_zeta)
-
-    @classmethod
-    def from_nodes(cls, x_nodes, z_nodes, chord, pivot):
-        """Build from camber-line nodes in chord fractions (LE first).
-
-        The chord line runs from (0, 0) to (1, 0); ``pivot`` is the fraction
-        of chord aft of the leading edge about which the body pitches.
-        """
-        x = (np.asarray(x_nodes, float) - pivot) * chord
-        z = np.asarray(z_nodes, float) * chord
-        dx = np.diff(x)
-        dz = np.diff(z)
-        ds = np.hypot(dx, dz)
-        t_xi, t_zeta = dx / ds, dz / ds
-        n_xi, n_zeta = -t_zeta, t_xi
-        z_ref = float(np.interp(0.25, np.asarray(x_nodes, float), np.asarray(z_nodes, float))) * chord
-        return cls(
-            xi_v=x[:-1] + 0.25 * dx, zeta_v=z[:-1] + 0.25 * dz,
-            xi_c=x[:-1] + 0.75 * dx, zeta_c=z[:-1] + 0.75 * dz,
-            n_xi=n_xi, n_zeta=n_zeta, t_xi=t_xi, t_zeta=t_zeta, ds=ds,
-            xi_0=x[:-1], zeta_0=z[:-1],
-            xi_te=float(x[-1]), zeta_te=float(z[-1]),
-            xi_ref=(0.25 - pivot) * chord, zeta_ref=z_ref, chord=float(chord),
-        )
-
-    @property
-    def n(self) -> int:
-        return self.xi_v.shape[0]
-
-
-def to_inertial(xi, zeta, alpha, h):
-    """Body coordinates -> computation frame (x, z) at pitch alpha, height h."""
-    ca, sa = math.cos(alpha), math.sin(alpha)
-    return xi * ca + zeta * sa, h - xi * sa + zeta * ca
-
-
-def rotate(v_xi, v_zeta, alpha):
-    """Rotate a body-frame vector into the computation frame."""
-    ca, sa = math.cos(alpha), math.sin(alpha)
-    return v_xi * ca + v_zeta * sa, -v_xi * sa + v_zeta * ca
-
-
 @dataclass
 class StepState:
-    """What observers see after each step (views; copy what you keep)."""
+    """What observers see after each step (views; copy what you keep).
+
+    ``wake_site`` is the index (into the solver's ``sites``) of the site that
+    shed each wake vortex; ``far_x, far_z, far_gamma, far_site`` are the
+    far-wake lumps; ``body_loads`` holds one loads dict per body (``loads``
+    is the first body's).
+    """
 
     n: int
     t: float
@@ -181,15 +54,140 @@ class StepState:
     loads: dict
     dcp: np.ndarray
     extra: dict = field(default_factory=dict)
+    wake_site: np.ndarray = None
+    far_x: np.ndarray = None
+    far_z: np.ndarray = None
+    far_gamma: np.ndarray = None
+    far_site: np.ndarray = None
+    body_loads: list = None
+
+
+class Step:
+    """The working record of one time step, filled in by the stages in turn.
+
+    ``n, t`` and the motion ``alpha, alpha_dot, h, h_dot`` (place); the
+    placed collocation points ``xc, zc``, their normals ``nx, nz`` and the
+    vortex points ``xv, zv`` of all bodies in body order, and ``tx, tz``
+    (collocation points, then vortex points) (place); the air's velocity
+    ``u_air, w_air`` at ``tx, tz`` (air velocities); ``proposals`` (shed);
+    ``gamma`` of the bound vortices and each proposal's strength (solve);
+    ``loads``, one dict per body, and ``far_total`` (loads).
+    """
+
+    def __init__(self, n, t):
+        self.n, self.t = n, t
+
+
+class Proposal:
+    """A vortex a site sheds this step: its site, position (m), border column and, once solved, strength."""
+
+    __slots__ = ("site", "x", "z", "column", "gamma")
+
+    def __init__(self, site, x, z, column):
+        self.site, self.x, self.z, self.column, self.gamma = site, x, z, column, None
 
 
 class VortexSolver:
     """March the discrete-vortex model in time.
 
+    The camber line of each body is cut into straight elements, each carrying
+    a lumped vortex at its quarter point with the no-penetration condition
+    enforced at its three-quarter point (J. Katz & A. Plotkin, *Low-Speed
+    Aerodynamics*, 2nd ed., 2001, secs. 11.1 and 13.8).  Each step every
+    shedding site may shed one vortex; the strengths follow from the
+    no-penetration rows of all bodies bordered by one row per new vortex
+    (Kelvin's theorem for each body, or a site's own criterion).  The wake
+    moves with the local velocity (free wake, Adams-Bashforth 2) or with the
+    freestream (frozen wake).  Frames and sign conventions: see
+    :func:`~unsteady.vortex.bodies.to_inertial`; circulation is
+    counter-clockwise positive, so a lifting airfoil in a stream towards +x
+    carries negative bound circulation.
+
+    **The time step.**  :meth:`run` owns the loop, the observers and the
+    divergence handling; each step calls the stage methods named in
+    ``STAGES``, in this order, on one :class:`Step` record:
+
+    1. ``_place``: the motion's ``state(t)``; the body matrix refactored if a
+       body moved in the body frame; the bodies' points placed in the
+       computation frame; each site located.
+    2. ``_air_velocities``: freestream, gust, wake and far-wake lumps at the
+       collocation and vortex points of every body.
+    3. ``_shed``: each site that sheds this step proposes its vortex; the
+       vortex's influence on all collocation points is its border column.
+    4. ``_solve``: the bordered system (no-penetration rows + one row per new
+       vortex), solved exactly by :func:`solve_bordered` against the
+       factored body matrix; the new vortices join the wake; every site
+       commits.
+    5. ``_loads``: each body's loads (:class:`~unsteady.vortex.loads.LoadHistory`).
+    6. ``_observe``: observers' ``on_step(state)``, then the motion's
+       ``after_step(t, dt, loads)`` (free heave integrates there).
+    7. ``_convect``: the wake from t to t + dt (free: Adams-Bashforth 2;
+       frozen: at U).
+    8. ``_far_wake``: lumps drift at U; per site, the oldest chord of its
+       wake beyond ``far_wake`` merges into one lump.
+
+    The last step stops after stage 6.  A new stage is one more method and
+    one more name in ``STAGES``.
+
+    **A shedding site** (:class:`~unsteady.vortex.sites.SheddingSite`) provides:
+
+    1. ``body``: the index of its body; ``kelvin``: True if its row is
+       Kelvin's theorem for that body.  Each body has exactly one Kelvin site,
+       and it sheds every step after the first.
+    2. ``bind(solver, index)`` at the start of a run; ``index`` is what its
+       vortices carry in ``wake_site``.
+    3. ``locate(step)``: its position ``x, z`` now (the far wake measures its
+       wake's distance from there).
+    4. ``sheds(step)``: whether it sheds this step (a suction criterion such
+       as LESP decides here; a site that does not shed adds no row).  Sites
+       are asked in list order and ``step.proposals`` already holds the
+       earlier sites' proposals, so a criterion site placed after its body's
+       Kelvin site can make a trial :func:`solve_bordered` without itself.
+    5. ``propose(step)``: where its new vortex goes.
+    6. ``border_row(step, proposals)``: ``(c A^-1, d, e)``, its row over the
+       bound circulations already reduced by the inverse body matrix (use
+       ``solver.system.kelvin_row(body)`` or ``solver.system.reduce(c)``,
+       both kept consistent with refactorizations), its coefficients of the
+       new strengths in ``proposals`` order, and its right-hand side.  Kelvin:
+       ``c`` sums the body's bound vortices, ``d`` is 1 for the new vortices
+       of sites on the body, ``e`` is ``solver.bound_sum[body]`` (last step).
+    7. ``commit(step)``: after the solve, what the next step needs.
+
+    With k sites shedding, the border is k x k and costs k^2 + k dot products
+    of length N per step; the body matrix is never refactored for it.
+
+    **A body model** (:class:`~unsteady.vortex.bodies.RigidCamber`) provides:
+
+    1. ``n``: its number of bound vortices (one collocation point each).
+    2. ``points(t)``: a :class:`~unsteady.vortex.bodies.BodyPoints` of vortex
+       points, collocation points and collocation normals in the assembly's
+       body frame (all bodies share the pivot and move as one under
+       ``motion``).
+    3. ``changed(t)``: True when its points moved in the body frame since
+       the last factorization (a hinged flap when its deflection changed);
+       the matrix of all bodies is then rebuilt and refactored, and only
+       then.  A deforming body must also add its own surface velocity in
+       ``_place`` (not yet a hook: rigid bodies have none).
+    4. ``trailing_edge(t)`` for its trailing-edge site; ``geometry``: the
+       :class:`~unsteady.vortex.bodies.Body` its loads are computed on.
+
+    Several bodies run through every stage (one matrix, one Kelvin row each,
+    one wake with site indices), but their loads are not yet combined:
+    ``loads`` is the first body's pressure-route row, its impulse columns
+    count everything; ``body_loads`` lists each body's.
+
+    **A ground image** needs an image option of the kernels
+    (:mod:`~unsteady.vortex.kernels`): each source mirrored about the ground
+    with opposite circulation, in ``induced_velocity`` and
+    ``normal_influence``.  The bodies' own images then make the matrix depend
+    on the height, so it must be refactored when h changes (or the image
+    part carried as a per-step correction), and the far wake and the sites'
+    columns see the images through the same kernels.
+
     Parameters
     ----------
-    body : Body
-        The rigid camber line.
+    body : Body, body model, or a sequence of them
+        The rigid camber line (or several, in one body frame).
     motion : object
         ``state(t) -> (alpha, alpha_dot, h, h_dot)`` (radians, m) and
         ``after_step(t, dt, loads)`` (free-heave models integrate there;
@@ -209,8 +207,9 @@ class VortexSolver:
         ``velocity(x, z, t) -> (u, w)``: the air's own velocity (m/s) at
         points of the computation frame, added to the freestream.
     shed_offset : float
-        Where the newest vortex goes, as a fraction of the trailing edge's
-        travel relative to the air in the last step (common practice 0.2-0.3).
+        Where a trailing-edge vortex goes, as a fraction of the trailing
+        edge's travel relative to the air in the last step (common practice
+        0.2-0.3).
     core_radius : float
         Vatistas core radius r_c (m) of the wake vortices as they act on each
         other (default: one shed-vortex spacing, U dt; common practice).
@@ -219,21 +218,29 @@ class VortexSolver:
         (default 0.1 U dt: small, so that the newest vortex's pull on the
         trailing edge is not smeared; common practice).
     far_wake : float or None
-        Distance behind the trailing edge, in chords, beyond which the wake
-        is coarsened: the oldest vortices are merged, one chord of wake at a
-        time, into single far-wake vortices (same total circulation, at the
-        circulation centroid, or the |Gamma|-weighted one when the signs
-        mix) that drift with the air at U and still act on the airfoil, but
-        no longer on the free wake or each other.  This bounds the cost per
-        step of long runs.  None keeps the whole wake free.
+        Distance behind a site, in chords of the first body, beyond which its
+        wake is coarsened: its oldest vortices are merged, one chord of wake
+        at a time, into single far-wake lumps (same total circulation, at the
+        circulation centroid, or the |Gamma|-weighted one when the signs mix)
+        that drift with the air at U and still act on the bodies, but no
+        longer on the free wake or each other.  This bounds the cost per step
+        of long runs.  None keeps the whole wake free.
     t0 : float
         Time of the first row (s).
+    sites : sequence of SheddingSite, optional
+        Default: one :class:`~unsteady.vortex.sites.TrailingEdgeSite` per body.
     """
+
+    STAGES = ("_place", "_air_velocities", "_shed", "_solve", "_loads", "_observe",
+              "_convect", "_far_wake")
+    #: stages of the last step (it reports and stops)
+    LAST_STAGES = STAGES[:STAGES.index("_observe") + 1]
 
     def __init__(self, body, motion, *, speed, density, dt, steps, wake="free",
                  start="steady", gust=None, shed_offset=0.3, core_radius=None,
-                 body_core_radius=None, far_wake=None, t0=0.0):
-        self.body = body
+                 body_core_radius=None, far_wake=None, t0=0.0, sites=None):
+        self.models = as_body_models(body)
+        self.body = self.models[0].geometry
         self.motion = motion
         self.U = float(speed)
         self.rho = float(density)
@@ -243,20 +250,18 @@ class VortexSolver:
         self.start = start
         self.gust = gust
         self.shed_offset = float(shed_offset)
-        r_wake, r_body = default_core_radii(body.chord, speed, dt)
+        r_wake, r_body = default_core_radii(self.body.chord, speed, dt)
         self.r_c = float(core_radius if core_radius is not None else r_wake)
         self.r_b = float(body_core_radius if body_core_radius is not None else r_body)
         self.t0 = float(t0)
-        self.far_wake = None if far_wake is None else float(far_wake) * body.chord
-        N = body.n
-        # Influence matrix of the bound vortices on the collocation points in
-        # body coordinates (invariant under rigid motion): factor once.
-        a = np.empty((N, N))
-        normal_influence(body.xi_c, body.zeta_c, body.nc_xi, body.nc_zeta,
-                         body.xi_v, body.zeta_v, 0.0, a)
-        self.A_inv = np.linalg.inv(a)
-        # c = A^-T 1 gives the bound-circulation sum of A^-1 rhs as c . rhs.
-        self.c_sum = self.A_inv.sum(axis=0)
+        self.far_wake = None if far_wake is None else float(far_wake) * self.body.chord
+        self.sites = list(sites) if sites is not None else [
+            TrailingEdgeSite(i, self.shed_offset) for i in range(len(self.models))]
+        _check_sites(self.sites, len(self.models))
+        # the bodies' influence matrix in the body frame (invariant under the
+        # assembly's rigid motion): factored once, refactored only when a body
+        # reports that it moved in that frame
+        self.system = BodySystem(self.models, self.t0)
 
     # ------------------------------------------------------------------
     def run(self, observers=()):
@@ -266,191 +271,186 @@ class VortexSolver:
         Raises :class:`SolverDiverged` (after ``on_end``) when the state
         stops being finite.
         """
-        body, U, dt = self.body, self.U, self.dt
-        N = body.n
-        cap = N + self.steps + 2
-        # Sources: bound vortices first, then the wake, contiguous so that
-        # one kernel call sees all of them as a view.
-        src_x = np.zeros(cap)
-        src_z = np.zeros(cap)
-        src_g = np.zeros(cap)
-        vel_u = np.zeros(cap)          # wake velocities this step
-        vel_w = np.zeros(cap)
-        prev_u = np.zeros(cap)         # wake velocities last step (AB2)
-        prev_w = np.zeros(cap)
-        bu = np.zeros(cap)             # bound-vortex part of the wake velocities
-        bw = np.zeros(cap)
-        targ_x = np.empty(2 * N)
-        targ_z = np.empty(2 * N)
-        tu = np.empty(2 * N)
-        tw = np.empty(2 * N)
-        m = 0                          # wake vortices
-        loads = LoadHistory(body, U, self.rho, dt)
-        gamma_prev_sum = 0.0
-        te_prev = None
-        gamma_start = 0.0              # starting vortex at infinity (steady start)
-        far_cap = 16
-        far_x = np.zeros(far_cap)      # far-wake lumps (see far_wake)
-        far_z = np.zeros(far_cap)
-        far_g = np.zeros(far_cap)
-        nf = 0
-        lump_n = max(1, int(round(body.chord / (U * dt))))
-        fu = np.empty(2 * N)
-        fw = np.empty(2 * N)
-        for obs in observers:
+        self._begin(observers)
+        stages = [getattr(self, name) for name in self.STAGES]
+        last = stages[:len(self.LAST_STAGES)]
+        for obs in self.observers:
             if hasattr(obs, "on_start"):
                 obs.on_start(self)
         try:
             for n in range(self.steps + 1):
-                t = self.t0 + n * dt
-                alpha, alpha_dot, h, h_dot = self.motion.state(t)
-                # -- place the body
-                xv, zv = to_inertial(body.xi_v, body.zeta_v, alpha, h)
-                xc, zc = to_inertial(body.xi_c, body.zeta_c, alpha, h)
-                nx, nz = rotate(body.nc_xi, body.nc_zeta, alpha)
-                x_te, z_te = to_inertial(body.xi_te, body.zeta_te, alpha, h)
-                # -- velocities of air (freestream, gust, existing wake) at the
-                #    collocation and vortex points
-                targ_x[:N] = xc
-                targ_x[N:] = xv
-                targ_z[:N] = zc
-                targ_z[N:] = zv
-                if m > 0:
-                    induced_velocity(targ_x, targ_z, src_x[N:N + m], src_z[N:N + m],
-                                     src_g[N:N + m], self.r_b, tu, tw)
-                else:
-                    tu[:] = 0.0
-                    tw[:] = 0.0
-                if nf > 0:
-                    induced_velocity(targ_x, targ_z, far_x[:nf], far_z[:nf], far_g[:nf], self.r_c, fu, fw)
-                    tu += fu
-                    tw += fw
-                tu += U
-                if self.gust is not None:
-                    gu, gw = self.gust.velocity(targ_x, targ_z, t)
-                    tu += gu
-                    tw += gw
-                # body velocity at collocation points
-                ub_c = alpha_dot * (zc - h)
-                wb_c = h_dot - alpha_dot * xc
-                rhs = -((tu[:N] - ub_c) * nx + (tw[:N] - wb_c) * nz)
-                # -- shed and solve
-                gamma_s = None
-                if n == 0 and self.start == "steady":
-                    gamma_b = self.A_inv @ rhs
-                    gamma_start = -float(gamma_b.sum())
-                elif n == 0:
-                    # impulsive start: the first row is the instant before the
-                    # motion begins, with no circulation anywhere
-                    gamma_b = np.zeros(N)
-                else:
-                    # previous trailing-edge point carried by the air for dt
-                    ua, wa = U, 0.0
-                    if self.gust is not None:
-                        gu, gw = self.gust.velocity(np.array([te_prev[0]]), np.array([te_prev[1]]), t - dt)
-                        ua += float(gu[0])
-                        wa += float(gw[0])
-                    x_s = x_te + self.shed_offset * (te_prev[0] + ua * dt - x_te)
-                    z_s = z_te + self.shed_offset * (te_prev[1] + wa * dt - z_te)
-                    a_s = np.empty((N, 1))
-                    normal_influence(xc, zc, nx, nz, np.array([x_s]), np.array([z_s]), self.r_b, a_s)
-                    a_s = a_s[:, 0]
-                    gamma_s = (gamma_prev_sum - self.c_sum @ rhs) / (1.0 - self.c_sum @ a_s)
-                    gamma_b = self.A_inv @ (rhs - a_s * gamma_s)
-                    src_x[N + m] = x_s
-                    src_z[N + m] = z_s
-                    src_g[N + m] = gamma_s
-                    m += 1
-                gamma_prev_sum = float(gamma_b.sum())
-                te_prev = (x_te, z_te)
-                src_x[:N] = xv
-                src_z[:N] = zv
-                src_g[:N] = gamma_b
-                # -- loads: air velocity at the vortex points relative to the body,
-                #    including the newest vortex
-                uv = tu[N:].copy()
-                wv = tw[N:].copy()
-                if gamma_s is not None:
-                    du, dw = _point_vortex(xv, zv, x_s, z_s, gamma_s, self.r_b)
-                    uv += du
-                    wv += dw
-                uv -= alpha_dot * (zv - h)
-                wv -= h_dot - alpha_dot * xv
-                row = loads.add(n, t, alpha, h, gamma_b, uv, wv,
-                                src_x[:N + m], src_z[:N + m], src_g[:N + m],
-                                gamma_start + float(far_g[:nf].sum()))
-                row["gamma_wake_m2_s"] += float(far_g[:nf].sum())
-                if not (np.isfinite(gamma_b).all() and math.isfinite(row["cl"])):
-                    raise SolverDiverged(n, t, _likely_cause(self, gamma_b, m))
-                state = StepState(n=n, t=t, alpha=alpha, alpha_dot=alpha_dot, h=h, h_dot=h_dot,
-                                  gamma_bound=gamma_b, x_wake=src_x[N:N + m], z_wake=src_z[N:N + m],
-                                  gamma_wake=src_g[N:N + m], x_body=xv, z_body=zv,
-                                  loads=row, dcp=loads.dcp_last,
-                                  extra={"gamma_start": gamma_start, "gamma_far": float(far_g[:nf].sum()),
-                                         "x_te": x_te, "z_te": z_te})
-                for obs in observers:
-                    obs.on_step(state)
-                self.motion.after_step(t, dt, row)
-                if n == self.steps:
-                    break
-                # -- convect the wake from t to t + dt
-                if m > 0:
-                    wx = src_x[N:N + m]
-                    wz = src_z[N:N + m]
-                    if self.free_wake:
-                        induced_velocity(wx, wz, src_x[N:N + m], src_z[N:N + m], src_g[N:N + m],
-                                         self.r_c, vel_u[:m], vel_w[:m])
-                        induced_velocity(wx, wz, src_x[:N], src_z[:N], src_g[:N],
-                                         self.r_b, bu[:m], bw[:m])
-                        vel_u[:m] += bu[:m] + U
-                        vel_w[:m] += bw[:m]
-                    else:
-                        vel_u[:m] = U
-                        vel_w[:m] = 0.0
-                    if self.gust is not None and self.free_wake:
-                        gu, gw = self.gust.velocity(wx, wz, t)
-                        vel_u[:m] += gu
-                        vel_w[:m] += gw
-                    if not np.isfinite(vel_u[:m]).all() or not np.isfinite(vel_w[:m]).all():
-                        raise SolverDiverged(n, t, _likely_cause(self, gamma_b, m))
-                    # Adams-Bashforth 2; the newest vortex takes an Euler step
-                    prev_u[m - 1] = vel_u[m - 1]
-                    prev_w[m - 1] = vel_w[m - 1]
-                    if self.free_wake:
-                        wx += dt * (1.5 * vel_u[:m] - 0.5 * prev_u[:m])
-                        wz += dt * (1.5 * vel_w[:m] - 0.5 * prev_w[:m])
-                    else:
-                        wx += dt * vel_u[:m]
-                    prev_u[:m] = vel_u[:m]
-                    prev_w[:m] = vel_w[:m]
-                    # -- far wake: merge the oldest chord of wake once all of it
-                    #    lies beyond far_wake into one lump drifting at U
-                    if nf > 0:
-                        far_x[:nf] += U * dt
-                    if self.far_wake is not None and m > lump_n + 1 and src_x[N + lump_n - 1] > x_te + self.far_wake:
-                        k = lump_n
-                        gone = slice(N, N + k)
-                        gx, gz, gg = src_x[gone].copy(), src_z[gone].copy(), src_g[gone].copy()
-                        loads.retire(gx, gz, gg)
-                        G = float(gg.sum())
-                        wgt = gg if abs(G) > 0.5 * np.abs(gg).sum() else np.abs(gg)
-                        if nf == far_cap:
-                            far_cap *= 2
-                            far_x, far_z, far_g = (np.resize(a, far_cap) for a in (far_x, far_z, far_g))
-                        far_x[nf] = (wgt * gx).sum() / wgt.sum() if wgt.sum() != 0 else gx.mean()
-                        far_z[nf] = (wgt * gz).sum() / wgt.sum() if wgt.sum() != 0 else gz.mean()
-                        far_g[nf] = G
-                        nf += 1
-                        keep = slice(N + k, N + m)
-                        for arr in (src_x, src_z, src_g):
-                            arr[N:N + m - k] = arr[keep].copy()
-                        for arr in (prev_u, prev_w):
-                            arr[:m - k] = arr[k:m].copy()
-                        m -= k
+                step = Step(n, self.t0 + n * self.dt)
+                for stage in (stages if n < self.steps else last):
+                    stage(step)
         finally:
-            for obs in observers:
+            for obs in self.observers:
                 if hasattr(obs, "on_end"):
                     obs.on_end(self)
+
+    def _begin(self, observers):
+        """Fresh run state: vortex store, far wake, load histories, bound sites."""
+        self.observers = list(observers)
+        N = self.system.n
+        self.store = VortexStore(N, len(self.sites) * (self.steps + 1) + 2, single_site=len(self.sites) == 1)
+        self.far = FarWake()
+        self.load_histories = [LoadHistory(m.geometry, self.U, self.rho, self.dt) for m in self.models]
+        self.bound_sum = [0.0] * len(self.models)     # each body's bound circulation, last step
+        self.gamma_start = 0.0                        # starting vortex at infinity (steady start)
+        self.lump_n = max(1, int(round(self.body.chord / (self.U * self.dt))))
+        self._tu, self._tw = np.empty(2 * N), np.empty(2 * N)
+        self._fu, self._fw = np.empty(2 * N), np.empty(2 * N)
+        for i, site in enumerate(self.sites):
+            site.bind(self, i)
+
+    # -- stages ---------------------------------------------------------
+    def _place(self, s):
+        """Stage 1: motion state, refactor if a body moved, bodies placed, sites located."""
+        s.alpha, s.alpha_dot, s.h, s.h_dot = self.motion.state(s.t)
+        self.system.refactor_if_changed(s.t)
+        placed = []
+        for model in self.models:
+            p = model.points(s.t)
+            placed.append(to_inertial(p.xi_c, p.zeta_c, s.alpha, s.h)
+                          + to_inertial(p.xi_v, p.zeta_v, s.alpha, s.h)
+                          + rotate(p.n_xi, p.n_zeta, s.alpha))
+        columns = placed[0] if len(placed) == 1 else [np.concatenate(c) for c in zip(*placed)]
+        s.xc, s.zc, s.xv, s.zv, s.nx, s.nz = columns
+        s.tx = np.concatenate((s.xc, s.xv))       # the targets of stage 2
+        s.tz = np.concatenate((s.zc, s.zv))
+        for site in self.sites:
+            site.locate(s)
+
+    def _air_velocities(self, s):
+        """Stage 2: freestream, gust, wake and far-wake lumps at the placed points."""
+        tu, tw = self._tu, self._tw
+        if self.store.m > 0:
+            induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw)
+        else:
+            tu[:] = 0.0
+            tw[:] = 0.0
+        if self.far.n > 0:
+            induced_velocity(s.tx, s.tz, *self.far.views(), self.r_c, self._fu, self._fw)
+            tu += self._fu
+            tw += self._fw
+        tu += self.U
+        if self.gust is not None:
+            gu, gw = self.gust.velocity(s.tx, s.tz, s.t)
+            tu += gu
+            tw += gw
+        s.u_air, s.w_air = tu, tw
+
+    def _shed(self, s):
+        """Stage 3: each shedding site proposes its vortex and border column."""
+        s.proposals = []
+        for site in self.sites:
+            if site.sheds(s):
+                x, z = site.propose(s)
+                col = np.empty((self.system.n, 1))
+                normal_influence(s.xc, s.zc, s.nx, s.nz, np.array([x]), np.array([z]), self.r_b, col)
+                s.proposals.append(Proposal(site, x, z, col[:, 0]))
+
+    def _solve(self, s):
+        """Stage 4: the bordered system; new vortices join the wake; sites commit."""
+        N = self.system.n
+        ub_c = s.alpha_dot * (s.zc - s.h)          # body velocity at the collocation points
+        wb_c = s.h_dot - s.alpha_dot * s.xc
+        rhs = -((s.u_air[:N] - ub_c) * s.nx + (s.w_air[:N] - wb_c) * s.nz)
+        props = s.proposals
+        if s.n == 0 and self.start != "steady":
+            # impulsive start: the first row is the instant before the motion
+            # begins, with no circulation anywhere
+            s.gamma = np.zeros(N)
+        else:
+            rows = [p.site.border_row(s, props) for p in props]
+            s.gamma, strengths = solve_bordered(self.system.a_inv, [r[0] for r in rows],
+                                                [p.column for p in props], [r[1] for r in rows],
+                                                rhs, [r[2] for r in rows])
+            if s.n == 0:
+                self.gamma_start = -float(s.gamma.sum())
+            for p, g in zip(props, strengths):
+                p.gamma = g
+        self.bound_sum = [float(s.gamma[sl].sum()) for sl in self.system.slices]
+        self.store.set_bound(s.xv, s.zv, s.gamma)
+        for p in props:
+            self.store.shed(p.x, p.z, p.gamma, p.site.index)
+        for site in self.sites:
+            site.commit(s)
+
+    def _loads(self, s):
+        """Stage 5: each body's loads from the air's velocity relative to it."""
+        N = self.system.n
+        uv = s.u_air[N:].copy()                    # at the vortex points, with the new vortices
+        wv = s.w_air[N:].copy()
+        for p in s.proposals:
+            du, dw = _point_vortex(s.xv, s.zv, p.x, p.z, p.gamma, self.r_b)
+            uv += du
+            wv += dw
+        uv -= s.alpha_dot * (s.zv - s.h)
+        wv -= s.h_dot - s.alpha_dot * s.xv
+        xs, zs, gs = self.store.sources()
+        s.far_total = far = self.far.total()
+        s.loads = []
+        for hist, sl in zip(self.load_histories, self.system.slices):
+            row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
+                           self.gamma_start + far)
+            row["gamma_wake_m2_s"] += far
+            s.loads.append(row)
+        if not (np.isfinite(s.gamma).all() and all(math.isfinite(r["cl"]) for r in s.loads)):
+            raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
+
+    def _observe(self, s):
+        """Stage 6: the observers see the step; the motion takes the loads."""
+        st, far, te = self.store, self.far, self.sites[0]
+        wx, wz, wg = st.wake()
+        state = StepState(n=s.n, t=s.t, alpha=s.alpha, alpha_dot=s.alpha_dot, h=s.h, h_dot=s.h_dot,
+                          gamma_bound=s.gamma, x_wake=wx, z_wake=wz, gamma_wake=wg,
+                          x_body=s.xv, z_body=s.zv, loads=s.loads[0],
+                          dcp=self.load_histories[0].dcp_last,
+                          extra={"gamma_start": self.gamma_start, "gamma_far": s.far_total,
+                                 "x_te": te.x, "z_te": te.z},
+                          wake_site=st.site[:st.m], far_x=far.x[:far.n], far_z=far.z[:far.n],
+                          far_gamma=far.g[:far.n], far_site=far.site[:far.n], body_loads=s.loads)
+        for obs in self.observers:
+            obs.on_step(state)
+        self.motion.after_step(s.t, self.dt, s.loads[0])
+
+    def _convect(self, s):
+        """Stage 7: the wake from t to t + dt (free: Adams-Bashforth 2; frozen: at U)."""
+        st = self.store
+        if st.m == 0:
+            return
+        if self.free_wake:
+            u, w = st.velocities(self.U, self.r_c, self.r_b, self.gust, s.t)
+        else:
+            u, w = st.frozen_velocities(self.U)
+        if not np.isfinite(u).all() or not np.isfinite(w).all():
+            raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
+        st.convect(u, w, self.dt, self.free_wake)
+
+    def _far_wake(self, s):
+        """Stage 8: lumps drift at U; each site's oldest chord of wake beyond far_wake merges."""
+        self.far.drift(self.U * self.dt)
+        if self.far_wake is None:
+            return
+        k = self.lump_n
+        for site in self.sites:
+            idx, x_young = self.store.oldest(site.index, k)
+            if idx is not None and x_young > site.x + self.far_wake:
+                gx, gz, gg = self.store.remove(idx)
+                for hist in self.load_histories:
+                    hist.retire(gx, gz, gg)
+                self.far.add(gx, gz, gg, site.index)
+
+
+def _check_sites(sites, n_bodies):
+    for site in sites:
+        if not 0 <= site.body < n_bodies:
+            raise ValueError(f"a shedding site names body {site.body}; there are {n_bodies} bodies")
+    for b in range(n_bodies):
+        kelvin = sum(1 for site in sites if site.body == b and site.kelvin)
+        if kelvin != 1:
+            raise ValueError(f"body {b} has {kelvin} Kelvin sites; each body needs exactly one "
+                             "(its trailing edge), whose row keeps the body's circulation")
 
 
 def _point_vortex(x, z, xs, zs, gamma, r_c):
@@ -461,7 +461,7 @@ def _point_vortex(x, z, xs, zs, gamma, r_c):
     return -f * dz, f * dx
 
 
-def _likely_cause(solver, gamma_b, m):
+def _likely_cause(gamma_b):
     if not np.isfinite(gamma_b).all():
         return ("the bound circulation is not finite; most often a wake vortex landed on a "
                 "collocation point: try a larger run.dt or a smaller pitch rate")
@@ -479,9 +479,3 @@ def default_core_radii(chord, speed, dt):
     point vortex.  Both are floored at 1e-5 chord.
     """
     return max(speed * dt, 1e-5 * chord), max(0.1 * speed * dt, 1e-5 * chord)
-
-
-def build_body(sc) -> Body:
-    """The rigid camber line of the scenario, in metres about the pivot."""
-    p = camber_elements(sc.section, sc.elements)
-    return Body.from_section(sc.section, sc.elements, sc.chord, sc.pivot, x_nodes=p.x_nodes)
