@@ -30,6 +30,9 @@ class BrokenMotion:
     def accel(self, t):
         return self.kin.accel(t)
 
+    def singular_times(self):
+        return self.kin.singular_times()
+
 
 def test_divergence_stops_at_once_and_keeps_history():
     sc = load_scenario(BASE)

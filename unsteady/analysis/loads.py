@@ -26,9 +26,7 @@ import math
 import numpy as np
 
 from ..core.cautions import GUST_CAUTION
-
-#: Standard acceleration of gravity, m/s^2 (U.S. Standard Atmosphere 1976).
-G = 9.80665
+from ..theory import G
 
 
 def elliptic_root_bending(lift_N, span):

@@ -36,15 +36,14 @@ def impulse_mask(t, times, dt, chord_time=0.0):
     return out
 
 
-def apparent_mass_impulses(history, times, dt, chord_time=0.0):
+def apparent_mass_impulses(history, times, dt):
     """Per instant T: ``t_s``, and the integrals (s) of cl and cm above the straight line
-    joining the rows on either side of its window (``cl_impulse_s``, ``cm_impulse_s``).
-
-    With ``chord_time`` 0 the window is the few steps that carry the impulse itself."""
+    joining the rows on either side of the few steps that carry the impulse itself
+    (``cl_impulse_s``, ``cm_impulse_s``)."""
     t = np.asarray(history["t"], dtype=float)
     out = []
     for T in times:
-        idx = np.nonzero(impulse_mask(t, [T], dt, chord_time))[0]
+        idx = np.nonzero(impulse_mask(t, [T], dt))[0]
         if idx.size == 0 or idx[0] == 0 or idx[-1] + 1 >= t.size:
             continue
         a, b = idx[0] - 1, idx[-1] + 1

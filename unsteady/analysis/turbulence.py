@@ -32,20 +32,24 @@ import numpy as np
 EXCEEDANCE_SIGMAS = (1.0, 2.0, 3.0)
 
 
+def _mass_per_span(sc):
+    """m' = mass / (wing_area / chord), kg/m: the section stands for the wing."""
+    ac = sc.data["aircraft"]
+    return ac["mass"] / (ac["wing_area"] / sc.chord)
+
+
 def startup_interval(sc):
     """Seconds left out at the start: max(10 tau_heave, 50 c / U) (see module docstring)."""
     from ..inputs.aircraft import lift_scale
-    ac = sc.data["aircraft"]
-    m_span = ac["mass"] / (ac["wing_area"] / sc.chord)
-    a = 2.0 * math.pi * lift_scale(ac.get("aspect_ratio"))
-    tau = 2.0 * m_span / (sc.density * sc.speed * sc.chord * a)
+    a = 2.0 * math.pi * lift_scale(sc.data["aircraft"].get("aspect_ratio"))
+    tau = 2.0 * _mass_per_span(sc) / (sc.density * sc.speed * sc.chord * a)
     return max(10.0 * tau, 50.0 * sc.chord / sc.speed)
 
 
 def turbulence_gust(sc):
     """The single vertical turbulence gust of a scenario, or None."""
-    g = sc.data.get("gust")
-    gusts = [g] if isinstance(g, dict) else list(g or [])
+    from ..inputs.gusts import gust_list
+    gusts = gust_list(sc.data.get("gust"))
     turb = [x for x in gusts if x.get("profile") == "turbulence"]
     if len(turb) == 1 and len(gusts) == 1 and turb[0].get("direction", "vertical") == "vertical":
         return turb[0]
@@ -111,7 +115,7 @@ def power_spectral_method(sc, omega_max):
     sig, L = g["intensity"], g["scale_length"]
     return heave_gust_statistics(
         lambda W: spectrum(W, sig, L), sig, speed=sc.speed, chord=sc.chord, density=sc.density,
-        mass_per_span=ac["mass"] / (ac["wing_area"] / sc.chord), lift_scale=lift_scale(ac.get("aspect_ratio")),
+        mass_per_span=_mass_per_span(sc), lift_scale=lift_scale(ac.get("aspect_ratio")),
         omega_max=omega_max)
 
 

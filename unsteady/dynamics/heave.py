@@ -44,6 +44,7 @@ from .. import theory
 from ..core.cautions import GUST_CAUTION
 from ..core.errors import InputError
 from ..inputs.aircraft import G, lift_scale
+from ..inputs.gusts import gust_list
 from ..linear.kernels import heave_step
 
 __all__ = ["HeaveMotion"]
@@ -205,7 +206,7 @@ class HeaveMotion:
             out["dn_max"] = float(np.nanmax(n) - 1.0)
             out["dn_min"] = float(np.nanmin(n) - 1.0)
         gusts = self.sc.data.get("gust")
-        gusts = [gusts] if isinstance(gusts, dict) else list(gusts or [])
+        gusts = gust_list(gusts)
         if len(gusts) == 1 and gusts[0]["profile"] == "one-minus-cosine" \
                 and gusts[0].get("direction", "vertical") == "vertical":
             U_de = gusts[0]["amplitude"]

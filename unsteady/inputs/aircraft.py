@@ -13,8 +13,7 @@ from .checks import number, register_section, unknown_keys
 
 __all__ = ["check_aircraft_section", "G", "lift_scale", "CL_LEVEL_LIMIT", "CL_LEVEL_MAX"]
 
-#: Standard acceleration of gravity, m/s^2 (U.S. Standard Atmosphere 1976).
-G = 9.80665
+G = theory.G   # standard gravity, m/s^2 (U.S. Standard Atmosphere 1976)
 
 #: Above this level-flight lift coefficient the check warns that the trimmed
 #: section is near stall (thin sections reach cl of about 1 near 10-15 degrees

@@ -447,15 +447,16 @@ class GustField:
         return u, w
 
 
-def _gust_list(value):
-    return [value] if isinstance(value, dict) else list(value)
+def gust_list(value):
+    """The ``[gust]`` / ``[[gust]]`` value as a list of gust tables (empty for none)."""
+    return [value] if isinstance(value, dict) else list(value or [])
 
 
 def build_gust_field(sc):
     """The :class:`GustField` of a scenario's ``[gust]`` / ``[[gust]]``."""
     ctx = dict(sc.data)
     ctx["_base_dir"] = sc.base_dir
-    profiles = [PROFILES[g["profile"]](g, ctx) for g in _gust_list(sc.data["gust"])]
+    profiles = [PROFILES[g["profile"]](g, ctx) for g in gust_list(sc.data["gust"])]
     return GustField(profiles, sc.speed, -sc.pivot * sc.chord)
 
 

@@ -16,6 +16,7 @@ from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SWEEP_CAUTION
 from ..core.errors import UsageError
 from ..core.files import write_text
 from ..core.version import __version__
+from ..theory import G
 
 __all__ = ["write_report", "folder_kind", "check_report_path", "run_page", "sweep_page",
            "scenario_words", "unit_of", "MARK", "FILM_SIZE", "FILM_FRAMES"]
@@ -326,7 +327,7 @@ def _aircraft_words(ac, d):
     s = (f"Aircraft free to heave under the lift (weight carried in level flight): mass {fmt(ac.get('mass'))} kg, "
          f"wing area {fmt(ac.get('wing_area'))} m^2")
     if ac.get("mass") and ac.get("wing_area"):
-        s += f" (wing loading {fmt(ac['mass'] * 9.80665 / ac['wing_area'])} N/m^2)"
+        s += f" (wing loading {fmt(ac['mass'] * G / ac['wing_area'])} N/m^2)"
     if ac.get("aspect_ratio"):
         s += f", aspect ratio {fmt(ac['aspect_ratio'])} (finite-wing lift-slope correction)"
     if ac.get("span"):

@@ -20,6 +20,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..inputs.gusts import gust_list
+
 # history columns every run writes, in order (names of the public interface)
 BASE_COLUMNS = ("t", "chords", "pitch_deg", "height_m", "cl", "cd", "cm")
 EXTRA_COLUMNS = ("cm_pivot", "cl_impulse", "cd_impulse", "cm_impulse",
@@ -167,8 +169,7 @@ class GustObserver:
         self.chord = sc.chord
         self.pivot = sc.pivot
         self.U = sc.speed
-        g = sc.data["gust"]
-        self.profiles = [d["profile"] for d in ([g] if isinstance(g, dict) else list(g))]
+        self.profiles = [d["profile"] for d in gust_list(sc.data["gust"])]
         self.rows = {k: [] for k in self.columns}
 
     def on_step(self, s):

@@ -117,7 +117,7 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
     extra.update(add_dimensional_loads(history, sc))      # lift_N, cl_wing, root_bending_Nm
     extra.update(turbulence_summary(history, sc))         # n_rms, A_bar, N0 in turbulence
     summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra,
-                           impulse_times=_singular_times(sc), dt=sc.dt,
+                           impulse_times=sc.kinematics.singular_times(), dt=sc.dt,
                            chord_time=sc.chord / sc.speed)
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
     summary.update(model=model.name, **model.summary(), chords_travelled=travelled)
@@ -125,9 +125,3 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
         summary["error"] = error
     return summary
 
-
-def _singular_times(sc):
-    """Instants at which the prescribed motion changes instantly (none for a motion object
-    that does not say, such as a test's stand-in)."""
-    fn = getattr(sc.kinematics, "singular_times", None)
-    return fn() if fn is not None else []

@@ -551,6 +551,10 @@ def kuessner_sears_sparks(s):
 # Gust load factor (Pratt & Walker)
 # ---------------------------------------------------------------------------
 
+#: Standard acceleration of gravity, m/s^2 (U.S. Standard Atmosphere 1976).
+G = 9.80665
+
+
 def gust_mass_ratio(wing_loading, density, chord, lift_slope, g=9.80665):
     """Aeroplane mass ratio for gust loads.
 

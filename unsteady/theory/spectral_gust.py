@@ -41,11 +41,7 @@ import math
 import numpy as np
 from scipy import integrate
 
-from . import sears, theodorsen
-
-#: Standard acceleration of gravity, m/s^2 (U.S. Standard Atmosphere 1976).
-G = 9.80665
-
+from . import G, sears, theodorsen
 
 def heave_load_factor_response(Omega, *, speed, chord, density, mass_per_span, lift_scale=1.0):
     """H_n(Omega): load-factor increment per unit vertical gust velocity, free heave.
