@@ -6,7 +6,6 @@ import functools
 import math
 
 import numpy as np
-from scipy import signal
 
 from .. import theory
 
@@ -20,6 +19,18 @@ __all__ = [
     "heave_marcher",
     "section_constants",
 ]
+
+
+def _fft_convolve(a, b):
+    """The full linear convolution of ``a`` and ``b`` by numpy's real FFT (zero-padded to a power of two).
+
+    numpy's FFT rather than scipy.signal: importing scipy.signal costs about
+    a second of a short run's start-up.
+    """
+    n = len(a) + len(b) - 1
+    size = 1 << (n - 1).bit_length()
+    return np.fft.irfft(np.fft.rfft(a, size) * np.fft.rfft(b, size), size)[:n]
+
 
 _GAUSS_POINTS = 8
 
@@ -103,7 +114,7 @@ def duhamel(x, name, ds, start="steady"):
         W = indicial_weights(name, ds, n - 1)
         dx = np.diff(x)
         if n > 256:
-            conv = signal.fftconvolve(dx, W)[: n - 1]
+            conv = _fft_convolve(dx, W)[: n - 1]
         else:
             conv = np.convolve(dx, W)[: n - 1]
         out[1:] += conv
