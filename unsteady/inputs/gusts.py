@@ -107,7 +107,10 @@ class GustProfile:
        prepare (read a file, draw a realisation); ``self.span`` is the range
        of xi (m) the run will ask for.
     5. ``shape(xi)``: the velocity (m/s) for a float ndarray of xi >= 0.  The
-       base returns 0 ahead of the front (xi < 0).
+       base returns 0 ahead of the front (xi < 0), unless the class sets
+       ``FILLS_SPACE = True`` (a pattern with no front, such as turbulence,
+       that the aircraft is already flying in at t = 0): then ``shape`` is
+       asked for every xi the run reaches, ahead of the front too.
     6. ``peak_of(spec, ctx)`` (classmethod): the largest |velocity| the
        pattern reaches (m/s), for the effective-angle warning (a likely peak
        for a random pattern); it must not need the whole realisation.
@@ -119,6 +122,7 @@ class GustProfile:
     POSITIVE: tuple = ()
     TEXT: tuple = ()
     COMMON = {"direction": "vertical", "arrival": 0.0}
+    FILLS_SPACE = False
 
     def __init__(self, spec, ctx):
         self.spec = dict(spec)
@@ -140,6 +144,8 @@ class GustProfile:
     def __call__(self, xi):
         """Velocity (m/s) at distances ``xi`` (m) into the gust; 0 ahead of the front."""
         xi = np.asarray(xi, dtype=float)
+        if self.FILLS_SPACE:
+            return self.shape(xi)
         inside = xi >= 0.0
         out = np.zeros_like(xi)
         if inside.any():
@@ -382,13 +388,19 @@ class Turbulence(GustProfile):
     drawn once over the whole flight path of the run (see
     :func:`turbulence_samples`) on a grid of spacing min(c/16, L/200) and
     read by linear interpolation, so a long run is one continuous
-    realisation.  The realisation depends on ``seed``, the spectrum, the
+    realisation.  The pattern has no front: the aircraft is already flying
+    in it at t = 0 (``arrival`` shifts the pattern), so a run starts from the
+    steady flow in the turbulence as it stands then, trimmed there (see
+    :meth:`GustField.present_at_start`), not from a front crossing the chord.
+    The realisation depends on ``seed``, the spectrum, the
     intensity, the scale length, the chord and the run's length of path
     (the period of the synthesis grows in powers of two).
     """
 
     KEYS = {"spectrum": "'dryden' or 'von-karman'", "intensity": "rms velocity, m/s, > 0",
             "scale_length": "m, > 0"}
+    FILLS_SPACE = True        # the aircraft flies in it from t = 0 (see the class docstring)
+    AHEAD_CHORDS = 3.0
     OPTIONAL = {"seed": 0}
     POSITIVE = ("intensity", "scale_length")
     TEXT = ("spectrum",)
@@ -405,10 +417,14 @@ class Turbulence(GustProfile):
         c = ctx["airfoil"]["chord"]
         self.dx = min(c / 16.0, self.L / 200.0)
         component = "vertical" if self.direction == "vertical" else "longitudinal"
+        # the pattern starts AHEAD_CHORDS chords ahead of the leading edge's
+        # position at t = arrival: at t = 0 the whole airfoil and everything
+        # it sheds lie at xi > -(1 + shed offset) c, inside the pattern
+        self.x0 = -self.AHEAD_CHORDS * c
         self.samples = turbulence_samples(spec["spectrum"], self.sigma, self.L,
-                                          max(self.span[1], self.dx), self.dx,
+                                          max(self.span[1] - self.x0, self.dx), self.dx,
                                           int(spec.get("seed", 0)), component)
-        self.x = np.arange(self.samples.size) * self.dx
+        self.x = self.x0 + np.arange(self.samples.size) * self.dx
 
     def shape(self, xi):
         return np.interp(xi, self.x, self.samples, right=0.0)
@@ -440,6 +456,13 @@ class GustField:
         self.x_le = float(x_le)
         self.vertical = [p for p in self.profiles if p.direction == "vertical"]
         self.streamwise = [p for p in self.profiles if p.direction == "streamwise"]
+
+    @property
+    def present_at_start(self):
+        """True when the airfoil is inside a gust at t = 0 (a pattern with no front,
+        or a front that arrived before): the run then starts from the steady flow
+        in the field as it stands at t = 0, and the trim includes it."""
+        return any(p.FILLS_SPACE or p.arrival < 0.0 for p in self.profiles)
 
     def xi(self, x, t, arrival):
         """Distance into a gust of the given arrival time, m (see the module docstring)."""
