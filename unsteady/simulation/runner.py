@@ -8,6 +8,7 @@ from ..analysis.lag import add_quasi_steady, lag_summary
 from ..analysis.loads import add_dimensional_loads
 from ..analysis.summary import make_summary
 from ..analysis.turbulence import startup_interval, turbulence_summary
+from ..analysis.verdict import measured_warnings, warning_lines
 from ..dynamics.heave import HeaveMotion
 from ..inputs.gusts import build_gust_field
 from ..inputs.scenario import Scenario, load_scenario
@@ -97,6 +98,10 @@ def simulate(scenario, observers=(), *, progress=False):
     snapshots.update(model.snapshot_extras())
     add_quasi_steady(history, sc, gust)           # quasi-steady column, lag metrics, validity flag
     summary["lag"] = lag_summary(history, sc)
+    lines = list(sc.warnings) + list(summary.get("warnings", []))
+    lines += warning_lines(measured_warnings(history, sc, summary, snapshots), sc.source)
+    if lines:
+        summary["warnings"] = list(dict.fromkeys(lines))      # check's first, then measured; once each
     for o in observers:
         if hasattr(o, "finish"):
             o.finish(history)
