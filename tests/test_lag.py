@@ -136,3 +136,17 @@ def test_summary_peak_effective_angle_is_the_column_peak(model):
     # and it is the 3/4-chord angle, not a leading-edge one: the gust peak (1.5 m/s) adds
     # about 1.5/15 rad on top of the 3 degree pitch
     assert 3.0 + 0.8 * math.degrees(0.1) < res.summary["alpha_eff_max_deg"] < 3.0 + 1.2 * math.degrees(0.1)
+
+
+def test_null_lag_metrics_say_why():
+    """A null t90 or periodic metric comes with its reason in the summary (the trust issue)."""
+    import unsteady
+    flat = {"flow": {"speed": 10.0, "density": 1.2}, "airfoil": {"chord": 0.2, "elements": 12}}
+    ramp = unsteady.simulate(unsteady.load_scenario({**flat, "run": {"chords": 3}, "motion": {
+        "pitch": {"law": "ramp", "from": 0.0, "to": 5.0, "start": 0.0, "duration": 0.05, "smoothing": 0.005}}}))
+    lag = ramp.summary["lag"]
+    assert lag["t90"] is None and "t90 null" in lag["note"] and "run.duration" in lag["note"]
+    sine = unsteady.simulate(unsteady.load_scenario({**flat, "run": {"chords": 2}, "motion": {
+        "pitch": {"law": "sine", "amplitude": 2.0, "reduced_frequency": 0.2}}}))
+    lag = sine.summary["lag"]
+    assert lag["amplitude_ratio"] is None and "shorter than two periods" in lag["note"]

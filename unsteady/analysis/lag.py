@@ -218,6 +218,12 @@ def lag_summary(history, sc):
             out["delay90_chords"] = out["delay90"] * U / c
         else:
             out["delay90"] = out["delay90_chords"] = None
+        missing = [k for k in ("t50", "t90", "t50_qs", "t90_qs") if out[k] is None]
+        if missing:
+            out["note"] = (f"{', '.join(missing)} null: cl{' (quasi-steady)' if all(k.endswith('_qs') for k in missing) else ''} "
+                           f"had not stayed beyond that share of its final change "
+                           f"({y1 - y0:+.3g}) by the end of the run (t = {t[-1]:.4g} s) "
+                           f"or crossed it back; lengthen run.duration to see it settle")
         out["t_begin"] = t_begin
     elif kind == "periodic" and len(t) > 1:
         omega = par
@@ -239,5 +245,11 @@ def lag_summary(history, sc):
             out["loop_area"] = float(area) if np.ptp(a[i]) > 0 else None
             out["periods_used"] = periods
         else:
-            out.update(amplitude_ratio=None, phase_lag_deg=None, loop_area=None)
+            out.update(amplitude_ratio=None, phase_lag_deg=None, loop_area=None,
+                       note=f"periodic metrics null: they are taken over whole periods of the run's second "
+                            f"half, and the run ({t[-1] - t[0]:.4g} s) is shorter than two periods "
+                            f"({2.0 * T:.4g} s); lengthen run.duration")
+    elif kind is None and len(t) > 1:
+        out["note"] = ("no lag metrics: they are defined for a single ramp or step of pitch (t50, t90) "
+                       "or a periodic motion (amplitude ratio, phase lag), not for this motion")
     return out
