@@ -7,13 +7,14 @@ pictures or films.
 
 Exit status: 0 success; 2 invalid input (one line per problem on stderr as
 ``error: <file>: <key>: <message>``, nothing written); 1 anything else;
-130 interrupted.
+130 interrupted (Ctrl-C), 143 terminated (SIGTERM): one line, no traceback, no
+temporary left behind.  Only the standard library is imported before
+:func:`main` has set the signal handlers, so an interrupt at any point of
+start-up is handled like one during the run.
 """
 
 from __future__ import annotations
 
-import argparse
-import importlib
 import sys
 
 #: command -> (module under unsteady.apps, one-line help)
@@ -28,11 +29,16 @@ COMMANDS = {
 }
 
 
-class _Parser(argparse.ArgumentParser):
-    """argparse with the project's one-line error format and exit status 2."""
+def _parser_class():
+    import argparse
 
-    def error(self, message):
-        self.exit(2, f"error: -: {self.prog}: {message} (see '{self.prog} --help')\n")
+    class _Parser(argparse.ArgumentParser):
+        """argparse with the project's one-line error format and exit status 2."""
+
+        def error(self, message):
+            self.exit(2, f"error: -: {self.prog}: {message} (see '{self.prog} --help')\n")
+
+    return _Parser
 
 
 def _chosen(argv):
@@ -45,7 +51,9 @@ def _chosen(argv):
 
 def build_parser(argv=None):
     """The parser; only the chosen command's module is imported (all of them when ``argv`` is None)."""
+    import importlib
     from ..core.version import __version__
+    _Parser = _parser_class()
     parser = _Parser(
         prog="unsteady",
         description="Unsteady lift, drag and moment of an airfoil in pitch, plunge and gusts "
@@ -63,19 +71,59 @@ def build_parser(argv=None):
     return parser
 
 
+def _on_terminate(signum, frame):
+    from ..core.errors import Interrupted
+    raise Interrupted()
+
+
+def _settle():
+    """Ignore further Ctrl-C and SIGTERM while the process winds down (no second traceback)."""
+    import signal
+    for sig in (signal.SIGINT, signal.SIGTERM):
+        try:
+            signal.signal(sig, signal.SIG_IGN)
+        except (ValueError, OSError):
+            pass
+
+
 def main(argv=None):
-    """Run the command line; returns the exit status."""
+    """Run the command line; returns the exit status.
+
+    With ``argv`` None (the ``unsteady`` program, ``python -m unsteady``) the
+    signal handlers are set first: SIGTERM unwinds like Ctrl-C, and once the
+    command has finished or been stopped, further signals are ignored.  Called
+    with a list (tests, other programs) the caller's handlers are left alone.
+    """
+    program = argv is None
     try:
+        if program:
+            import signal
+            signal.signal(signal.SIGTERM, _on_terminate)
+            if signal.getsignal(signal.SIGINT) is not signal.SIG_IGN:
+                signal.signal(signal.SIGINT, signal.default_int_handler)
         argv = sys.argv[1:] if argv is None else list(argv)
         args = build_parser(argv).parse_args(argv)
-        return _dispatch(args)
-    except KeyboardInterrupt:
-        print("unsteady: interrupted", file=sys.stderr)
-        return 130
+        status = _dispatch(args)
+    except KeyboardInterrupt as exc:
+        if program:
+            _settle()
+        status = _interrupted(exc)
+    if program:
+        _settle()
+    return status
+
+
+def _interrupted(exc):
+    from ..core.errors import Interrupted
+    if isinstance(exc, Interrupted):
+        print("unsteady: terminated", file=sys.stderr)
+        return 143
+    print("unsteady: interrupted", file=sys.stderr)
+    return 130
 
 
 def _dispatch(args):
-    from ..core.errors import InputError, UsageError
+    from ..core.errors import InputError, OutputError, UsageError
     from ..inputs.checks import ScenarioError
     try:
         return args.handler(args)
@@ -89,9 +137,14 @@ def _dispatch(args):
     except UsageError as exc:
         print(str(exc), file=sys.stderr)
         return 2
-    except KeyboardInterrupt:
-        print("unsteady: interrupted", file=sys.stderr)
-        return 130
+    except OutputError as exc:
+        print(str(exc), file=sys.stderr)
+        return 1
+    except OSError as exc:   # an output that failed although it was checked: one line
+        where = f"{exc.filename}: " if exc.filename else ""
+        print(f"unsteady: {where}{exc.strerror or exc}; files already there were left as they were",
+              file=sys.stderr)
+        return 1
     except Exception as exc:  # anything else: one line, exit 1
         print(f"unsteady: {type(exc).__name__}: {exc}", file=sys.stderr)
         return 1
