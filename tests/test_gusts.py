@@ -209,4 +209,31 @@ def test_effective_angle_warning_counts_the_pitch_rate():
     assert calm.warnings == ()
     quick = unsteady.load_scenario({**base, "motion": {"pitch": {
         "law": "ramp", "from": 0.0, "to": 10.0, "start": 0.01, "duration": 0.01}}})
-    assert len(quick.warnings) == 1 and "about 52 degrees" in quick.warnings[0]
+    angle = [w for w in quick.warnings if "effective angle" in w]
+    assert len(angle) == 1 and "about 52 degrees" in angle[0]
+
+
+def test_sharp_edged_front_crosses_the_chord_smoothly():
+    """Issue: a sharp-edged front made n jump by about 0.6 between steps while it crossed the chord.
+
+    Reference: the linear model's exact Kuessner response (H. G. Kuessner,
+    Luftfahrtforschung 13, 1936; the project's tabulated indicial function)
+    sampled at the same step, whose largest step change is finite only
+    because the step is: the vortex model may not change faster than it
+    by more than a fifth, and its largest step change shrinks with the step.
+    """
+    from pathlib import Path
+    scenario = Path(__file__).resolve().parents[1] / "scenarios" / "drone-gust-1cos.toml"
+
+    def largest_step_change(model, elements):
+        sc = unsteady.load_scenario(scenario, overrides={
+            "gust": {"profile": "sharp-edged", "amplitude": 3.0, "arrival": 0.02},
+            "run.duration": 0.08, "airfoil.elements": elements, "run.model": model})
+        n = unsteady.simulate(sc).history["n"]
+        return float(np.abs(np.diff(n)).max()), float(np.abs(np.diff(n, 2)).max())
+
+    (coarse, bend), (fine, _) = largest_step_change("vortex", 40), largest_step_change("vortex", 80)
+    assert bend < 0.1          # it was 0.93: the step change itself alternated in sign
+    assert coarse < 1.2 * largest_step_change("linear", 40)[0]
+    assert fine < 1.2 * largest_step_change("linear", 80)[0]
+    assert fine < coarse

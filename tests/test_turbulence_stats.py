@@ -6,12 +6,15 @@ N0 exp(-y^2 / 2 sigma^2) (S. O. Rice, Bell Syst. Tech. J. 23-24, 1944-45).
 """
 
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
 
 import unsteady
 from unsteady.analysis import turbulence
+
+ROOT = Path(__file__).resolve().parents[1]
 
 
 def _flat_band_record(f_max=5.0, seconds=2000.0, fs=100.0, seed=3):
@@ -54,3 +57,22 @@ def test_no_statistics_for_a_short_record_or_a_discrete_gust():
                                 overrides=["run.model=linear", "run.duration=0.5"])
     out = turbulence.turbulence_summary(unsteady.simulate(sc).history, sc)
     assert "no statistics" in out["turbulence"]["note"]
+
+
+@pytest.mark.parametrize("model", ["vortex", "linear"])
+def test_turbulence_run_starts_level_in_the_field(model):
+    """The aircraft flies in the turbulence from t = 0: both models start trimmed in the field
+    as it stands then (n = 1, common practice for a trimmed start), with no jump of the load factor
+    at the start (it jumped by 5.5 in one step in the vortex model, and the linear model began at
+    n = -4.5 or 1.27), and the peaks leave the start-up out like the statistics."""
+    sc = unsteady.load_scenario(ROOT / "scenarios" / "drone-turbulence.toml",
+                                overrides={"run.model": model, "run.duration": 2.5})
+    res = unsteady.simulate(sc)
+    n, w = res.history["n"], res.history["w_gust"]
+    assert abs(w[0]) > 0.05                     # the gust is there at t = 0
+    assert abs(n[0] - 1.0) < (1e-9 if model == "vortex" else 2e-3)
+    assert np.abs(np.diff(n[:20])).max() < 0.08
+    settle = turbulence.startup_interval(sc)
+    assert res.summary["peaks_from_s"] == pytest.approx(settle)
+    late = res.history["t"] >= settle
+    assert res.summary["n_max"] == pytest.approx(float(n[late].max()))

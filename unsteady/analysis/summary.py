@@ -67,7 +67,8 @@ def _peaks(s, name, y, t, keep):
               f"{name}_min": float(y[i_min]), f"t_{name}_min": float(t[i_min])})
 
 
-def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None, chord_time=0.0):
+def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None, chord_time=0.0,
+                 settle_s=0.0):
     """Headline numbers of a history (keys as in the public interface).
 
     Parameters
@@ -84,6 +85,12 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
         Time step (s).
     chord_time : float, optional
         c / U (s), for the window after an instantaneous change.
+    settle_s : float, optional
+        Seconds of start-up left out of the peaks (a run started inside a
+        turbulence field: the start is trimmed in the field as it stands at
+        t = 0, not in the flow its past would have left; see
+        :func:`unsteady.analysis.turbulence.startup_interval`).  Ignored, and
+        said so, when no row would remain.
     """
     cl = np.asarray(history["cl"], dtype=float)
     t = np.asarray(history["t"], dtype=float)
@@ -92,6 +99,17 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
     if times:
         keep = ~impulse_mask(t, times, dt, chord_time)
     s = {"version": __version__, "steps": int(steps), "wall_time_s": float(wall_time_s)}
+    if settle_s > 0.0 and t.size:
+        settled = t >= t[0] + settle_s
+        if (keep & settled).any():
+            keep = keep & settled
+            s["peaks_from_s"] = float(t[0] + settle_s)
+            s["peaks_note"] = (f"the first {settle_s:.3g} s (the start-up: the run starts trimmed in the "
+                               "turbulence as it stands at t = 0, not in the flow its past would have "
+                               "left) are left out of the peaks, as from the statistics")
+        else:
+            s["peaks_note"] = (f"the record is shorter than the start-up ({settle_s:.3g} s): the peaks "
+                               "include it and describe the start as much as the turbulence")
     _peaks(s, "cl", cl, t, keep)
     cm = np.asarray(history["cm"], dtype=float)
     ok = keep & np.isfinite(cm)

@@ -28,6 +28,9 @@ def main(args):
     from ..simulation.runner import simulate
     res = simulate(sc, progress=not args.quiet)
     path = res.save(out, plots=sc.data["output"].get("plots", True) and not args.no_plots)
+    for line in res.summary.get("warnings", []):     # measured on the run (the check's were printed on loading)
+        if line not in sc.warnings:
+            print(line, file=sys.stderr)
     if res.error:
         print(f"unsteady: run stopped early: {res.error}; the {len(res.history['t'])} steps "
               f"computed so far are in {path}", file=sys.stderr)

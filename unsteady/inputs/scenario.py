@@ -11,6 +11,7 @@ modules that own them through :func:`register_section`.
 from __future__ import annotations
 
 import copy
+import dataclasses
 import math
 import tomllib
 from dataclasses import dataclass, field
@@ -290,8 +291,11 @@ def load_scenario(source, overrides=None, *, source_name=None, base_dir=None, so
     data, errors = resolve(raw, base, stem)
     if errors:
         raise ScenarioError([Problem(name, e.key, e.message) for e in errors])
-    warnings = tuple(f"warning: {name}: {w.key}: {w.message}" for w in data.pop("_warnings", ()))
-    return Scenario(data=data, source=name, base_dir=base, raw=copy.deepcopy(raw), warnings=warnings)
+    found = list(data.pop("_warnings", ()))
+    sc = Scenario(data=data, source=name, base_dir=base, raw=copy.deepcopy(raw))
+    from .estimates import estimate_warnings      # it reads the gust registry, filled below this module
+    found += estimate_warnings(sc)
+    return dataclasses.replace(sc, warnings=tuple(f"warning: {name}: {w.key}: {w.message}" for w in found))
 
 
 def resolve(raw, base_dir, stem="scenario"):

@@ -6,7 +6,6 @@ import functools
 import math
 
 import numpy as np
-from scipy import signal
 
 from .. import theory
 
@@ -20,6 +19,18 @@ __all__ = [
     "heave_marcher",
     "section_constants",
 ]
+
+
+def _fft_convolve(a, b):
+    """The full linear convolution of ``a`` and ``b`` by numpy's real FFT (zero-padded to a power of two).
+
+    numpy's FFT rather than scipy.signal: importing scipy.signal costs about
+    a second of a short run's start-up.
+    """
+    n = len(a) + len(b) - 1
+    size = 1 << (n - 1).bit_length()
+    return np.fft.irfft(np.fft.rfft(a, size) * np.fft.rfft(b, size), size)[:n]
+
 
 _GAUSS_POINTS = 8
 
@@ -103,7 +114,7 @@ def duhamel(x, name, ds, start="steady"):
         W = indicial_weights(name, ds, n - 1)
         dx = np.diff(x)
         if n > 256:
-            conv = signal.fftconvolve(dx, W)[: n - 1]
+            conv = _fft_convolve(dx, W)[: n - 1]
         else:
             conv = np.convolve(dx, W)[: n - 1]
         out[1:] += conv
@@ -214,7 +225,7 @@ def leading_edge_a0(cl_c, alpha_dot, *, speed, chord):
 
 
 def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord, pivot,
-                 alpha_L0=0.0, cm0=0.0, w_le=None, u_le=None, start="steady"):
+                 alpha_L0=0.0, cm0=0.0, w_le=None, u_le=None, start="steady", gust_start=None):
     """Lift, drag and moment histories of the linear model from plain arrays.
 
     Parameters
@@ -237,6 +248,8 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
         change of dynamic pressure on the lift (cl (1 + 2 u/U)); a
         simplification of this program.
     start : {"steady", "impulsive"}
+    gust_start : {"steady", "impulsive"}, optional
+        How the gust input began (default ``start``): see :func:`gust_start`.
 
     Returns
     -------
@@ -254,7 +267,7 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
                        ds=ds, start=start)
     cl_gust = np.zeros_like(t)
     if w_le is not None:
-        cl_gust = gust_lift(w_le, speed=U, ds=ds, start=start)
+        cl_gust = gust_lift(w_le, speed=U, ds=ds, start=gust_start or start)
     cl = out["cl"] + cl_gust
     cl_c_total = out["cl_c"] + cl_gust
     if u_le is not None:
@@ -290,18 +303,40 @@ def section_constants(section):
 _SECTION_CACHE = {}
 
 
-def _start_responses(start, N, ds):
+def gust_start(start, gust):
+    """How the gust input of the linear model began: "steady" or "impulsive".
+
+    A steady run start in a gust field that already surrounds the airfoil
+    at t = 0 (turbulence, or a front that arrived before;
+    :attr:`unsteady.inputs.gusts.GustField.present_at_start`) has carried the
+    gust met at t = 0 forever, like the vortex model's steady start in the
+    field as it stands then.  A gust whose front arrives at or after t = 0
+    did not exist before: its Kuessner response starts from zero at s = 0,
+    whatever the motion's start (else the half-amplitude sample of a
+    sharp-edged front spread about the leading edge would count as a gust
+    flown in forever).
+    """
+    if start == "steady" and gust is not None and gust.present_at_start:
+        return "steady"
+    return "impulsive"
+
+
+def _start_responses(start, N, ds, gust_start=None):
     """Wagner and Kuessner weights of the state before the first row.
 
-    A steady start has carried its attitude forever (both 1); an impulsive
+    A steady start has carried its attitude forever (1); an impulsive
     start began at s = 0, so the responses are phi(s) and psi(s), 0 at s = 0.
+    The Kuessner weights follow ``gust_start`` (default ``start``).
     """
-    if start == "steady":
-        return np.ones(N), np.ones(N)
     s = np.arange(N) * ds
-    R_w, R_k = theory.wagner(s), theory.kuessner(s)
-    R_w[0] = R_k[0] = 0.0
-    return R_w, R_k
+
+    def response(kind, fn):
+        if kind == "steady":
+            return np.ones(N)
+        r = fn(s)
+        r[0] = 0.0
+        return r
+    return response(start, theory.wagner), response(gust_start or start, theory.kuessner)
 
 
 class LinearMarcher:
@@ -331,6 +366,8 @@ class LinearMarcher:
     accel : callable, optional
         ``accel(t) -> (alpha_ddot, h_ddot)`` of the prescribed motion.
     start : {"steady", "impulsive"}
+    gust_start : {"steady", "impulsive"}, optional
+        How the gust input began (default ``start``): see :func:`gust_start`.
     w_series, u_series : array_like, optional
         The gust at the leading edge already sampled at every row (steps + 1
         values, m/s); used instead of ``w_le``/``u_le`` when given.
@@ -348,7 +385,7 @@ class LinearMarcher:
 
     def __init__(self, motion, *, steps, dt, speed, chord, pivot, alpha_L0=0.0, cm0=0.0,
                  w_le=None, u_le=None, accel=None, start="steady", w_series=None, u_series=None,
-                 s_max=None, tail=True, compiled=True):
+                 s_max=None, tail=True, compiled=True, gust_start=None):
         self.motion = motion
         self.N = int(steps) + 1
         self.dt = float(dt)
@@ -362,6 +399,7 @@ class LinearMarcher:
             u_le = lambda tt, hh: self.u_series[int(round(tt / self.dt))]
         self.w_le, self.u_le, self.accel = w_le, u_le, accel
         self.start = start
+        self.gust_start = gust_start or start
         self.ds = 2.0 * self.U * self.dt / self.c
         from .kernels import S_MAX_DEFAULT
         self.s_max = S_MAX_DEFAULT if s_max is None else float(s_max)
@@ -388,7 +426,7 @@ class LinearMarcher:
         H = {k: np.zeros(N) for k in names}
         Ww = indicial_weights("wagner", self.ds, max(N - 1, 1))
         Wk = indicial_weights("kuessner", self.ds, max(N - 1, 1))
-        R_w, R_k = _start_responses(self.start, N, self.ds)
+        R_w, R_k = _start_responses(self.start, N, self.ds, self.gust_start)
         dq = np.zeros(N)
         dw = np.zeros(N)
         prev = None
@@ -461,7 +499,7 @@ class LinearMarcher:
         if self.tail and M < N - 1:
             cw, dw = memory_tail("wagner", self.ds, M, N * self.ds)
             ck, dk = memory_tail("kuessner", self.ds, M, N * self.ds)
-        R_w, R_k = _start_responses(self.start, N, self.ds)
+        R_w, R_k = _start_responses(self.start, N, self.ds, self.gust_start)
         names = ("h", "h_dot", "h_ddot", "n", "cl", "cd", "cm", "cm_pivot", "cl_c", "cl_nc",
                  "cl_gust", "q34")
         out = {k: np.empty(N) for k in names}
@@ -511,7 +549,8 @@ def heave_marcher(sc, motion, gust=None, **options):
         motion, steps=steps, dt=dt, speed=sc.speed, chord=sc.chord, pivot=sc.pivot,
         alpha_L0=alpha_L0, cm0=cm0, w_series=w_arr,
         u_series=u_arr if gust is not None and gust.streamwise else None,
-        accel=sc.kinematics.accel, start=sc.data["run"]["start"], **options)
+        accel=sc.kinematics.accel, start=sc.data["run"]["start"],
+        gust_start=gust_start(sc.data["run"]["start"], gust), **options)
 
 
 def _gust_series(gust, x_le, t, h):

@@ -80,9 +80,13 @@ class Model:
        the motion for no state: the heave is trimmed after the model is
        built.  The scenario check has refused bad input already; trust it.
     3. ``steady_cl(alpha, alpha_dot) -> float`` is the lift coefficient of
-       the settled flow in still air at pitch ``alpha`` (rad, nose-up) and
-       pitch rate ``alpha_dot`` (rad/s), without heave.  The heave trim
-       calls it a few times before the march.
+       the settled flow at t = 0 at pitch ``alpha`` (rad, nose-up) and
+       pitch rate ``alpha_dot`` (rad/s), without heave: in still air, or in
+       the gust field as it stands at t = 0 where the airfoil is inside a
+       gust then (:attr:`~unsteady.inputs.gusts.GustField.present_at_start`:
+       turbulence), the flow the model's steady start begins from.  The
+       heave trim calls it a few times before the march, so the run starts
+       level (n = 1) in both cases.
     4. ``_march(observers)`` marches the rows n = 0 .. ``sc.steps`` in
        order, in one of two ways:
 
@@ -249,11 +253,13 @@ class VortexModel(Model):
         self._pressure = None
 
     def steady_cl(self, alpha, alpha_dot):
-        """cl of the solver's steady start at a fixed attitude (step 0, no wake shed yet)."""
+        """cl of the solver's steady start at a fixed attitude (step 0 at t = 0, no wake shed
+        yet), in the gust field as it stands at t = 0 when the airfoil is inside it (rule 3)."""
         sc = self.sc
         obs = _LastCl()
+        gust = self.gust if self.gust is not None and self.gust.present_at_start else None
         VortexSolver(self.body, _Fixed(alpha, alpha_dot), speed=sc.speed, density=sc.density,
-                     dt=sc.dt, steps=0, start="steady").run([obs])
+                     dt=sc.dt, steps=0, start="steady", gust=gust).run([obs])
         return obs.cl
 
     def _march(self, observers):
@@ -325,10 +331,24 @@ class LinearModel(Model):
         exactly level: n = 1.0002 to 1.0007 at t = 0 in the bundled drone
         scenarios (measured; trimmed on its own lift instead, the trim moves
         by under 0.004 degrees and n_max by about 1e-4).
+
+        In a gust field that surrounds the airfoil at t = 0 (rule 3), the
+        linear model's own steady gust lift at t = 0 is added: 2 pi w/U of
+        the gust met at the leading edge (Kuessner's response settled), and
+        a streamwise gust scales the lift by 1 + 2 u/U as in
+        :func:`~unsteady.linear.model.linear_loads`; the run then starts
+        level in turbulence too.
         """
         if self._trim_model is None:
             self._trim_model = VortexModel(self.sc, None, None)
-        return self._trim_model.steady_cl(alpha, alpha_dot)
+        cl = self._trim_model.steady_cl(alpha, alpha_dot)
+        gust = self.gust
+        if gust is not None and linear.gust_start(self.sc.data["run"]["start"], gust) == "steady":
+            u, w = _gust_series(gust, -self.sc.pivot * self.sc.chord, np.zeros(1), np.zeros(1))
+            cl += 2.0 * np.pi * float(w[0]) / self.sc.speed
+            if gust.streamwise:
+                cl *= 1.0 + 2.0 * float(u[0]) / self.sc.speed
+        return cl
 
     def marcher(self):
         """The :class:`~unsteady.linear.model.LinearMarcher` of the free heave (``[aircraft]``), trimmed motion."""
@@ -365,7 +385,8 @@ class LinearModel(Model):
         out = linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, speed=sc.speed,
                            chord=sc.chord, pivot=sc.pivot, alpha_L0=self.alpha_L0, cm0=self.cm0,
                            w_le=w_le, u_le=u_le if gust is not None and gust.streamwise else None,
-                           start=sc.data["run"]["start"])
+                           start=sc.data["run"]["start"],
+                           gust_start=linear.gust_start(sc.data["run"]["start"], gust))
         return t, alpha, alpha_dot, h, h_dot, out
 
     def summary(self):

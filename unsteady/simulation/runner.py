@@ -7,7 +7,8 @@ import time
 from ..analysis.lag import add_quasi_steady, lag_summary
 from ..analysis.loads import add_dimensional_loads
 from ..analysis.summary import make_summary
-from ..analysis.turbulence import turbulence_summary
+from ..analysis.turbulence import startup_interval, turbulence_summary
+from ..analysis.verdict import measured_warnings, warning_lines
 from ..dynamics.heave import HeaveMotion
 from ..inputs.gusts import build_gust_field
 from ..inputs.scenario import Scenario, load_scenario
@@ -97,6 +98,10 @@ def simulate(scenario, observers=(), *, progress=False):
     snapshots.update(model.snapshot_extras())
     add_quasi_steady(history, sc, gust)           # quasi-steady column, lag metrics, validity flag
     summary["lag"] = lag_summary(history, sc)
+    lines = list(sc.warnings) + list(summary.get("warnings", []))
+    lines += warning_lines(measured_warnings(history, sc, summary, snapshots), sc.source)
+    if lines:
+        summary["warnings"] = list(dict.fromkeys(lines))      # check's first, then measured; once each
     for o in observers:
         if hasattr(o, "finish"):
             o.finish(history)
@@ -116,9 +121,12 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
     sc = model.sc
     extra.update(add_dimensional_loads(history, sc))      # lift_N, cl_wing, root_bending_Nm
     extra.update(turbulence_summary(history, sc))         # n_rms, A_bar, N0 in turbulence
+    gust = model.gust
+    settle = (startup_interval(sc) if gust is not None and gust.present_at_start
+              and sc.data.get("aircraft") else 0.0)
     summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra,
                            impulse_times=sc.kinematics.singular_times(), dt=sc.dt,
-                           chord_time=sc.chord / sc.speed)
+                           chord_time=sc.chord / sc.speed, settle_s=settle)
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
     summary.update(model=model.name, **model.summary(), chords_travelled=travelled)
     if error:

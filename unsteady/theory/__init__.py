@@ -331,26 +331,42 @@ def _branch_cut_point(name, s):
 
 @functools.lru_cache(maxsize=None)
 def _table(name):
-    """Cubic spline of r(s) in v = sqrt(s) on [0, _S_TABLE_MAX], and the 1/s tail constant.
+    """Cubic spline of r(s) in v = sqrt(s) on [0, _S_TABLE_MAX] (breakpoints, coefficients), and the 1/s tail constant.
 
     sqrt(s) is the natural variable: psi(s) grows as sqrt(s) from s = 0, and
-    both functions are smooth in sqrt(s).
+    both functions are smooth in sqrt(s).  The spline interpolates the
+    branch-cut integral at 900 points; its piecewise-polynomial coefficients
+    are kept in the on-disk cache (:mod:`unsteady.core.cache`, keyed on this
+    file's source) so that a new process does not integrate again.
     """
-    from scipy import interpolate
-    v_near = np.linspace(0.0, 2.0, 201)  # s from 0 to 4, ds ~ 0.0001 near 0
-    s_far = np.geomspace(4.0, _S_TABLE_MAX, 700)[1:]
-    s = np.concatenate([v_near**2, s_far])
-    r = _branch_cut_values(name, s)
-    spline = interpolate.CubicSpline(np.sqrt(s), r)
-    tail = _S_TABLE_MAX * (1.0 - r[-1])  # 1 - r ~ tail / s beyond the table
-    return spline, tail
+    from ..core.cache import cached_arrays, source_digest
+
+    def compute():
+        from scipy import interpolate
+        v_near = np.linspace(0.0, 2.0, 201)  # s from 0 to 4, ds ~ 0.0001 near 0
+        s_far = np.geomspace(4.0, _S_TABLE_MAX, 700)[1:]
+        s = np.concatenate([v_near**2, s_far])
+        r = _branch_cut_values(name, s)
+        spline = interpolate.CubicSpline(np.sqrt(s), r)
+        return {"x": spline.x, "c": spline.c, "r_end": r[-1:]}
+
+    t = cached_arrays(f"indicial-{name}", f"{source_digest(__file__)}:{_S_TABLE_MAX!r}", compute)
+    tail = _S_TABLE_MAX * (1.0 - float(t["r_end"][0]))  # 1 - r ~ tail / s beyond the table
+    return t["x"], t["c"], tail
+
+
+def _spline_eval(x, c, v):
+    """Evaluate the piecewise cubic of breakpoints ``x`` and coefficients ``c`` (scipy PPoly layout) at ``v``."""
+    i = np.clip(np.searchsorted(x, v, side="right") - 1, 0, len(x) - 2)
+    d = v - x[i]
+    return ((c[0, i] * d + c[1, i]) * d + c[2, i]) * d + c[3, i]
 
 
 def _indicial(name, s):
     s = np.asarray(s, dtype=float)
-    spline, tail = _table(name)
+    x, c, tail = _table(name)
     with np.errstate(all="ignore"):
-        inside = spline(np.sqrt(np.clip(s, 0.0, _S_TABLE_MAX)))
+        inside = _spline_eval(x, c, np.sqrt(np.clip(s, 0.0, _S_TABLE_MAX)))
         outside = 1.0 - tail / s
     r = np.where(s > _S_TABLE_MAX, outside, inside)
     r = np.where(s < 0.0, 0.0, r)

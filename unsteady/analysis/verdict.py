@@ -1,0 +1,193 @@
+"""Where the model is out of its depth: the warnings a run measures on its own history.
+
+The scenario check estimates some of these before anything runs (the gust
+checker's effective-angle estimate, ``Scenario.warnings``); this module
+measures them on what the run produced, so the user is told what actually
+happened.  Each warning is a ``(key, message)`` pair naming the input that
+drove it; the runner writes them into ``summary["warnings"]`` as lines
+``warning: <file>: <key>: <message>`` after the scenario's own warnings,
+``unsteady run`` prints the measured ones on stderr,
+and the pictures, films and the report show them.  A gentle run gets none.
+
+What is measured (limits marked common practice where no source is named):
+
+1. **Effective angle** beyond the attached-flow range: the lag block's
+   validity verdict (:func:`unsteady.analysis.lag.validity`: 12 degrees at
+   the three-quarter chord, the ``alpha_eff_deg`` column).
+2. **Reduced pitch rate** alpha_dot c / (2U) beyond 0.05 (the same verdict):
+   a leading-edge vortex would form.
+3. (Impulsive motion is known exactly from the inputs: the scenario check
+   warns of it, :mod:`unsteady.inputs.estimates`.)
+4. **Reversed flow**: a streamwise gust at least as strong as the flight
+   speed (U + u <= 0 at the leading edge): the section then meets the air
+   from behind, which no part of this model describes.
+5. **Lift beyond a section's maximum**: |cl| beyond :data:`CL_MAX_TYPICAL`
+   (1.5; common practice: NACA 4-digit sections reach about 1.2-1.6 at
+   small-drone Reynolds numbers); with ``[aircraft]`` the load factor such a
+   section could carry is given beside the computed one.
+6. **The two load routes disagree** (vortex model): the pressure
+   integration and the vortex impulse are two exact routes to the same
+   force, so a gap beyond :data:`ROUTE_TOLERANCE` of the peak |cl|, away
+   from instantaneous changes of the motion, means the step or the elements
+   do not resolve the flow.
+7. **The wake passes through the airfoil** (vortex model, free wake): a
+   wake vortex of a snapshot lies on the chord (within 2 % of the chord of
+   it, between 2 % and 98 % of the chord), where the discrete vortices
+   induce unbounded velocities and the loads stop meaning anything.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ..inputs.estimates import angle_text
+from .lag import validity
+from .summary import impulse_mask
+
+#: |cl| beyond which a real section would have stalled (common practice, see module docstring).
+CL_MAX_TYPICAL = 1.5
+#: Largest gap between the pressure and impulse lift, as a fraction of the peak |cl| (common practice).
+ROUTE_TOLERANCE = 0.05
+#: Half-thickness of the band about the chord (fraction of chord) where a wake vortex counts as inside.
+WAKE_BAND = 0.02
+
+
+def _motion_key(sc):
+    mo = sc.data.get("motion", {})
+    return "motion.pitch" if "pitch" in mo or "plunge" not in mo else "motion.plunge"
+
+
+def _gust_key(sc, what="amplitude"):
+    g = sc.data.get("gust")
+    if g is None:
+        return None
+    if isinstance(g, dict):
+        return f"gust.{'intensity' if g.get('profile') == 'turbulence' else what}"
+    return "gust"
+
+
+def measured_warnings(history, sc, summary, snapshots=None):
+    """The ``(key, message)`` pairs of a finished run (see the module docstring).
+
+    Parameters
+    ----------
+    history : dict of ndarray
+        The complete history (``alpha_eff_deg`` and ``pitch_rate_deg_s``
+        columns included).
+    sc : Scenario
+    summary : dict
+        The run's summary, its ``lag`` block included.
+    snapshots : dict, optional
+        The run's snapshots (wake positions), for the wake-through-airfoil check.
+    """
+    out = []
+    t = np.asarray(history["t"], dtype=float)
+    if t.size == 0:
+        return out
+    gust_key = _gust_key(sc)
+    motion_key = _motion_key(sc)
+    vortex = sc.data["run"].get("model", "vortex") == "vortex"
+
+    # 1-2: the attached-flow verdict
+    k_red = np.radians(np.asarray(history["pitch_rate_deg_s"], float)) * sc.chord / (2.0 * sc.speed)
+    v = validity(np.asarray(history["alpha_eff_deg"], float), k_red)
+    a_max = float(np.nanmax(np.abs(history["alpha_eff_deg"])))
+    if a_max > v["alpha_eff_limit_deg"]:
+        i = int(np.nanargmax(np.abs(history["alpha_eff_deg"])))
+        out.append((gust_key or motion_key,
+                    f"the effective angle of attack reached {angle_text(a_max)} at t = {t[i]:.4g} s, "
+                    f"beyond the {v['alpha_eff_limit_deg']:g} degrees of attached flow: a real section "
+                    f"would separate or stall there, and these attached-flow loads overstate it"))
+    k_max = float(np.nanmax(np.abs(k_red)))
+    if k_max > v["pitch_rate_limit"]:
+        out.append(("motion.pitch",
+                    f"the reduced pitch rate alpha_dot c/(2U) reached {k_max:.3f}, beyond "
+                    f"{v['pitch_rate_limit']:g}: the leading edge would shed a vortex, which an "
+                    f"attached-flow run leaves out"))
+
+    times = [T for T in sc.kinematics.singular_times() if t[0] <= T <= t[-1]]
+
+    # 4: reversed flow
+    if "u_gust" in history:
+        u_min = float(np.nanmin(np.asarray(history["u_gust"], float)))
+        if sc.speed + u_min <= 0.0:
+            out.append((_gust_key(sc) or "gust",
+                        f"the streamwise gust reaches {u_min:.3g} m/s against a flight speed of "
+                        f"{sc.speed:.3g} m/s: the air meets the section from behind, which this model "
+                        f"does not describe"))
+
+    # 5: lift beyond a section's maximum
+    cl = np.asarray(history["cl"], float)
+    keep = np.ones(t.shape, bool)
+    if times:
+        keep = ~impulse_mask(t, times, sc.dt, sc.chord / sc.speed)
+    if "peaks_from_s" in summary:
+        keep &= t >= summary["peaks_from_s"]
+    if keep.any() and np.isfinite(cl[keep]).any():
+        i = np.nonzero(keep)[0][int(np.nanargmax(np.abs(cl[keep])))]
+        if abs(cl[i]) > CL_MAX_TYPICAL:
+            msg = (f"the section lift coefficient reached {cl[i]:.3g} at t = {t[i]:.4g} s, beyond the "
+                   f"about {CL_MAX_TYPICAL:g} a real section carries before it stalls (common practice)")
+            if "n" in history and np.isfinite(history["n"][i]) and cl[i] != 0.0:
+                n_i = float(history["n"][i])
+                n_cap = 1.0 + (n_i - 1.0) * (math.copysign(CL_MAX_TYPICAL, cl[i]) - cl[0]) / (cl[i] - cl[0]) \
+                    if cl[i] != cl[0] else n_i
+                msg += (f": the load factor {n_i:.3g} there is more than such a section could give "
+                        f"(about {n_cap:.3g})")
+            out.append(("aircraft.mass" if "n" in history else gust_key or motion_key, msg))
+
+    # 6: the two load routes
+    if vortex and "cl_impulse" in history and keep.any():
+        gap = np.abs(cl - np.asarray(history["cl_impulse"], float))
+        peak = float(np.nanmax(np.abs(cl[keep])))
+        if peak > 0.0 and np.isfinite(gap[keep]).any():
+            j = np.nonzero(keep)[0][int(np.nanargmax(gap[keep]))]
+            if gap[j] > ROUTE_TOLERANCE * peak:
+                out.append(("run.dt",
+                            f"the pressure and impulse routes to the lift differ by {gap[j]:.3g} "
+                            f"({100 * gap[j] / peak:.0f} % of the peak) at t = {t[j]:.4g} s: the step or "
+                            f"the elements do not resolve this flow; halve run.dt or raise "
+                            f"airfoil.elements and compare"))
+
+    # 7: the wake through the airfoil
+    if vortex and snapshots is not None:
+        hit = wake_through_airfoil(snapshots, sc)
+        if hit is not None:
+            out.append((motion_key,
+                        f"wake vortices lie on the airfoil at t = {hit:.4g} s (the body meets its own "
+                        f"wake): the loads after that are not to be trusted"))
+    return out
+
+
+def wake_through_airfoil(snapshots, sc):
+    """The first snapshot time (s) at which a wake vortex lies on the chord, else None.
+
+    Wake positions are taken to body coordinates (the inverse of
+    :func:`unsteady.vortex.bodies.to_inertial`); a vortex counts when
+    |zeta| < WAKE_BAND c and xi lies between 2 % and 98 % of the chord.
+    """
+    t = np.asarray(snapshots.get("t", ()), dtype=float)
+    off = np.asarray(snapshots.get("offsets", ()), dtype=np.int64)
+    if t.size == 0 or off.size < t.size + 1:
+        return None
+    x, z = np.asarray(snapshots["x"], float), np.asarray(snapshots["z"], float)
+    c, p = sc.chord, sc.pivot
+    lo, hi = (0.02 - p) * c, (0.98 - p) * c
+    for k in range(t.size):
+        a, b = off[k], off[k + 1]
+        if b <= a:
+            continue
+        al, h = float(snapshots["alpha"][k]), float(snapshots["h"][k])
+        dx, dz = x[a:b], z[a:b] - h
+        xi = dx * math.cos(al) - dz * math.sin(al)
+        zeta = dx * math.sin(al) + dz * math.cos(al)
+        if np.any((np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)):
+            return float(t[k])
+    return None
+
+
+def warning_lines(pairs, source):
+    """``warning: <file>: <key>: <message>`` lines of ``(key, message)`` pairs."""
+    return [f"warning: {source}: {key}: {msg}" for key, msg in pairs]
