@@ -95,6 +95,19 @@ def test_a_users_folder_that_looks_like_a_run_is_refused_before_computing(tmp_pa
     assert _listing(tmp_path) == before
 
 
+def test_a_folder_named_by_output_dir_is_refused_naming_the_scenario_and_key(tmp_path, capsys, no_computing):
+    victim = tmp_path / "photos"
+    victim.mkdir()
+    (victim / "wing.jpg").write_bytes(b"\xff\xd8 a photograph")
+    scen = tmp_path / "s.toml"
+    scen.write_text(GOOD.replace("plots = false", f"plots = false\ndir = '{victim}'"))
+    before = _listing(tmp_path)
+    assert main(["run", str(scen), "--quiet"]) == 2
+    err = _err(capsys)
+    assert len(err) == 1 and err[0].startswith(f"error: {scen}: output.dir: {victim} holds wing.jpg, "), err
+    assert _listing(tmp_path) == before
+
+
 def test_an_earlier_run_is_replaced_and_anything_added_or_changed_refused(tmp_path, scen, capsys):
     out = tmp_path / "run"
     assert main(["run", str(scen), "--out", str(out), "--quiet"]) == 0
@@ -244,7 +257,7 @@ def test_a_read_only_parent_or_earlier_run_is_refused_before_computing(tmp_path,
     r = _read_only(parent, ["run", str(scen), "--out", str(parent / "new"), "--quiet"])
     assert r.returncode == 2, r.stderr
     lines = r.stderr.strip().splitlines()
-    assert len(lines) == 1 and lines[0].startswith(f"error: {parent / 'new'}: --out: cannot write in "), lines
+    assert len(lines) == 1 and lines[0].startswith(f"error: {parent / 'new'}: --out: cannot be written: no file can be made in {parent} "), lines
     assert os.listdir(parent) == []
     run = tmp_path / "earlier"
     assert main(["run", str(scen), "--out", str(run), "--quiet"]) == 0
@@ -252,7 +265,7 @@ def test_a_read_only_parent_or_earlier_run_is_refused_before_computing(tmp_path,
     r = _read_only(run, ["run", str(scen), "--out", str(run), "--quiet"])
     assert r.returncode == 2, r.stderr
     lines = r.stderr.strip().splitlines()
-    assert len(lines) == 1 and lines[0].startswith(f"error: {run}: --out: cannot write in {run}"), lines
+    assert len(lines) == 1 and lines[0].startswith(f"error: {run}: --out: cannot be written: no file can be made in {run} "), lines
     assert _listing(tmp_path) == before
 
 

@@ -21,8 +21,11 @@ def add_arguments(p):
 def main(args):
     from ..outputs.rundir import check_out_dir
     sc = load(args)
-    out = Path(args.out) if args.out is not None else sc.out_dir()
-    problem = check_out_dir(args.out if args.out is not None else out)    # before any computing
+    if args.out is not None:
+        out, problem = Path(args.out), check_out_dir(args.out)           # before any computing
+    else:
+        out = sc.out_dir()
+        problem = check_out_dir(out, "output.dir", source=args.scenario)
     if problem:
         raise UsageError(problem)
     from ..simulation.runner import simulate

@@ -471,7 +471,10 @@ def main(args):
         raise UsageError(f"error: {args.scenario}: --workers: give either --workers (local cluster) "
                              "or --scheduler (existing cluster), not both")
     out = Path(args.out) if args.out is not None else Path(str(sc.out_dir()) + "-sweep")
-    claim_out_dir(args.out if args.out is not None else out, "sweep")   # refused before the cluster starts
+    if args.out is not None:                                  # refused before the cluster starts
+        claim_out_dir(args.out, "sweep")
+    else:
+        claim_out_dir(out, "sweep", "output.dir", source=args.scenario)
     rep = run_sweep(sc, out, workers=args.workers, scheduler=args.scheduler,
                     progress=not args.quiet, retry_failed=args.retry_failed, warnings_to=sys.stderr)
     if rep.interrupted:

@@ -466,7 +466,13 @@ def _empty(text, label, what):
         raise UsageError(f"error: -: {label}: is empty; give {what}")
 
 
-def probe_writable(folder, shown, label="--out"):
+def _line(path, label, source, text):
+    """``error: <path>: <label>: <text>``, or with the scenario file that named the path
+    (``source``, key ``label`` = output.dir) ``error: <source>: <label>: <path> <text>``."""
+    return f"error: {source}: {label}: {path} {text}" if source else f"error: {path}: {label}: {text}"
+
+
+def probe_writable(folder, shown, label="--out", source=None):
     """Create and remove a file in ``folder``: UsageError (one line) when it cannot be done.
 
     More truthful than the permission bits: it sees read-only file systems,
@@ -477,8 +483,8 @@ def probe_writable(folder, shown, label="--out"):
         os.close(fd)
         os.unlink(p)
     except OSError as exc:
-        raise UsageError(f"error: {shown}: {label}: cannot write in {folder} "
-                         f"({exc.strerror or exc}); choose a folder you can write in") from None
+        raise UsageError(_line(shown, label, source, f"cannot be written: no file can be made in {folder} "
+                               f"({exc.strerror or exc}); choose a folder you can write in")) from None
 
 
 def _nearest_existing(path):
@@ -488,7 +494,7 @@ def _nearest_existing(path):
     return anc
 
 
-def claim_out_dir(path, kind, label="--out", *, create=False, folders=()):
+def claim_out_dir(path, kind, label="--out", *, create=False, folders=(), source=None):
     """Check, before any computing, that the folder ``path`` may take output of ``kind`` ("run", "sweep").
 
     Allowed: a new path (its nearest existing folder writable), an empty
@@ -497,6 +503,8 @@ def claim_out_dir(path, kind, label="--out", *, create=False, folders=()):
     inside it are removed first (:func:`clean_leftovers`; an interrupted swap
     is put back).  ``create``: make the folder and its record now (a sweep,
     filled piece by piece; ``folders``: subfolders it will hold).
+    ``source``: the scenario file when the path came from its ``output.dir``
+    (``label``), for the messages.
 
     Returns
     -------
@@ -511,10 +519,13 @@ def claim_out_dir(path, kind, label="--out", *, create=False, folders=()):
     _empty(path, label, "a folder (or leave the option out)")
     path = Path(path)
     again = "give a new folder, an empty one or an earlier one of unsteady's"
+
+    def refuse(text):
+        return UsageError(_line(path, label, source, text))
     if path.is_symlink():
-        raise UsageError(f"error: {path}: {label}: is a symbolic link; give the folder it points to")
+        raise refuse("is a symbolic link; give the folder it points to")
     if os.path.lexists(path) and not path.is_dir():
-        raise UsageError(f"error: {path}: {label}: exists and is not a folder; {again}")
+        raise refuse(f"exists and is not a folder; {again}")
     parent = path.absolute().parent
     if parent.is_dir():
         clean_leftovers(parent, path.name)
@@ -524,18 +535,17 @@ def claim_out_dir(path, kind, label="--out", *, create=False, folders=()):
         try:
             bad = foreign_entry(path, kind)
         except OSError as exc:
-            raise UsageError(f"error: {path}: {label}: cannot be read ({exc.strerror}); {again}") from None
+            raise refuse(f"cannot be read ({exc.strerror}); {again}") from None
         if bad is not None:
             name, why = bad
-            what = f"holds {name}, {why}" if name is not None else why
-            raise UsageError(f"error: {path}: {label}: {what}; {again} (nothing was deleted)")
-        probe_writable(path, path, label)
-        probe_writable(parent, path, label)
+            raise refuse(f"{f'holds {name}, {why}' if name is not None else why}; {again} (nothing was deleted)")
+        probe_writable(path, path, label, source)
+        probe_writable(parent, path, label, source)
     else:
         anc = _nearest_existing(path)
         if not anc.is_dir():
-            raise UsageError(f"error: {path}: {label}: {anc} is a file, not a folder")
-        probe_writable(anc, path, label)
+            raise refuse(f"lies under {anc}, which is a file, not a folder")
+        probe_writable(anc, path, label, source)
     if create:
         path.mkdir(parents=True, exist_ok=True)
         data = read_record(path)

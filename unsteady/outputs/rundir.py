@@ -162,7 +162,7 @@ def read_run_scenario(path):
         raise ValueError(exc.message) from None
 
 
-def check_out_dir(out_dir, label="--out"):
+def check_out_dir(out_dir, label="--out", source=None):
     """Why ``out_dir`` cannot take a run directory, or None when it can (checked before computing).
 
     A run may go to a new path, an empty folder, or a folder holding the
@@ -171,10 +171,11 @@ def check_out_dir(out_dir, label="--out"):
     join it).  Anything else is refused, naming the first entry the tool did
     not write, and so is a folder that cannot be written (a read-only file
     system, ``/proc``, a read-only earlier run).  Stale leftovers of an
-    interrupted save are removed first (see :func:`unsteady.core.files.claim_out_dir`).
+    interrupted save are removed first (see :func:`unsteady.core.files.claim_out_dir`;
+    ``source``: the scenario file when the folder is its ``output.dir``).
     """
     try:
-        claim_out_dir(out_dir, "run", label)
+        claim_out_dir(out_dir, "run", label, source=source)
     except UsageError as exc:
         return str(exc)
     return None
