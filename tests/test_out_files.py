@@ -29,7 +29,7 @@ shape = "flat"
 chord = 0.2
 elements = 12
 [motion]
-pitch = { law = "ramp", from = 0.0, to = 4.0, start = 0.005, duration = 0.02 }
+pitch = { law = "ramp", from = 0.0, to = 4.0, start = 0.005, duration = 0.02, smoothing = 0.004 }
 [run]
 chords = 3
 [output]
