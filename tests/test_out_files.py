@@ -383,6 +383,27 @@ def test_sigterm_while_saving_is_one_line_and_leaves_the_earlier_run(tmp_path, s
     assert _listing(out) == earlier and not _leftovers(tmp_path)
 
 
+def test_a_file_stopped_right_after_its_rename_is_still_vouched_for(tmp_path, monkeypatch):
+    # the sweep table is rewritten after every case: a Ctrl-C between the rename of the new
+    # table and the update of the record must not make the folder look foreign
+    d = files.claim_out_dir(tmp_path / "sw", "sweep", create=True)
+    files.write_text(d / "sweep.csv", "name\ncase-001\n")
+    calls = []
+    update = files._update_record
+
+    def stopped(folder, entries):
+        calls.append(entries)
+        if len(calls) == 2:                 # the update after the rename
+            raise KeyboardInterrupt
+        update(folder, entries)
+    monkeypatch.setattr(files, "_update_record", stopped)
+    with pytest.raises(KeyboardInterrupt):
+        files.write_text(d / "sweep.csv", "name\ncase-001\ncase-002\n")
+    monkeypatch.undo()
+    assert (d / "sweep.csv").read_text().endswith("case-002\n")        # the new table is in place
+    assert files.foreign_entry(d, "sweep") is None and files.claim_out_dir(d, "sweep") == d
+
+
 def test_a_temporary_in_use_is_not_a_leftover_and_foreign_lookalikes_stay(tmp_path):
     target = tmp_path / "run"
     with files.atomic_dir(target) as tmp:

@@ -52,7 +52,7 @@ def add_arguments(p):
 
 
 def main(args):
-    from ..core.files import check_out_file, has_mark, record
+    from ..core.files import check_out_file, has_mark
     from ..outputs.films import FilmOptions, check_out_path, load_run, write_film
     run_dir = Path(args.run_dir)
     if args.out is not None and not args.out.strip():
@@ -71,7 +71,6 @@ def main(args):
                        reach=args.reach)
     res = load_run(run_dir)
     film = write_film(res, out, opts, progress=not args.quiet, label=label)
-    record(out)          # a film in a run folder joins its record
     if not args.quiet:
         dur = film.n_frames / opts.frame_rate
         msg = (f"{out}: {film.n_frames} frames, {dur:.1f} s at {opts.frame_rate:g} frames/s, "

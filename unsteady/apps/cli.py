@@ -15,7 +15,10 @@ start-up is handled like one during the run.
 
 from __future__ import annotations
 
+import signal
 import sys
+
+from ..core.errors import Interrupted
 
 #: command -> (module under unsteady.apps, one-line help)
 COMMANDS = {
@@ -71,14 +74,27 @@ def build_parser(argv=None):
     return parser
 
 
-def _on_terminate(signum, frame):
-    from ..core.errors import Interrupted
-    raise Interrupted()
+#: Signals received by the program (see :func:`main`): an interrupt that a library turned into
+#: another exception (numpy's import makes an ImportError of it) is still an interrupt.
+_RECEIVED = []
+
+
+def _on_signal(signum, frame):
+    _RECEIVED.append(signum)
+    if signum == signal.SIGTERM:
+        raise Interrupted()
+    raise KeyboardInterrupt()
+
+
+def _received():
+    """The interrupt to report when a signal arrived, else None."""
+    if not _RECEIVED:
+        return None
+    return Interrupted() if signal.SIGTERM in _RECEIVED else KeyboardInterrupt()
 
 
 def _settle():
     """Ignore further Ctrl-C and SIGTERM while the process winds down (no second traceback)."""
-    import signal
     for sig in (signal.SIGINT, signal.SIGTERM):
         try:
             signal.signal(sig, signal.SIG_IGN)
@@ -97,10 +113,9 @@ def main(argv=None):
     program = argv is None
     try:
         if program:
-            import signal
-            signal.signal(signal.SIGTERM, _on_terminate)
+            signal.signal(signal.SIGTERM, _on_signal)
             if signal.getsignal(signal.SIGINT) is not signal.SIG_IGN:
-                signal.signal(signal.SIGINT, signal.default_int_handler)
+                signal.signal(signal.SIGINT, _on_signal)
         argv = sys.argv[1:] if argv is None else list(argv)
         args = build_parser(argv).parse_args(argv)
         status = _dispatch(args)
@@ -108,13 +123,28 @@ def main(argv=None):
         if program:
             _settle()
         status = _interrupted(exc)
+    except Exception:
+        if _received() is None:
+            raise
+        _settle()
+        status = _interrupted(_received())
     if program:
         _settle()
+        if status in (130, 143):
+            # Done: temporaries are gone and the line is out.  Leave now: an interrupt that hit
+            # code run by an extension during an import can leave the interpreter set to kill
+            # itself with SIGINT at exit (status -2 instead of 130).
+            import os
+            for stream in (sys.stdout, sys.stderr):
+                try:
+                    stream.flush()
+                except (OSError, ValueError):
+                    pass
+            os._exit(status)
     return status
 
 
 def _interrupted(exc):
-    from ..core.errors import Interrupted
     if isinstance(exc, Interrupted):
         print("unsteady: terminated", file=sys.stderr)
         return 143
@@ -146,7 +176,11 @@ def _dispatch(args):
               file=sys.stderr)
         return 1
     except Exception as exc:  # anything else: one line, exit 1
-        print(f"unsteady: {type(exc).__name__}: {exc}", file=sys.stderr)
+        if _received() is not None:         # an interrupt a library turned into something else
+            raise _received() from None
+        text = " ".join(str(exc).split())
+        print(f"unsteady: {type(exc).__name__}: {text[:400]}{'...' if len(text) > 400 else ''}",
+              file=sys.stderr)
         return 1
 
 

@@ -12,7 +12,7 @@ def add_arguments(p):
 
 def main(args):
     from ..core.errors import UsageError
-    from ..core.files import owned_file, probe_writable, record
+    from ..core.files import owned_file, probe_writable
     from ..outputs.pictures import PICTURES, write_run_plots
     from ..outputs.rundir import load_run
     run_dir = Path(args.run_dir)
@@ -26,7 +26,6 @@ def main(args):
     before = {p.name: p.stat().st_mtime_ns for p in run_dir.glob("*.png")}
     write_run_plots(res, run_dir)
     new = sorted(p.name for p in run_dir.glob("*.png") if before.get(p.name) != p.stat().st_mtime_ns)
-    record(*(run_dir / n for n in new))      # redrawn pictures stay in the run's record
     if not args.quiet:
         print(f"{run_dir}: redrew {', '.join(new) if new else 'nothing'}")
     return 0

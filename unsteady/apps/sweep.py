@@ -39,7 +39,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..core.cautions import SWEEP_CAUTION
-from ..core.files import claim_out_dir, record, write_text
+from ..core.files import claim_out_dir, write_text
 from ..core.version import __version__
 from ..inputs.scenario import ScenarioError, load_scenario
 from ..inputs.sweep import _fmt_value, expand  # noqa: F401
@@ -167,7 +167,6 @@ class SweepTable:
         w.writeheader()
         w.writerows(rows)
         write_text(self.path, buf.getvalue())
-        record(self.path)          # the sweep folder's record (core.files) follows the table
 
 
 def read_table(path):
@@ -440,7 +439,6 @@ def write_envelope(sc, out_dir, rows):
     fig.get_layout_engine().set(rect=(0, 0.06, 1, 0.94))
     path = Path(out_dir) / PICTURE_NAME
     save_png(fig, path, dpi=120)
-    record(path)
     return path
 
 

@@ -102,7 +102,10 @@ def atomic_path(target, mode=0o666):
     alone) and named ``.<stem>.<random>.part<suffix>`` so that tools which
     read the format from the suffix (matplotlib, ffmpeg) still can.  On any
     error (KeyboardInterrupt too) it is removed and ``target`` is left as it
-    was.
+    was.  In a folder with a complete :data:`RECORD` the new file joins the
+    record: its digest is accepted before the rename (the earlier one still
+    is too), and becomes the only one after it, so a process killed in
+    between leaves a file the record vouches for.
 
     Parameters
     ----------
@@ -123,7 +126,10 @@ def atomic_path(target, mode=0o666):
         _lock(fd)
         os.chmod(tmp, mode & ~umask())        # mkstemp makes the file private
         yield Path(tmp)
+        entry = _record_ahead(target, Path(tmp))
         os.replace(tmp, target)
+        if entry is not None:
+            _update_record(target.absolute().parent, {target.name: entry})
     except BaseException:
         _remove(tmp)
         raise
@@ -284,35 +290,65 @@ def write_record(folder, kind, folders=()):
     _write_record(folder, {"kind": kind, "complete": True, "files": files})
 
 
-def record(*paths):
-    """Add files the tool just wrote to the record of their folder (none: nothing to do).
+def _update_record(folder, entries):
+    """Set the given entries (name -> entry) of ``folder``'s record, one writer at a time."""
+    folder = Path(folder)
+    fd = os.open(folder, os.O_RDONLY)
+    try:
+        if fcntl is not None:
+            try:
+                fcntl.flock(fd, fcntl.LOCK_EX)
+            except OSError:
+                pass
+        data = read_record(folder)
+        if data is None:
+            return
+        data["files"].update(entries)
+        _write_record(folder, {k: v for k, v in data.items() if k not in ("written_by", "version")})
+    finally:
+        os.close(fd)
 
-    Used for what joins a folder after it was made: a film or a report in a
-    run folder, redrawn pictures, a sweep's table and picture.
-    """
+
+def _record_ahead(target, tmp):
+    """Before ``tmp`` is renamed onto ``target``: accept its content in the record of the folder
+    (when it has a complete one) beside the current one; returns the new entry, or None."""
+    if target.name == RECORD or _TEMP.match(target.name):
+        return None
+    folder = target.absolute().parent
+    data = read_record(folder)
+    if data is None or not data.get("complete"):
+        return None                          # no record, or a folder still being filled
+    entry = _entry(tmp)
+    old = data["files"].get(target.name)
+    also = [{k: old[k] for k in ("size", "sha256")}] if isinstance(old, dict) and "sha256" in old else []
+    _update_record(folder, {target.name: {**entry, "also": also}})
+    return entry
+
+
+def record(*paths):
+    """Add files written by other means than :func:`atomic_path` to the record of their folder
+    (none: nothing to do).  Files written through :func:`atomic_path` join it by themselves."""
     by_folder = {}
     for p in paths:
         p = Path(p)
-        by_folder.setdefault(p.absolute().parent, []).append(p)
-    for folder, items in by_folder.items():
-        if read_record(folder) is None:
-            continue
-        fd = os.open(folder, os.O_RDONLY)
-        try:
-            if fcntl is not None:
-                try:
-                    fcntl.flock(fd, fcntl.LOCK_EX)   # one writer of the record at a time
-                except OSError:
-                    pass
-            data = read_record(folder)
-            if data is None:
-                continue
-            for p in items:
-                if p.exists():
-                    data["files"][p.name] = _entry(p)
-            _write_record(folder, {k: v for k, v in data.items() if k not in ("written_by", "version")})
-        finally:
-            os.close(fd)
+        if p.is_file():
+            by_folder.setdefault(p.absolute().parent, {})[p.name] = _entry(p)
+    for folder, entries in by_folder.items():
+        if read_record(folder) is not None:
+            _update_record(folder, entries)
+
+
+def _matches(path, want):
+    """Whether the file ``path`` is the one ``want`` (a record entry, or one of its ``also``) describes."""
+    try:
+        size = path.stat().st_size
+        versions = [want, *want.get("also", ())]
+        if not any(size == v.get("size") for v in versions):
+            return False
+        d = digest(path)
+        return any(size == v.get("size") and d == v.get("sha256") for v in versions)
+    except OSError:
+        return False
 
 
 def foreign_entry(folder, kind):
@@ -342,11 +378,7 @@ def foreign_entry(folder, kind):
             continue
         if p.is_symlink() or not p.is_file():
             return n, "which unsteady did not write"
-        try:
-            same = p.stat().st_size == want.get("size") and digest(p) == want.get("sha256")
-        except OSError:
-            same = False
-        if not same:
+        if not _matches(p, want):
             return n, "changed since unsteady wrote it"
     return None
 
@@ -359,12 +391,8 @@ def owned_file(path, marked=None) -> bool:
         return False
     data = read_record(path.absolute().parent)
     want = data["files"].get(path.name) if data else None
-    if isinstance(want, dict) and not want.get("dir"):
-        try:
-            if path.stat().st_size == want.get("size") and digest(path) == want.get("sha256"):
-                return True
-        except OSError:
-            pass
+    if isinstance(want, dict) and not want.get("dir") and _matches(path, want):
+        return True
     return bool(marked and marked(path))
 
 

@@ -13,7 +13,7 @@ from pathlib import Path
 
 from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SWEEP_CAUTION
 from ..core.errors import UsageError
-from ..core.files import record, write_text
+from ..core.files import write_text
 from ..core.version import __version__
 from ..theory import G
 
@@ -943,5 +943,4 @@ def write_report(folder, out=None, *, film=True, progress=False):
     else:
         text, film = sweep_page(folder, say=say), None
     write_text(out, text)
-    record(out)            # a page in a run or sweep folder joins its record
     return out, kind, film
