@@ -83,12 +83,15 @@ def test_rerun_replaces_directory_atomically(tmp_path):
     f = tmp_path / "good.toml"
     f.write_text(GOOD)
     out = tmp_path / "out"
-    assert main(["run", str(f), "--out", str(out), "--quiet"]) == 0
-    (out / "stale.png").write_text("old")   # a picture of the earlier run
-    assert main(["run", str(f), "--out", str(out), "--quiet", "--set", "run.chords=2"]) == 0
-    assert not (out / "stale.png").exists()
+    assert main(["run", str(f), "--out", str(out), "--quiet", "--no-plots"]) == 0
+    assert main(["run", str(f), "--out", str(out), "--quiet", "--set", "run.chords=2",
+                 "--set", "output.plots=true"]) == 0
+    assert (out / "wake.png").exists()
     t = np.loadtxt(out / "history.csv", delimiter=",", skiprows=1)[:, 1]
     assert t[-1] == pytest.approx(2.0, abs=0.1)
+    # the pictures of that run are its own: a run without them replaces it whole
+    assert main(["run", str(f), "--out", str(out), "--quiet"]) == 0
+    assert not (out / "wake.png").exists()
 
 
 def test_out_never_deletes_a_folder_that_is_not_a_run(tmp_path, capsys):
@@ -99,7 +102,7 @@ def test_out_never_deletes_a_folder_that_is_not_a_run(tmp_path, capsys):
     (victim / "precious" / "data.txt").write_text("keep")
     assert main(["run", str(f), "--out", str(victim), "--quiet"]) == 2
     assert (victim / "precious" / "data.txt").read_text() == "keep"
-    assert "does not hold an earlier run" in capsys.readouterr().err
+    assert "--out: holds precious, which unsteady did not write" in capsys.readouterr().err
     # an empty folder is fine, and so is a path under a new folder
     (tmp_path / "empty").mkdir()
     assert main(["run", str(f), "--out", str(tmp_path / "empty"), "--quiet"]) == 0

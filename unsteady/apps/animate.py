@@ -52,10 +52,16 @@ def add_arguments(p):
 
 
 def main(args):
+    from ..core.files import check_out_file, has_mark
     from ..outputs.films import FilmOptions, check_out_path, load_run, write_film
     run_dir = Path(args.run_dir)
-    out = Path(args.out) if args.out else run_dir / "film.mp4"
+    if args.out is not None and not args.out.strip():
+        raise UsageError("error: -: --out: is empty; give a film name ending in .mp4 or .gif "
+                         "(or leave the option out for RUN_DIR/film.mp4)")
+    out = Path(args.out) if args.out is not None else run_dir / "film.mp4"
     check_out_path(out)
+    # before any drawing: a film replaces only a film of ours, in a folder we can write
+    check_out_file(out, marked=has_mark, what="a film name ending in .mp4 or .gif")
     label = str(run_dir)
     w, h = _pair(args.size, "--size", label, "1280x720")
     opts = FilmOptions(frame_rate=args.frame_rate, width=w, height=h,

@@ -7,14 +7,18 @@ pictures or films.
 
 Exit status: 0 success; 2 invalid input (one line per problem on stderr as
 ``error: <file>: <key>: <message>``, nothing written); 1 anything else;
-130 interrupted.
+130 interrupted (Ctrl-C), 143 terminated (SIGTERM): one line, no traceback, no
+temporary left behind.  Only the standard library is imported before
+:func:`main` has set the signal handlers, so an interrupt at any point of
+start-up is handled like one during the run.
 """
 
 from __future__ import annotations
 
-import argparse
-import importlib
+import signal
 import sys
+
+from ..core.errors import Interrupted
 
 #: command -> (module under unsteady.apps, one-line help)
 COMMANDS = {
@@ -28,11 +32,16 @@ COMMANDS = {
 }
 
 
-class _Parser(argparse.ArgumentParser):
-    """argparse with the project's one-line error format and exit status 2."""
+def _parser_class():
+    import argparse
 
-    def error(self, message):
-        self.exit(2, f"error: -: {self.prog}: {message} (see '{self.prog} --help')\n")
+    class _Parser(argparse.ArgumentParser):
+        """argparse with the project's one-line error format and exit status 2."""
+
+        def error(self, message):
+            self.exit(2, f"error: -: {self.prog}: {message} (see '{self.prog} --help')\n")
+
+    return _Parser
 
 
 def _chosen(argv):
@@ -45,7 +54,9 @@ def _chosen(argv):
 
 def build_parser(argv=None):
     """The parser; only the chosen command's module is imported (all of them when ``argv`` is None)."""
+    import importlib
     from ..core.version import __version__
+    _Parser = _parser_class()
     parser = _Parser(
         prog="unsteady",
         description="Unsteady lift, drag and moment of an airfoil in pitch, plunge and gusts "
@@ -63,19 +74,86 @@ def build_parser(argv=None):
     return parser
 
 
+#: Signals received by the program (see :func:`main`): an interrupt that a library turned into
+#: another exception (numpy's import makes an ImportError of it) is still an interrupt.
+_RECEIVED = []
+
+
+def _on_signal(signum, frame):
+    _RECEIVED.append(signum)
+    if signum == signal.SIGTERM:
+        raise Interrupted()
+    raise KeyboardInterrupt()
+
+
+def _received():
+    """The interrupt to report when a signal arrived, else None."""
+    if not _RECEIVED:
+        return None
+    return Interrupted() if signal.SIGTERM in _RECEIVED else KeyboardInterrupt()
+
+
+def _settle():
+    """Ignore further Ctrl-C and SIGTERM while the process winds down (no second traceback)."""
+    for sig in (signal.SIGINT, signal.SIGTERM):
+        try:
+            signal.signal(sig, signal.SIG_IGN)
+        except (ValueError, OSError):
+            pass
+
+
 def main(argv=None):
-    """Run the command line; returns the exit status."""
+    """Run the command line; returns the exit status.
+
+    With ``argv`` None (the ``unsteady`` program, ``python -m unsteady``) the
+    signal handlers are set first: SIGTERM unwinds like Ctrl-C, and once the
+    command has finished or been stopped, further signals are ignored.  Called
+    with a list (tests, other programs) the caller's handlers are left alone.
+    """
+    program = argv is None
     try:
+        if program:
+            signal.signal(signal.SIGTERM, _on_signal)
+            if signal.getsignal(signal.SIGINT) is not signal.SIG_IGN:
+                signal.signal(signal.SIGINT, _on_signal)
         argv = sys.argv[1:] if argv is None else list(argv)
         args = build_parser(argv).parse_args(argv)
-        return _dispatch(args)
-    except KeyboardInterrupt:
-        print("unsteady: interrupted", file=sys.stderr)
-        return 130
+        status = _dispatch(args)
+    except KeyboardInterrupt as exc:
+        if program:
+            _settle()
+        status = _interrupted(exc)
+    except Exception:
+        if _received() is None:
+            raise
+        _settle()
+        status = _interrupted(_received())
+    if program:
+        _settle()
+        if status in (130, 143):
+            # Done: temporaries are gone and the line is out.  Leave now: an interrupt that hit
+            # code run by an extension during an import can leave the interpreter set to kill
+            # itself with SIGINT at exit (status -2 instead of 130).
+            import os
+            for stream in (sys.stdout, sys.stderr):
+                try:
+                    stream.flush()
+                except (OSError, ValueError):
+                    pass
+            os._exit(status)
+    return status
+
+
+def _interrupted(exc):
+    if isinstance(exc, Interrupted):
+        print("unsteady: terminated", file=sys.stderr)
+        return 143
+    print("unsteady: interrupted", file=sys.stderr)
+    return 130
 
 
 def _dispatch(args):
-    from ..core.errors import InputError, UsageError
+    from ..core.errors import InputError, OutputError, UsageError
     from ..inputs.checks import ScenarioError
     try:
         return args.handler(args)
@@ -89,11 +167,20 @@ def _dispatch(args):
     except UsageError as exc:
         print(str(exc), file=sys.stderr)
         return 2
-    except KeyboardInterrupt:
-        print("unsteady: interrupted", file=sys.stderr)
-        return 130
+    except OutputError as exc:
+        print(str(exc), file=sys.stderr)
+        return 1
+    except OSError as exc:   # an output that failed although it was checked: one line
+        where = f"{exc.filename}: " if exc.filename else ""
+        print(f"unsteady: {where}{exc.strerror or exc}; files already there were left as they were",
+              file=sys.stderr)
+        return 1
     except Exception as exc:  # anything else: one line, exit 1
-        print(f"unsteady: {type(exc).__name__}: {exc}", file=sys.stderr)
+        if _received() is not None:         # an interrupt a library turned into something else
+            raise _received() from None
+        text = " ".join(str(exc).split())
+        print(f"unsteady: {type(exc).__name__}: {text[:400]}{'...' if len(text) > 400 else ''}",
+              file=sys.stderr)
         return 1
 
 

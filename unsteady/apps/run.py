@@ -11,7 +11,8 @@ from .common import add_set, load
 
 def add_arguments(p):
     p.add_argument("scenario", help="scenario file (TOML)")
-    p.add_argument("--out", metavar="DIR", help="run directory (default: output.dir of the scenario)")
+    p.add_argument("--out", metavar="DIR", help="run directory (default: output.dir of the scenario); "
+                   "an existing folder is replaced only when it is an earlier run, unchanged")
     add_set(p)
     p.add_argument("--quiet", action="store_true", help="no progress bar or report")
     p.add_argument("--no-plots", action="store_true", help="skip the PNG pictures")
@@ -19,12 +20,15 @@ def add_arguments(p):
 
 def main(args):
     from ..outputs.rundir import check_out_dir
-    from ..simulation.runner import simulate
     sc = load(args)
-    out = Path(args.out) if args.out else sc.out_dir()
-    problem = check_out_dir(out)
+    if args.out is not None:
+        out, problem = Path(args.out), check_out_dir(args.out)           # before any computing
+    else:
+        out = sc.out_dir()
+        problem = check_out_dir(out, "output.dir", source=args.scenario)
     if problem:
         raise UsageError(problem)
+    from ..simulation.runner import simulate
     res = simulate(sc, progress=not args.quiet)
     path = res.save(out, plots=sc.data["output"].get("plots", True) and not args.no_plots)
     for line in res.summary.get("warnings", []):     # measured on the run (the check's were printed on loading)

@@ -39,7 +39,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..core.cautions import SWEEP_CAUTION
-from ..core.files import write_text
+from ..core.files import claim_out_dir, write_text
 from ..core.version import __version__
 from ..inputs.scenario import ScenarioError, load_scenario
 from ..inputs.sweep import _fmt_value, expand  # noqa: F401
@@ -288,7 +288,7 @@ def run_sweep(sc, out_dir, *, workers=None, scheduler=None, client=None, progres
     out_dir = Path(out_dir)
     save_runs = sc.data["sweep"].get("save_runs", False)
     keys = swept_keys(sc.data["sweep"])
-    out_dir.mkdir(parents=True, exist_ok=True)
+    claim_out_dir(out_dir, "sweep", create=True, folders=("runs",))   # ours, or refused: before running
     table = SweepTable(out_dir / TABLE_NAME, keys)
     table.order = [c.key for c in cases]
     rep = SweepReport(out_dir=out_dir, total=len(cases))
@@ -468,9 +468,11 @@ def main(args):
     if args.workers is not None and args.scheduler:
         raise UsageError(f"error: {args.scenario}: --workers: give either --workers (local cluster) "
                              "or --scheduler (existing cluster), not both")
-    out = Path(args.out) if args.out else Path(str(sc.out_dir()) + "-sweep")
-    if out.exists() and not out.is_dir():
-        raise UsageError(f"error: {out}: --out: exists and is not a folder; give a new or existing folder")
+    out = Path(args.out) if args.out is not None else Path(str(sc.out_dir()) + "-sweep")
+    if args.out is not None:                                  # refused before the cluster starts
+        claim_out_dir(args.out, "sweep")
+    else:
+        claim_out_dir(out, "sweep", "output.dir", source=args.scenario)
     rep = run_sweep(sc, out, workers=args.workers, scheduler=args.scheduler,
                     progress=not args.quiet, retry_failed=args.retry_failed, warnings_to=sys.stderr)
     if rep.interrupted:

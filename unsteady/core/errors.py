@@ -13,3 +13,14 @@ class UsageError(Exception):
 
     ``str()`` is the whole line the user sees, ``error: <file>: <key>: <what is wrong>``.
     """
+
+
+class OutputError(Exception):
+    """An output that could not be written although it was checked (a full disk, say): exit status 1.
+
+    ``str()`` is the whole line the user sees; nothing half-written is left behind.
+    """
+
+
+class Interrupted(KeyboardInterrupt):
+    """The process was asked to stop (SIGTERM); unwinds like Ctrl-C so that temporaries are removed."""

@@ -478,7 +478,7 @@ def _one(spec, context, *, stop_early):
         v = spec[key]
         if key in cls.TEXT:
             if not isinstance(v, str):
-                problems.append(InputError(key, f"expected text (a file path), got {v!r}"))
+                problems.append(InputError(key, f"expected text{' (a file path)' if key == 'file' else ''}, got {v!r}"))
         elif not _is_number(v):
             got = f"the text '{v}'" if isinstance(v, str) else repr(v)
             problems.append(InputError(key, f"expected a number, got {got}"))

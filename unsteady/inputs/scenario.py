@@ -241,9 +241,10 @@ def apply_overrides(raw, overrides):
         parts = key.split(".")
         node = raw
         for i, p in enumerate(parts[:-1]):
-            if isinstance(node, list):
-                raise InputError(key, "cannot set a key inside a list of laws or gusts; override the whole list")
             nxt = node.get(p)
+            if isinstance(nxt, list):
+                raise InputError(key, f"'{'.'.join(parts[:i + 1])}' is a list (of laws or gusts); a key "
+                                      "inside a list cannot be set: override the whole list")
             if not isinstance(nxt, dict):
                 if nxt is not None and not isinstance(nxt, dict):
                     raise InputError(key, f"'{'.'.join(parts[:i + 1])}' is not a table")
@@ -317,6 +318,22 @@ def load_scenario(source, overrides=None, *, source_name=None, base_dir=None, so
     return dataclasses.replace(sc, warnings=tuple(f"warning: {name}: {w.key}: {w.message}" for w in found))
 
 
+def one_per_problem(errors, not_tables=()):
+    """The errors less those another one already explains: the keys of a section that is not a
+    table, and a key reported missing that the "did you mean" of a misspelt key names."""
+    import re
+    meant = set()
+    for e in errors:
+        m = re.search(r"did you mean '([^']+)'", e.message)
+        if m and "unknown key" in e.message:
+            meant.add(e.key.rsplit(".", 1)[0] + "." + m.group(1) if "." in e.key else m.group(1))
+    implied = ("is required", "missing", "give exactly one")
+    return [e for e in errors
+            if not any(e.key.startswith(sec + ".") for sec in not_tables)
+            and not (any(e.key == k or e.key.startswith(k + ".") for k in meant)
+                     and e.message.startswith(implied))]
+
+
 def resolve(raw, base_dir, stem="scenario"):
     """Check ``raw`` and return (resolved dict, list of InputError)."""
     _load_plugins()
@@ -332,10 +349,12 @@ def resolve(raw, base_dir, stem="scenario"):
 
     allowed = set(CORE_SECTIONS) | set(_SECTIONS)
     errors += unknown_keys(raw, allowed, "")
+    not_tables = []
     for sec in ("flow", "airfoil", "motion", "run", "output"):
         if sec in raw and not isinstance(raw[sec], dict):
             errors.append(InputError(sec, "must be a table ([" + sec + "])"))
             raw = {**raw, sec: {}}
+            not_tables.append(sec)
     if "title" in raw:
         out["title"] = grab(text, "title", raw["title"])
 
@@ -478,4 +497,4 @@ def resolve(raw, base_dir, stem="scenario"):
             out[name] = value
     if ctx["_warnings"]:
         out["_warnings"] = ctx["_warnings"]
-    return out, errors
+    return out, one_per_problem(errors, not_tables)

@@ -19,7 +19,7 @@ from matplotlib.patches import Polygon  # noqa: E402
 
 from . import fields, rundir  # noqa: E402
 from ..core.errors import UsageError  # noqa: E402
-from ..core.files import atomic_path  # noqa: E402
+from ..core.files import append_mark, atomic_path  # noqa: E402
 from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP  # noqa: E402
 
 __all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
@@ -89,6 +89,8 @@ class FilmOptions:
 
 
 # ---------------------------------------------------------------------------
+#: Most frames of one film (6.7 min at 25 frames/s); a longer film is refused before drawing.
+MAX_FRAMES = 10_000
 #: The files of a run directory a film needs besides the history and summary.
 FILM_FILES = ("scenario.toml", "snapshots.npz")
 
@@ -134,6 +136,11 @@ class Film:
             n = int(options.frames)
         elif options.slowdown is not None:
             n = max(1, int(round((t1 - t0) * options.slowdown * options.frame_rate)) + 1)
+            if n > MAX_FRAMES:
+                top = (MAX_FRAMES - 1) / ((t1 - t0) * options.frame_rate)
+                raise UsageError(f"error: {label}: --slowdown: {options.slowdown:g} gives {n} frames; "
+                                 f"allowed here: up to {top:.4g} ({MAX_FRAMES} frames at "
+                                 f"{options.frame_rate:g} frames/s), or a shorter --span")
         else:
             n = max(1, in_span.size)
         self.n_frames = n
@@ -174,8 +181,9 @@ class Film:
             raise UsageError(f"error: {lab}: --size: {o.width}x{o.height}; allowed: 64x64 to 7680x4320 pixels")
         if o.slowdown is not None and not (o.slowdown > 0 and math.isfinite(o.slowdown)):
             raise UsageError(f"error: {lab}: --slowdown: {o.slowdown}; allowed: a positive number")
-        if o.frames is not None and not (1 <= o.frames <= 200000):
-            raise UsageError(f"error: {lab}: --frames: {o.frames}; allowed: 1 to 200000")
+        if o.frames is not None and not (1 <= o.frames <= MAX_FRAMES):
+            raise UsageError(f"error: {lab}: --frames: {o.frames}; allowed: 1 to {MAX_FRAMES} "
+                             f"({MAX_FRAMES / 25 / 60:.3g} min at 25 frames/s)")
         if o.grid is not None and not (4 <= o.grid[0] <= 2000 and 4 <= o.grid[1] <= 2000):
             raise UsageError(f"error: {lab}: --grid: {o.grid[0]}x{o.grid[1]}; allowed: 4x4 to 2000x2000 nodes")
         if not (o.reach > 0 and math.isfinite(o.reach)):
@@ -629,6 +637,7 @@ def write_film(result, out, options=FilmOptions(), *, progress=False, label="run
     try:
         with atomic_path(out) as tmp:
             _encode(renderer, tmp, bar)
+            append_mark(tmp)        # proves the film ours (core.files.check_out_file)
     finally:
         if bar is not None:
             bar.close()

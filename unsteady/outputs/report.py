@@ -6,7 +6,6 @@ import base64
 import csv
 import datetime
 import html
-import os
 import sys
 import tempfile
 from dataclasses import dataclass, field
@@ -57,7 +56,12 @@ def folder_kind(folder):
 
 
 def check_report_path(out):
-    """The page's path, checked: ends in .html, its folder exists, no foreign file is replaced."""
+    """The page's path, checked: ends in .html, its folder exists and takes files, no foreign file is
+    replaced (our page carries :data:`MARK`, or is listed unchanged in its folder's record)."""
+    from ..core.files import clean_leftovers, owned_file, probe_writable
+    if not str(out).strip():
+        raise UsageError("error: -: --out: is empty; give a file name ending in .html "
+                         "(or leave the option out for report.html in the folder)")
     out = Path(out)
     if out.suffix.lower() != ".html":
         raise UsageError(f"error: {out}: --out: must end in .html (one self-contained page), "
@@ -65,11 +69,11 @@ def check_report_path(out):
     parent = out.absolute().parent
     if not parent.is_dir():
         raise UsageError(f"error: {out}: --out: folder {parent} does not exist; create it first")
-    if not os.access(parent, os.W_OK | os.X_OK):
-        raise UsageError(f"error: {out}: --out: cannot write in {parent}; choose a writable folder")
+    probe_writable(parent, out)
     if out.is_dir():
         raise UsageError(f"error: {out}: --out: is a folder; give a file name ending in .html")
-    if out.exists():
+    clean_leftovers(parent, out.name)
+    if out.exists() and not owned_file(out):
         try:
             with open(out, "rb") as f:
                 head = f.read(4096).decode("utf-8", errors="replace")
@@ -94,9 +98,10 @@ class RunInput:
 def read_run(folder):
     """Read a run folder for its page (:func:`unsteady.outputs.rundir.load_run`).
 
-    A missing or damaged summary or history raises UsageError; snapshots and
-    scenario that cannot be read are said in ``notes`` (the page then has no
-    film, or no scenario description).
+    A missing or damaged summary or history, or a damaged snapshots.npz,
+    raises UsageError; missing snapshots and a scenario that cannot be read
+    back are said in ``notes`` (the page then has no film, or no scenario
+    description).
     """
     from .rundir import ALWAYS, load_run, read_run_scenario, read_snapshots
     folder = Path(folder)
@@ -107,8 +112,9 @@ def read_run(folder):
     if (folder / "snapshots.npz").is_file():
         try:
             res.snapshots = read_snapshots(folder / "snapshots.npz")
-        except Exception as exc:   # damaged snapshots: the page goes without a film
-            notes.append(f"snapshots.npz cannot be read ({type(exc).__name__}: {exc}): no film")
+        except Exception as exc:   # damaged, truncated: say so rather than make a page without
+            raise UsageError(f"error: {folder}: snapshots.npz: damaged ({type(exc).__name__}: "
+                             f"{str(exc)[:160]}); rerun the scenario") from None
     text = ""
     toml = folder / "scenario.toml"
     if toml.is_file():
@@ -929,7 +935,7 @@ def write_report(folder, out=None, *, film=True, progress=False):
     """
     folder = Path(folder)
     kind = folder_kind(folder)
-    out = check_report_path(Path(out) if out is not None else folder / "report.html")
+    out = check_report_path(out if out is not None else folder / "report.html")
     show = progress and sys.stderr.isatty()
     say = (lambda m: print(f"report: {m}", file=sys.stderr)) if show else None
     if kind == "run":

@@ -5,13 +5,12 @@ from __future__ import annotations
 import csv
 import io
 import json
-import os
 from pathlib import Path
 
 import numpy as np
 
-from ..core.errors import UsageError
-from ..core.files import atomic_dir
+from ..core.errors import OutputError, UsageError
+from ..core.files import atomic_dir, claim_out_dir
 from ..simulation.result import Result
 
 #: The files a run directory holds besides its pictures and films.
@@ -26,27 +25,43 @@ MISSING_HINT = {
 
 
 def save_run(result, out_dir, plots=True):
-    """Write the run directory atomically (temporary folder, then rename).
+    """Write the run directory atomically (temporary folder, then swapped in).
 
-    Returns the Path written.  An existing run directory of the same name
-    is replaced only once the new one is complete; any other existing
-    folder is refused (see :func:`check_out_dir`), never deleted.
+    Returns the Path written.  An existing folder is replaced only when it is
+    the tool's own earlier run, unchanged (its record lists every file; see
+    :func:`check_out_dir`), and only once the new one is complete; anything
+    else is refused (UsageError), never deleted.  A write that fails (a full
+    disk) raises OutputError with one line; the earlier run is then intact and
+    no temporary is left.
     """
     out_dir = Path(out_dir)
     problem = check_out_dir(out_dir)
     if problem:
-        raise ValueError(problem)
-    with atomic_dir(out_dir) as tmp:
-        (tmp / "history.csv").write_text(history_csv(result.history))
-        (tmp / "summary.json").write_text(json.dumps(_jsonable(result.summary), indent=2) + "\n")
-        if result.scenario is not None:
-            (tmp / "scenario.toml").write_text(result.scenario.to_toml())
-        if result.snapshots:
-            np.savez_compressed(tmp / "snapshots.npz", **result.snapshots)
-        if plots:
-            from .pictures import write_run_plots
-            write_run_plots(result, tmp)
+        raise UsageError(problem)
+    existed = out_dir.is_dir()
+    try:
+        with atomic_dir(out_dir, kind="run") as tmp:
+            write_run_files(result, tmp, plots)
+    except OSError as exc:
+        where = f"{Path(exc.filename).name}: " if exc.filename else ""
+        kept = "the earlier run there is intact" if existed else "nothing was left behind"
+        raise OutputError(f"unsteady: {out_dir}: could not be written ({where}{exc.strerror or exc}); "
+                          f"{kept}") from None
     return out_dir
+
+
+def write_run_files(result, folder, plots=True):
+    """The files of a run directory, written into ``folder`` (a temporary one: see :func:`save_run`)."""
+    folder = Path(folder)
+    (folder / "history.csv").write_text(history_csv(result.history))
+    (folder / "summary.json").write_text(json.dumps(_jsonable(result.summary), indent=2) + "\n")
+    if result.scenario is not None:
+        (folder / "scenario.toml").write_text(result.scenario.to_toml())
+    if result.snapshots:
+        np.savez_compressed(folder / "snapshots.npz", **result.snapshots)
+    if plots:
+        from .pictures import write_run_plots
+        write_run_plots(result, folder)
 
 
 def load_run(run_dir, need=(), columns=(), read=RUN_FILES, keys=()):
@@ -147,32 +162,22 @@ def read_run_scenario(path):
         raise ValueError(exc.message) from None
 
 
-def check_out_dir(out_dir):
-    """Why ``out_dir`` cannot take a run directory, or None when it can.
+def check_out_dir(out_dir, label="--out", source=None):
+    """Why ``out_dir`` cannot take a run directory, or None when it can (checked before computing).
 
-    A run may go to a new path, an empty folder, or a folder holding an
-    earlier run (``history.csv`` or ``summary.json`` and only files a run
-    writes); anything else is refused so that no user data is deleted.
+    A run may go to a new path, an empty folder, or a folder holding the
+    tool's own earlier run: every entry listed, unchanged, in its record
+    (``core.files.RECORD``; pictures, films and pages the tool added since
+    join it).  Anything else is refused, naming the first entry the tool did
+    not write, and so is a folder that cannot be written (a read-only file
+    system, ``/proc``, a read-only earlier run).  Stale leftovers of an
+    interrupted save are removed first (see :func:`unsteady.core.files.claim_out_dir`;
+    ``source``: the scenario file when the folder is its ``output.dir``).
     """
-    out_dir = Path(out_dir)
-    if out_dir.exists():
-        if not out_dir.is_dir():
-            return f"error: {out_dir}: --out: exists and is not a folder; give a new folder or an earlier run's"
-        names = [p.name for p in out_dir.iterdir()]
-        if names:
-            is_run = any(n in ("history.csv", "summary.json") for n in names)
-            strange = [n for n in names if not (n in RUN_FILES or n.endswith(".png") or n.endswith((".mp4", ".gif")))]
-            if not is_run or strange:
-                return (f"error: {out_dir}: --out: is a folder that does not hold an earlier run "
-                        f"({len(names)} entries); give a new folder, an empty one or an earlier run's")
-        return None
-    anc = out_dir.absolute().parent
-    while not anc.exists():
-        anc = anc.parent
-    if not anc.is_dir():
-        return f"error: {out_dir}: --out: {anc} is a file, not a folder"
-    if not os.access(anc, os.W_OK | os.X_OK):
-        return f"error: {out_dir}: --out: cannot write in {anc}"
+    try:
+        claim_out_dir(out_dir, "run", label, source=source)
+    except UsageError as exc:
+        return str(exc)
     return None
 
 

@@ -1,0 +1,419 @@
+"""Bad input through the command line, one case per rule of every scenario key and of ``--set``.
+
+Each case runs ``unsteady run SCENARIO --out DIR`` (``unsteady check`` for the rules of a
+sweep's cases) in this process and asserts: exit status 2, exactly one line on stderr,
+``error: <the scenario file>: <the key>: <what is wrong>``, no traceback, and nothing
+written (the folder holds what the test put there, and DIR does not exist).
+
+To add a rule: one ``Case`` in ``CASES`` (a change of the good scenario below, the key
+the line must name, and words of the message).
+"""
+
+from __future__ import annotations
+
+import copy
+import os
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import pytest
+import tomli_w
+
+from unsteady.apps.cli import main
+
+#: A small scenario that passes every check without a warning.
+GOOD = {
+    "title": "bad-input suite",
+    "flow": {"speed": 10.0, "density": 1.2},
+    "airfoil": {"shape": "flat", "chord": 0.2, "elements": 8},
+    "motion": {"pivot": 0.25,
+               "pitch": {"law": "ramp", "from": 0.0, "to": 3.0, "start": 0.005, "duration": 0.02,
+                         "smoothing": 0.004}},
+    "run": {"chords": 2},
+    "output": {"plots": False},
+}
+
+DEL = object()          # remove the key
+
+GUST = {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 1.0, "arrival": 0.0}
+TURB = {"profile": "turbulence", "spectrum": "dryden", "intensity": 0.5, "scale_length": 10.0}
+AIRCRAFT = {"mass": 0.5, "wing_area": 0.3}
+SWEEP = {"grid": {"flow.speed": [10.0, 12.0]}}
+TABLE = "t,value\n0,0\n0.01,1\n0.02,1\n"
+POINTS = "".join(f"{x:.3f} {z:.3f}\n" for x, z in
+                 [(1, 0), (0.75, 0.03), (0.5, 0.05), (0.25, 0.05), (0.1, 0.03), (0, 0),
+                  (0.1, -0.02), (0.25, -0.03), (0.5, -0.03), (0.75, -0.02), (1, 0)])
+
+
+@dataclass
+class Case:
+    id: str
+    key: str                       # the key the one error line must name
+    words: str                     # words of the message (what is wrong, what is allowed)
+    change: dict = field(default_factory=dict)   # dotted key -> value (DEL: remove) on GOOD
+    files: dict = field(default_factory=dict)    # extra files beside the scenario: name -> text or bytes
+    text: str = None               # the scenario file's whole text instead of GOOD
+    args: tuple = ()               # more command-line words
+    command: str = "run"
+
+
+def _pitch(**kw):
+    return {"motion.pitch": kw}
+
+
+CASES = [
+    # --- the file itself
+    Case("toml-syntax", "-", "is not valid TOML", text="[flow\nspeed = 3\n"),
+    Case("no-such-file", "-", "no such file", text=DEL),
+    Case("file-is-a-folder", "-", "is a folder, not a scenario file", text="FOLDER"),
+    Case("unknown-section", "extra", "unknown key; allowed: ", {"extra": {"speed": 1.0}}),
+    Case("misspelt-section", "flwo", "did you mean 'flow'", {"flow": DEL, "flwo": GOOD["flow"]}),
+    *(Case(f"{sec}-not-a-table", sec, f"must be a table ([{sec}])", {sec: 3})
+      for sec in ("flow", "airfoil", "motion", "run", "output")),
+    Case("title-not-text", "title", "must be a non-empty text", {"title": 3}),
+    # --- [flow]
+    Case("speed-missing", "flow.speed", "is required", {"flow.speed": DEL}),
+    Case("speed-not-number", "flow.speed", "must be a number", {"flow.speed": "fast"}),
+    Case("speed-not-finite", "flow.speed", "must be finite", {"flow.speed": float("nan")}),
+    Case("speed-range", "flow.speed", "must be >= 0.01 and <= 340", {"flow.speed": -10.0}),
+    Case("speed-huge", "flow.speed", "<= 340", {"flow.speed": 1e300}),
+    Case("density-and-altitude", "flow.density", "give exactly one", {"flow.altitude": 100.0}),
+    Case("density-nor-altitude", "flow.density", "give exactly one", {"flow.density": DEL}),
+    Case("density-range", "flow.density", "must be >= 0.01 and <= 2", {"flow.density": 5.0}),
+    Case("altitude-not-number", "flow.altitude", "must be a number",
+         {"flow.density": DEL, "flow.altitude": "high"}),
+    Case("altitude-range", "flow.altitude", "", {"flow.density": DEL, "flow.altitude": 1e6}),
+    Case("flow-unknown-key", "flow.sped", "did you mean 'speed'", {"flow.sped": 3.0}),
+    # --- [airfoil]
+    Case("chord-missing", "airfoil.chord", "is required", {"airfoil.chord": DEL}),
+    Case("chord-range", "airfoil.chord", "must be >= 0.001 and <= 20", {"airfoil.chord": 0.0}),
+    Case("chord-huge", "airfoil.chord", "<= 20", {"airfoil.chord": 1e300}),
+    Case("elements-range", "airfoil.elements", "from 4 to 1000", {"airfoil.elements": 2}),
+    Case("elements-whole", "airfoil.elements", "whole number", {"airfoil.elements": 10.5}),
+    Case("elements-bool", "airfoil.elements", "whole number", {"airfoil.elements": True}),
+    Case("shape-not-text", "airfoil.shape", "non-empty text", {"airfoil.shape": 3}),
+    Case("shape-bad-naca", "airfoil.shape", "not a NACA 4-digit designation", {"airfoil.shape": "naca24121"}),
+    Case("shape-unknown", "airfoil.shape", "did you mean \"flat\"", {"airfoil.shape": "falt"}),
+    Case("shape-folder", "airfoil.shape", "is a folder", {"airfoil.shape": "sub"}, files={"sub/": None}),
+    Case("shape-binary", "airfoil.shape", "not a text file", {"airfoil.shape": "s.dat"},
+         files={"s.dat": b"\xff\xfe\x00\x81\x92" * 20}),
+    Case("shape-not-two-numbers", "airfoil.shape", "is not two numbers", {"airfoil.shape": "s.dat"},
+         files={"s.dat": POINTS + "1 zero\n"}),
+    Case("shape-three-numbers", "airfoil.shape", "has 3 numbers", {"airfoil.shape": "s.dat"},
+         files={"s.dat": POINTS + "1 0 0\n"}),
+    Case("shape-not-finite", "airfoil.shape", "not finite", {"airfoil.shape": "s.dat"},
+         files={"s.dat": POINTS + "1 nan\n"}),
+    Case("shape-no-points", "airfoil.shape", "holds no x z points", {"airfoil.shape": "s.dat"},
+         files={"s.dat": "# nothing\n"}),
+    Case("shape-few-points", "airfoil.shape", "at least 10 are needed", {"airfoil.shape": "s.dat"},
+         files={"s.dat": "1 0\n0.5 0.05\n0 0\n0.5 -0.03\n1 0\n"}),
+    Case("shape-coincide", "airfoil.shape", "coincide", {"airfoil.shape": "s.dat"},
+         files={"s.dat": "0.5 0\n" * 12}),
+    Case("panels-renamed", "airfoil.panels", "was renamed", {"airfoil.panels": 30}),
+    Case("airfoil-unknown-key", "airfoil.chrod", "did you mean 'chord'", {"airfoil.chrod": 0.2}),
+    # --- [motion]
+    Case("pivot-range", "motion.pivot", "must be >= -0.5 and <= 1.5", {"motion.pivot": 2.0}),
+    Case("pivot-not-number", "motion.pivot", "must be a number", {"motion.pivot": "quarter"}),
+    Case("pitch-not-a-table", "motion.pitch", "must be a law table", {"motion.pitch": 3}),
+    Case("law-missing", "motion.pitch.law", "missing", _pitch(value=1.0)),
+    Case("law-unknown", "motion.pitch.law", "did you mean 'ramp'", _pitch(law="rmap")),
+    Case("law-unknown-key", "motion.pitch.strat", "unknown key for the 'ramp' law",
+         _pitch(law="ramp", **{"from": 0.0}, to=3.0, strat=0.0, duration=0.02)),
+    Case("law-key-missing", "motion.pitch.duration", "missing",
+         _pitch(law="ramp", **{"from": 0.0}, to=3.0, start=0.0)),
+    Case("law-not-number", "motion.pitch.from", "expected a number",
+         _pitch(law="ramp", **{"from": "zero"}, to=3.0, start=0.0, duration=0.02)),
+    Case("law-not-finite", "motion.pitch.to", "must be a finite number",
+         _pitch(law="ramp", **{"from": 0.0}, to=float("inf"), start=0.0, duration=0.02)),
+    Case("ramp-duration", "motion.pitch.duration", "must be above 0",
+         _pitch(law="ramp", **{"from": 0.0}, to=3.0, start=0.0, duration=0.0)),
+    Case("ramp-smoothing", "motion.pitch.smoothing", "positive time",
+         _pitch(law="ramp", **{"from": 0.0}, to=3.0, start=0.0, duration=0.02, smoothing=-1.0)),
+    Case("sine-both-frequencies", "motion.pitch.reduced_frequency", "give exactly one",
+         _pitch(law="sine", amplitude=2.0, frequency=5.0, reduced_frequency=0.1)),
+    Case("sine-no-frequency", "motion.pitch.frequency", "give exactly one", _pitch(law="sine", amplitude=2.0)),
+    Case("sine-frequency", "motion.pitch.frequency", "must be above 0 Hz",
+         _pitch(law="sine", amplitude=2.0, frequency=-5.0)),
+    Case("sine-reduced-frequency", "motion.pitch.reduced_frequency", "must be above 0",
+         _pitch(law="sine", amplitude=2.0, reduced_frequency=0.0)),
+    Case("table-file-not-text", "motion.pitch.file", "expected text", _pitch(law="table", file=3)),
+    Case("table-file-empty-name", "motion.pitch.file", "is empty", _pitch(law="table", file=" ")),
+    Case("table-interpolation", "motion.pitch.interpolation", "must be one of 'monotone', 'linear'",
+         _pitch(law="table", file="p.csv", interpolation="spline"), files={"p.csv": TABLE}),
+    Case("table-not-found", "motion.pitch.file", "not found", _pitch(law="table", file="none.csv")),
+    Case("table-folder", "motion.pitch.file", "is a folder", _pitch(law="table", file="sub"),
+         files={"sub/": None}),
+    Case("table-binary", "motion.pitch.file", "not a text (CSV) file", _pitch(law="table", file="p.csv"),
+         files={"p.csv": b"\xff\xfe\x00\x81" * 10}),
+    Case("table-empty", "motion.pitch.file", "is empty", _pitch(law="table", file="p.csv"),
+         files={"p.csv": "# only a comment\n"}),
+    Case("table-no-column", "motion.pitch.file", "has no column 'value'", _pitch(law="table", file="p.csv"),
+         files={"p.csv": "t,angle\n0,0\n1,1\n"}),
+    Case("table-one-row", "motion.pitch.file", "has 1 data row", _pitch(law="table", file="p.csv"),
+         files={"p.csv": "t,value\n0,0\n"}),
+    Case("table-not-number", "motion.pitch.file", "row 2 (line 3)", _pitch(law="table", file="p.csv"),
+         files={"p.csv": "t,value\n0,0\n0.01,ten\n"}),
+    Case("table-not-finite", "motion.pitch.file", "is not finite", _pitch(law="table", file="p.csv"),
+         files={"p.csv": "t,value\n0,0\n0.01,inf\n"}),
+    Case("table-not-increasing", "motion.pitch.file", "must increase strictly",
+         _pitch(law="table", file="p.csv"), files={"p.csv": "t,value\n0,0\n0.02,1\n0.01,2\n"}),
+    Case("law-list-empty", "motion.pitch.law", "the list of laws is empty", {"motion.pitch": []}),
+    Case("law-list-item", "motion.pitch[1].value", "missing",
+         {"motion.pitch": [{"law": "constant", "value": 1.0}, {"law": "constant"}]}),
+    Case("plunge-law", "motion.plunge.amplitude", "missing", {"motion.plunge": {"law": "sine", "frequency": 5.0}}),
+    Case("motion-unknown-key", "motion.plnge", "did you mean 'plunge'", {"motion.plnge": {"law": "constant"}}),
+    # --- [run]
+    Case("duration-and-chords", "run.duration", "give exactly one", {"run.duration": 0.1}),
+    Case("duration-range", "run.duration", "must be > 0", {"run.chords": DEL, "run.duration": 0.0}),
+    Case("chords-range", "run.chords", "must be > 0", {"run.chords": -1.0}),
+    Case("dt-range", "run.dt", "must be > 0", {"run.dt": 0.0}),
+    Case("dt-longer-than-run", "run.dt", "longer than the run", {"run.dt": 1.0}),
+    Case("dt-too-many-steps", "run.dt", "at most 5e6", {"run.dt": 1e-9}),
+    Case("wake", "run.wake", "must be one of 'free', 'frozen'", {"run.wake": "rolling"}),
+    Case("start", "run.start", "must be one of 'steady', 'impulsive'", {"run.start": "sudden"}),
+    Case("model", "run.model", "must be one of 'vortex'", {"run.model": "panel"}),
+    Case("shed-offset", "run.shed_offset", "must be >= 0.05 and <= 1", {"run.shed_offset": 2.0}),
+    Case("core-radius", "run.core_radius", "must be > 0", {"run.core_radius": 0.0}),
+    Case("far-wake", "run.far_wake", "must be > 1", {"run.far_wake": 1.0}),
+    Case("run-unknown-key", "run.durration", "did you mean 'duration'", {"run.durration": 1.0}),
+    # --- [output]
+    Case("dir-empty", "output.dir", "must be a non-empty text", {"output.dir": ""}),
+    Case("snapshot-every", "output.snapshot_every", "must be >= 0", {"output.snapshot_every": -1.0}),
+    Case("plots", "output.plots", "must be true or false", {"output.plots": "yes"}),
+    Case("output-unknown-key", "output.dri", "did you mean 'dir'", {"output.dri": "x"}),
+    # --- [gust]
+    Case("gust-not-a-table", "gust", "must be a table [gust] or a list", {"gust": 3}),
+    Case("gust-empty-list", "gust", "must be a table [gust] or a list", {"gust": []}),
+    Case("gust-profile-missing", "gust.profile", "is required", {"gust": {"amplitude": 1.0}}),
+    Case("gust-profile-unknown", "gust.profile", "must be one of", {"gust": {**GUST, "profile": "gaussian"}}),
+    Case("gust-unknown-key", "gust.amplitud", "unknown key", {"gust": {**GUST, "amplitud": 1.0}}),
+    Case("gust-key-missing", "gust.length", "is required for the 'one-minus-cosine' profile",
+         {"gust": {k: v for k, v in GUST.items() if k != "length"}}),
+    Case("gust-direction", "gust.direction", "must be one of", {"gust": {**GUST, "direction": "sideways"}}),
+    Case("gust-positive", "gust.amplitude", "must be > 0", {"gust": {**GUST, "amplitude": 0.0}}),
+    Case("gust-arrival", "gust.arrival", "must be a number", {"gust": {**GUST, "arrival": "soon"}}),
+    Case("gust-sine-both", "gust.wavelength", "give exactly one",
+         {"gust": {"profile": "sine", "amplitude": 1.0, "wavelength": 2.0, "reduced_frequency": 0.2}}),
+    Case("gust-spectrum", "gust.spectrum", "must be one of 'dryden', 'von-karman'",
+         {"gust": {**TURB, "spectrum": "kolmogorov"}}),
+    Case("gust-seed", "gust.seed", "must be >= 0", {"gust": {**TURB, "seed": -1}}),
+    Case("gust-file-not-text", "gust.file", "must be a text", {"gust": {"profile": "table", "file": 3}}),
+    Case("gust-file-missing", "gust.file", "not found", {"gust": {"profile": "table", "file": "g.csv"}}),
+    Case("gust-file-negative-x", "gust.file", "distances into the gust are >= 0",
+         {"gust": {"profile": "table", "file": "g.csv"}}, files={"g.csv": "x,w\n-1,0\n1,2\n"}),
+    Case("gust-list-item", "gust[1].profile", "is required", {"gust": [GUST, {"amplitude": 1.0}]}),
+    # --- [aircraft]
+    Case("aircraft-not-a-table", "aircraft", "must be a table [aircraft]", {"aircraft": 3}),
+    Case("aircraft-mass-missing", "aircraft.mass", "is required", {"aircraft": {"wing_area": 0.3}}),
+    Case("aircraft-mass", "aircraft.mass", "must be > 0", {"aircraft": {**AIRCRAFT, "mass": -1.0}}),
+    Case("aircraft-wing-area", "aircraft.wing_area", "must be > 0", {"aircraft": {**AIRCRAFT, "wing_area": 0.0}}),
+    Case("aircraft-aspect-ratio", "aircraft.aspect_ratio", "must be > 0",
+         {"aircraft": {**AIRCRAFT, "aspect_ratio": 0.0}}),
+    Case("aircraft-span", "aircraft.span", "<= 200", {"aircraft": {**AIRCRAFT, "span": 300.0}}),
+    Case("aircraft-span-disagrees", "aircraft.span", "make them agree within 1 %",
+         {"aircraft": {**AIRCRAFT, "span": 1.5, "aspect_ratio": 5.0}}),
+    Case("aircraft-with-plunge", "motion.plunge", "cannot be prescribed with [aircraft]",
+         {"aircraft": AIRCRAFT, "motion.plunge": {"law": "constant", "value": 0.0}}),
+    Case("aircraft-small-wing", "aircraft.wing_area", "less than chord^2",
+         {"aircraft": {**AIRCRAFT, "wing_area": 0.01}}),
+    Case("aircraft-too-heavy", "aircraft.mass", "level flight would need a section lift coefficient",
+         {"aircraft": {**AIRCRAFT, "mass": 50.0}}),
+    Case("aircraft-unknown-key", "aircraft.masss", "unknown key", {"aircraft": {**AIRCRAFT, "masss": 1.0}}),
+    # --- [sweep]: the section
+    Case("sweep-not-a-table", "sweep", "must be a table ([sweep])", {"sweep": 3}),
+    Case("sweep-unknown-key", "sweep.gird", "did you mean 'grid'", {"sweep": {**SWEEP, "gird": {}}}),
+    Case("sweep-save-runs", "sweep.save_runs", "must be true or false", {"sweep": {**SWEEP, "save_runs": "yes"}}),
+    Case("sweep-grid-not-a-table", "sweep.grid", "must be a table of scenario keys", {"sweep": {"grid": 3}}),
+    Case("sweep-grid-not-a-list", "sweep.grid.flow.speed", "must be a non-empty list",
+         {"sweep": {"grid": {"flow.speed": 10.0}}}),
+    Case("sweep-cases-not-a-list", "sweep.cases", "must be a list of tables", {"sweep": {"cases": 3}}),
+    Case("sweep-case-not-a-table", "sweep.cases[0]", "must be a table of overrides", {"sweep": {"cases": [1]}}),
+    Case("sweep-case-name", "sweep.cases[0].name", "it names a folder",
+         {"sweep": {"cases": [{"name": "a b", "flow.speed": 12.0}]}}),
+    Case("sweep-empty", "sweep", "needs a grid", {"sweep": {"save_runs": False}}),
+    Case("sweep-too-many", "sweep.grid", "at most 100000",
+         {"sweep": {"grid": {"flow.speed": [10.0 + i / 1000 for i in range(317)],
+                             "flow.density": [1.0 + i / 1000 for i in range(317)]}}}),
+    Case("sweep-name-not-text", "sweep.name", "must be a non-empty text", {"sweep": {**SWEEP, "name": 3}}),
+    Case("sweep-name-unknown-key", "sweep.name", "not a grid key", {"sweep": {**SWEEP, "name": "V{flow.sped}"}}),
+    Case("sweep-name-duplicate", "sweep.name", "both called", {"sweep": {**SWEEP, "name": "same"}}),
+    Case("sweep-name-folder", "sweep.name", "it names a folder", {"sweep": {**SWEEP, "name": "V {flow.speed}"}}),
+    Case("sweep-envelope-not-a-table", "sweep.envelope", "must be a table like",
+         {"sweep": {**SWEEP, "envelope": 3}}),
+    Case("sweep-envelope-unknown-key", "sweep.envelope.valeu", "unknown key",
+         {"sweep": {**SWEEP, "envelope": {"valeu": "cl_max"}}}),
+    Case("sweep-envelope-value", "sweep.envelope.value", "must be a text",
+         {"sweep": {**SWEEP, "envelope": {"value": 3}}}),
+    Case("sweep-envelope-across", "sweep.envelope.across", "must be one of the swept keys",
+         {"sweep": {**SWEEP, "envelope": {"across": "flow.density"}}}),
+    Case("sweep-envelope-lines", "sweep.envelope.lines", "must be one of the swept keys",
+         {"sweep": {**SWEEP, "envelope": {"lines": "airfoil.chord"}}}),
+    # --- [sweep]: its cases, as `unsteady check` sees them
+    Case("sweep-case-invalid", "sweep[case-001].flow.speed", "must be >= 0.01",
+         {"sweep": {"grid": {"flow.speed": [-3.0]}}}, command="check"),
+    # --- --set on the command line
+    Case("set-no-equals", "--set flow.speed", "an override must look like key.path=value",
+         args=("--set", "flow.speed")),
+    Case("set-empty-part", "--set flow..speed=3", "an override must look like key.path=value",
+         args=("--set", "flow..speed=3")),
+    Case("set-inside-list", "--set motion.pitch.0.value", "is a list (of laws or gusts)",
+         {"motion.pitch": [{"law": "constant", "value": 1.0}]}, args=("--set", "motion.pitch.0.value=1")),
+    Case("set-not-a-table", "--set flow.speed.x", "'flow.speed' is not a table", args=("--set", "flow.speed.x=1")),
+    Case("set-unknown-key", "airfoil.element", "did you mean 'elements'", args=("--set", "airfoil.element=30")),
+    Case("set-bad-value", "flow.speed", "must be a number", args=("--set", "flow.speed=fast")),
+]
+
+
+#: A valid table of each gust profile (a new profile needs one here: the generated cases use it).
+GUST_EXAMPLES = {
+    "sharp-edged": {"amplitude": 1.0},
+    "one-minus-cosine": {"amplitude": 1.0, "length": 1.0},
+    "sine": {"amplitude": 1.0, "wavelength": 2.0},
+    "table": {"file": "g.csv"},
+    "turbulence": {"spectrum": "dryden", "intensity": 0.5, "scale_length": 10.0},
+}
+GUST_TABLE = "x,w\n0,0\n1,2\n2,0\n"
+
+
+def _generated_cases():
+    """Every key of every motion law and gust profile: a value of the wrong type (text where a
+    number belongs, a number where a text belongs) and, for the keys that must be positive, zero."""
+    from unsteady.inputs.gusts import PROFILES
+    from unsteady.inputs.motion import LAWS
+    out = []
+    for name, law in LAWS.items():
+        for key in (*law.KEYS, *law.OPTIONAL):
+            spec = {"law": name, **{k: ("p.csv" if k in law.TEXT else 0.01) for k in law.KEYS}}
+            spec[key] = 3 if key in law.TEXT else "x"
+            out.append(Case(f"law-{name}-{key}-type", f"motion.pitch.{key}",
+                            "expected text" if key in law.TEXT else "expected a number",
+                            {"motion.pitch": spec}, files={"p.csv": TABLE}))
+    for name, prof in PROFILES.items():
+        keys = (*prof.KEYS, *prof.OPTIONAL)
+        for key in keys:
+            spec = {"profile": name, **GUST_EXAMPLES[name]}
+            spec[key] = 3 if key in prof.TEXT else "x"
+            out.append(Case(f"gust-{name}-{key}-type", f"gust.{key}", "must be a", {"gust": spec},
+                            files={"g.csv": GUST_TABLE}))
+        for key in prof.POSITIVE:
+            spec = {"profile": name, **GUST_EXAMPLES[name], key: 0.0}
+            if name == "sine" and key == "reduced_frequency":
+                spec.pop("wavelength")
+            out.append(Case(f"gust-{name}-{key}-positive", f"gust.{key}", "must be > 0", {"gust": spec}))
+    return out
+
+
+CASES += _generated_cases()
+
+
+def _apply(raw, change):
+    for dotted, value in change.items():
+        parts = dotted.split(".")
+        node = raw
+        for p in parts[:-1]:
+            node = node.setdefault(p, {})
+        if value is DEL:
+            node.pop(parts[-1], None)
+        else:
+            node[parts[-1]] = copy.deepcopy(value)
+    return raw
+
+
+def _write(tmp_path, case):
+    path = tmp_path / "scenario.toml"
+    for name, content in case.files.items():
+        p = tmp_path / name
+        if name.endswith("/"):
+            p.mkdir()
+        elif isinstance(content, bytes):
+            p.write_bytes(content)
+        else:
+            p.write_text(content)
+    if case.text is DEL:
+        return path                                  # no file at all
+    if case.text == "FOLDER":
+        path.mkdir()
+        return path
+    if case.text is not None:
+        path.write_text(case.text)
+        return path
+    path.write_text(tomli_w.dumps(_apply(copy.deepcopy(GOOD), case.change)))
+    return path
+
+
+def _listing(root):
+    return sorted((str(p.relative_to(root)), p.stat().st_size if p.is_file() else -1) for p in root.rglob("*"))
+
+
+def test_the_good_scenario_passes_without_a_word(tmp_path, capsys):
+    path = _write(tmp_path, Case("good", "", ""))
+    assert main(["check", str(path)]) == 0
+    assert capsys.readouterr().err == ""
+
+
+def _allowed_keys():
+    """Every key the checks accept, asked of the checks themselves: an unknown key in each
+    section is refused with the list of the allowed ones (so a key added later is seen here)."""
+    from unsteady.inputs.scenario import ScenarioError, load_scenario
+
+    def allowed(section):
+        raw = copy.deepcopy(GOOD)
+        if section:
+            here = raw.get(section)
+            raw[section] = {**(here if isinstance(here, dict) else {}), "zzzzz": 1}
+        else:
+            raw["zzzzz"] = 1
+        try:
+            load_scenario(raw)
+        except ScenarioError as exc:
+            for prob in exc.problems:
+                if prob.key == (f"{section}.zzzzz" if section else "zzzzz") and "allowed: " in prob.message:
+                    return [k.strip() for k in prob.message.split("allowed: ")[1].split(",")]
+        return []
+    top = allowed("")
+    keys = set(top)
+    for section in top:
+        keys |= {f"{section}.{k}" for k in allowed(section)}
+    return keys
+
+
+def test_cases_cover_every_key_of_the_checks():
+    """Every key the checks know (each section's keys, every motion law's and gust profile's) has a case."""
+    from unsteady.inputs import gusts, motion
+    keyed = {c.key.split("[")[0] for c in CASES} | {c.key.replace("[1]", "") for c in CASES}
+    want = _allowed_keys()
+    assert {"flow.speed", "airfoil.elements", "run.far_wake", "aircraft.span", "sweep.envelope"} <= want
+    for law in motion.LAWS.values():
+        want |= {f"motion.pitch.{k}" for k in (*law.KEYS, *law.OPTIONAL)}
+    for prof in gusts.PROFILES.values():
+        want |= {f"gust.{k}" for k in (*prof.KEYS, *prof.OPTIONAL)}
+    want |= {"gust.profile", *(f"gust.{k}" for k in gusts.GustProfile.COMMON)}
+    want |= {f"sweep.envelope.{k}" for k in ("value", "across", "lines")}
+    assert not sorted(want - keyed), "keys without a bad-input case"
+
+
+@pytest.mark.parametrize("case", CASES, ids=[c.id for c in CASES])
+def test_bad_input_is_one_line_naming_file_and_key_exit_2_nothing_written(tmp_path, capsys, case):
+    path = _write(tmp_path, case)
+    out = tmp_path / "out"
+    before = _listing(tmp_path)
+    argv = [case.command, str(path), *case.args] + (["--out", str(out), "--quiet"] if case.command == "run" else [])
+    assert main(argv) == 2
+    got = capsys.readouterr()
+    lines = got.err.strip().splitlines()
+    assert len(lines) == 1, lines
+    assert lines[0].startswith(f"error: {path}: {case.key}: "), lines[0]
+    assert case.words in lines[0], lines[0]
+    assert "Traceback" not in got.err and got.out == ""
+    assert not out.exists() and _listing(tmp_path) == before
+
+
+def test_a_run_that_will_not_fit_in_memory_is_refused(tmp_path, capsys, monkeypatch):
+    from unsteady.inputs import scenario
+    monkeypatch.setattr(scenario, "available_memory", lambda: 2 ** 20)      # a machine of 1 MiB
+    path = _write(tmp_path, Case("memory", "", "", {"run.chords": 200}))
+    before = _listing(tmp_path)
+    assert main(["run", str(path), "--out", str(tmp_path / "out"), "--quiet"]) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith(f"error: {path}: run.dt: the run would need about ")
+    assert _listing(tmp_path) == before
