@@ -117,6 +117,12 @@ def load_run(run_dir, need=(), columns=(), read=RUN_FILES, keys=()):
         if lacking:
             raise UsageError(f"error: {d}: {name}: lacks {what} {', '.join(lacking)}; "
                              "give a run directory written by 'unsteady run'")
+    rows = len(next(iter(history.values()))) if history else 0
+    steps = summary.get("steps") if isinstance(summary, dict) else None
+    if isinstance(steps, int) and not summary.get("error") and rows != steps + 1:
+        # a file cut at a line boundary still parses: its length against the summary's steps tells
+        raise UsageError(f"error: {d}: history.csv: damaged (holds {rows} rows where the summary's "
+                         f"{steps} steps make {steps + 1}: cut short); rerun the scenario")
     snaps = parts.get("snapshots.npz", {})
     if "snapshots.npz" in need and (len(snaps.get("t", ())) == 0 or "offsets" not in snaps):
         raise UsageError(f"error: {d}: snapshots.npz: holds no wake snapshots; rerun the scenario")
