@@ -20,14 +20,14 @@ from matplotlib.patches import Polygon  # noqa: E402
 from . import fields, rundir  # noqa: E402
 from ..core.errors import UsageError  # noqa: E402
 from ..core.files import atomic_path  # noqa: E402
-from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP  # noqa: E402
+from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP, run_warnings, wrap_to_width  # noqa: E402
 
 __all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
-           "FLOW_STYLES", "VIEWS", "TRACES"]
+           "FLOW_STYLES", "VIEWS", "TRACES", "CAMERAS"]
 
 FLOW_STYLES = {
     "vortices": "wake vortices (teal: counter-clockwise, brick: clockwise; size: strength)",
-    "vorticity": "smoothed vorticity (1/s)",
+    "vorticity": "smoothed vorticity of the wake (1/s)",
     "speed": "flow speed (m/s)",
     "streamlines": "streamlines",
 }
@@ -35,6 +35,13 @@ VIEWS = {
     "airfoil": "seen riding with the airfoil (the air streams past to the right)",
     "air": "seen from the still air (the airfoil flies through it to the left)",
 }
+CAMERAS = {
+    "auto": "follows the airfoil when it heaves freely ([aircraft]) or its height changes by more than a chord",
+    "follow": "keeps the airfoil's pitch axis at the middle height of the picture",
+    "fixed": "one frame for the whole film, holding the whole motion",
+}
+#: Height change (chords) beyond which the automatic camera follows the airfoil.
+FOLLOW_BEYOND_CHORDS = 1.0
 # trace name -> (history column, label)
 TRACES = {
     "cl": ("cl", "lift coefficient cl"),
@@ -73,6 +80,9 @@ class FilmOptions:
         Field grid nodes (nx, nz); None: about one node per 8 pixels.
     reach : float
         Chords of wake shown behind the trailing edge.
+    camera : {"auto", "follow", "fixed"}
+        See :data:`CAMERAS`: following, heights are drawn relative to the
+        pitch axis and the clock gives the airfoil's height.
     """
 
     frame_rate: float = 25.0
@@ -86,6 +96,7 @@ class FilmOptions:
     trace: str = None
     grid: tuple = None
     reach: float = 6.0
+    camera: str = "auto"
 
 
 # ---------------------------------------------------------------------------
@@ -152,6 +163,14 @@ class Film:
         self.air = options.view == "air"
         self.trace_name = options.trace or ("n" if "n" in self.hist else "cl")
         self.trace_col, self.trace_label = TRACES[self.trace_name]
+        hs = np.asarray(self.snap["h"], dtype=float)[self.snap_index]
+        self.heaves = bool(np.ptp(hs) > 0) if hs.size else False
+        if options.camera == "auto":
+            self.follow = self.heaves and ("n" in self.hist or float(np.ptp(hs)) > FOLLOW_BEYOND_CHORDS * self.c)
+        else:
+            self.follow = options.camera == "follow"
+        #: Where the model is out of its depth (banner of every frame).
+        self.warnings = run_warnings(result)
         self._gust_setup()
 
     # -- checks ------------------------------------------------------------
@@ -180,6 +199,8 @@ class Film:
             raise UsageError(f"error: {lab}: --grid: {o.grid[0]}x{o.grid[1]}; allowed: 4x4 to 2000x2000 nodes")
         if not (o.reach > 0 and math.isfinite(o.reach)):
             raise UsageError(f"error: {lab}: --reach: {o.reach}; allowed: a positive number of chords")
+        if o.camera not in CAMERAS:
+            raise UsageError(f"error: {lab}: --camera: unknown camera {o.camera!r}; allowed: {', '.join(CAMERAS)}")
 
     # -- gust --------------------------------------------------------------
     def _gust_setup(self):
@@ -214,20 +235,57 @@ class Film:
         """Shift (m) from the solver's frame to the picture's frame at time t."""
         return -self.U * (t - self.t0) if self.air else 0.0
 
+    def z_shift(self, i):
+        """Shift (m) of heights from the solver's frame to the picture's at frame i (-h when following)."""
+        return -float(self.snap["h"][int(self.snap_index[i])]) if self.follow else 0.0
+
     def frame_state(self, i):
-        """(t, snapshot index, alpha, h) of frame i."""
+        """(t, snapshot index, alpha, h) of frame i (h: the airfoil's true height)."""
         k = int(self.snap_index[i])
         return float(self.snap["t"][k]), k, float(self.snap["alpha"][k]), float(self.snap["h"][k])
 
     def sources(self, i):
+        """Wake and bound vortices of frame i, in the picture's frame."""
         t, k, _, _ = self.frame_state(i)
-        return fields.snapshot_sources(self.snap, k, self.r_wake, self.r_body, self.x_shift(t))
+        return fields.snapshot_sources(self.snap, k, self.r_wake, self.r_body, self.x_shift(t), self.z_shift(i))
 
     def wake(self, i):
+        """(x, z, gamma) of the wake vortices of frame i, in the picture's frame."""
         t, k, _, _ = self.frame_state(i)
         o = self.snap["offsets"]
         a, b = int(o[k]), int(o[k + 1])
-        return (self.snap["x"][a:b] + self.x_shift(t), self.snap["z"][a:b], self.snap["gamma"][a:b])
+        return (self.snap["x"][a:b] + self.x_shift(t), self.snap["z"][a:b] + self.z_shift(i),
+                self.snap["gamma"][a:b])
+
+    def trace_peak(self):
+        """(t, value, word) of the traced quantity's extreme, or None when outside the film.
+
+        The summary's headline peak where it has one (``<col>_max``/``<col>_min``
+        with their times: they leave out one-step transients), the one further
+        from the start; otherwise the sample of the history furthest from the start.
+        """
+        h, s = self.hist, self.res.summary or {}
+        y, t = np.asarray(h[self.trace_col], dtype=float), np.asarray(h["t"], dtype=float)
+        ok = np.isfinite(y)
+        if not ok.any():
+            return None
+        y0 = float(y[ok][0])
+        name = self.trace_name
+        cands = []
+        for end, word in (("max", "peak"), ("min", "lowest")):
+            v = s.get(f"{name}_{end}")
+            if isinstance(v, (int, float)) and math.isfinite(v):
+                tv = s.get(f"t_{name}_{end}")
+                if not isinstance(tv, (int, float)) or not math.isfinite(tv):
+                    tv = float(t[ok][np.argmin(np.abs(y[ok] - v))])
+                cands.append((abs(v - y0), float(tv), float(v), word))
+        if not cands:
+            i = int(np.flatnonzero(ok)[np.argmax(np.abs(y[ok] - y0))])
+            cands.append((abs(y[i] - y0), float(t[i]), float(y[i]), "peak" if y[i] >= y0 else "lowest"))
+        dev, tp, vp, word = max(cands)
+        if not dev > 0 or not (self.t0 - 1e-12 <= tp <= self.t1 + 1e-12):
+            return None
+        return tp, vp, word
 
 
 class FilmRenderer:
@@ -251,11 +309,14 @@ class FilmRenderer:
         self.canvas = FigureCanvasAgg(fig)
         field_mode = o.flow in ("vorticity", "speed")
         right = 0.905 if field_mode else 0.975
-        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, 0.53], facecolor=LOOK["paper"])
+        # a quiet banner of the run's warnings takes a strip above the flow panel
+        self.flow_top = 0.855 if f.warnings else 0.895
+        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, self.flow_top - 0.365], facecolor=LOOK["paper"])
         self.ax_tr = fig.add_axes([0.075, 0.1, 0.9, 0.185], facecolor=LOOK["paper"])
         self._limits()
         self.animated = []
         self._static_text()
+        self._banner()
         self._build_flow(field_mode)
         self._build_trace()
         self.canvas.draw()
@@ -274,7 +335,7 @@ class FilmRenderer:
         else:
             x_lo = x_le0 - 0.8 * c
             x_hi = x_te0 + f.opt.reach * c
-        hs = f.snap["h"][f.snap_index]
+        hs = f.snap["h"][f.snap_index] * (0.0 if f.follow else 1.0)
         alphas = f.snap["alpha"][f.snap_index]
         z_lo = float(np.min(hs)) - c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
         z_hi = float(np.max(hs)) + c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
@@ -303,7 +364,8 @@ class FilmRenderer:
         f, fig, fs = self.film, self.fig, self.fs
         title = f.sc.title or Path(str(f.sc.out_dir())).name
         fig.text(0.075, 0.965, title, fontsize=fs * 1.25, color=LOOK["ink"], weight="bold", va="top")
-        fig.text(0.075, 0.925, f"{FLOW_STYLES[f.opt.flow]}, {VIEWS[f.opt.view]}",
+        cam = "; the camera follows the airfoil" if f.follow else ""
+        fig.text(0.075, 0.925, f"{FLOW_STYLES[f.opt.flow]}, {VIEWS[f.opt.view]}{cam}",
                  fontsize=fs * 0.85, color=LOOK["muted"], va="top")
         fig.text(0.975, 0.012, CAUTION, fontsize=fs * 0.7, color=LOOK["muted"], ha="right", va="bottom")
         ax = self.ax
@@ -315,11 +377,34 @@ class FilmRenderer:
             a.spines["right"].set_visible(False)
         ax.set_xlabel("x, still air (m)" if f.air else "x, downstream of the pitch axis (m)",
                       fontsize=fs * 0.85, color=LOOK["ink"], labelpad=1)
-        ax.set_ylabel("height z (m)", fontsize=fs * 0.85, color=LOOK["ink"])
+        ax.set_ylabel("z above the pitch axis (m)" if f.follow else "height z (m)",
+                      fontsize=fs * 0.85, color=LOOK["ink"])
+        self.path = None
         if f.air:   # the path of the pitch axis through the still air
             th = f.hist["t"]
             sel = (th >= f.t0) & (th <= f.t1)
-            ax.plot(-f.U * (th[sel] - f.t0), f.hist["height_m"][sel], color=LOOK["path"], lw=0.8, ls=(0, (4, 4)))
+            self.path_x, self.path_z = -f.U * (th[sel] - f.t0), f.hist["height_m"][sel]
+            self.path, = ax.plot(self.path_x, self.path_z, color=LOOK["path"], lw=0.8, ls=(0, (4, 4)),
+                                 animated=f.follow)
+            if f.follow:          # heights relative to the airfoil: the path moves with it
+                self.animated.append(self.path)
+
+    def _banner(self):
+        """The run's warnings (:func:`unsteady.outputs.pictures.run_warnings`) in one quiet line."""
+        f, fs = self.film, self.fs
+        self.banner = None
+        if not f.warnings:
+            return
+        size = fs * 0.78
+        width = self.ax.get_position().x1 * self.W / self.DPI - 0.075 * self.W / self.DPI - 0.1
+        more = len(f.warnings) - 1
+        tail = f" (+{more} more: see summary.json and the report)" if more else ""
+        first = wrap_to_width("caution: " + f.warnings[0], width - (0.3 * len(tail) * size / 72.0), size)
+        text = first[0] + (" ..." if len(first) > 1 else "") + tail
+        self.banner = self.fig.text(0.075, 0.5 * (self.flow_top + 0.905), text, fontsize=size,
+                                    color=LOOK["warn"], va="center", ha="left",
+                                    bbox=dict(boxstyle="round,pad=0.3", facecolor=LOOK["note_bg"],
+                                              edgecolor="none"))
 
     # -- flow panel --------------------------------------------------------
     def _build_flow(self, field_mode):
@@ -328,6 +413,7 @@ class FilmRenderer:
         self.img = None
         self.contours = None
         self.scat = None
+        self.legend = None
         self.gust_img = None
         self.quiv = None
         # gust band (under everything else)
@@ -335,7 +421,7 @@ class FilmRenderer:
             self.g_x = np.linspace(*self.xlim, 241)
             zs = self.zlim
             if o.flow == "vortices":
-                hm = float(np.mean(f.snap["h"][f.snap_index]))
+                hm = 0.0 if f.follow else float(np.mean(f.snap["h"][f.snap_index]))
                 band = (hm - 0.75 * f.c, hm + 0.75 * f.c)
             else:
                 band = (zs[0], zs[0] + 0.07 * (zs[1] - zs[0]))
@@ -347,14 +433,20 @@ class FilmRenderer:
             self.q_x = np.linspace(*self.xlim, 25)[1:-1]
             zq = np.full_like(self.q_x, 0.5 * (band[0] + band[1]))
             half = 0.45 * (band[1] - band[0])
-            self.g_follow = o.flow == "vortices"     # the band rides at the airfoil's height
+            self.g_follow = o.flow == "vortices" and not f.follow    # the band rides at the airfoil's height
             self.quiv = ax.quiver(self.q_x, zq - 0.0, np.zeros_like(self.q_x), np.zeros_like(self.q_x),
                                   angles="xy", scale_units="xy", scale=f.gust_max / half, pivot="middle",
                                   color=LOOK["ink"], alpha=0.55, width=0.0025, headwidth=3.5, headlength=4,
                                   zorder=0.6, animated=True)
-            ax.text(0.005, 0.012,
-                    f"band and arrows: vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
-                    transform=ax.transAxes, fontsize=fs * 0.72, color=LOOK["muted"], va="bottom")
+            # the caption goes above a band drawn along the bottom, and is drawn after the band
+            # (an animated artist), on a paper box, so that the band never covers it
+            zs = self.zlim
+            y_cap = 0.012 if o.flow == "vortices" else (band[1] - zs[0]) / (zs[1] - zs[0]) + 0.012
+            self.gust_caption = ax.text(
+                0.005, y_cap, f"band and arrows: vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
+                transform=ax.transAxes, fontsize=fs * 0.72, color=LOOK["muted"], va="bottom", zorder=6,
+                bbox=dict(boxstyle="square,pad=0.15", facecolor=LOOK["paper"], edgecolor="none", alpha=0.85),
+                animated=True)
             self.animated += [self.gust_img, self.quiv]
         # field
         if o.flow in ("vorticity", "speed", "streamlines"):
@@ -372,7 +464,7 @@ class FilmRenderer:
                                  aspect="auto", cmap=cmap, norm=self.field_norm, interpolation="bilinear",
                                  zorder=0.3, animated=True)
             self.animated.insert(0, self.img)
-            cax = self.fig.add_axes([0.925, 0.365, 0.012, 0.53])
+            cax = self.fig.add_axes([0.925, 0.365, 0.012, self.flow_top - 0.365])
             cb = self.fig.colorbar(self.img, cax=cax)
             cb.set_label(FLOW_STYLES[o.flow], fontsize=fs * 0.8, color=LOOK["ink"])
             cb.ax.tick_params(labelsize=fs * 0.75, colors=LOOK["ink"])
@@ -393,8 +485,10 @@ class FilmRenderer:
             if o.flow == "vortices":
                 handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
                            Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
-                ax.legend(handles=handles, loc="upper right", fontsize=fs * 0.75, frameon=False,
-                          handletextpad=0.2, ncol=2, columnspacing=1.0)
+                leg = ax.legend(handles=handles, loc="upper right", fontsize=fs * 0.75, frameon=False,
+                                handletextpad=0.2, ncol=2, columnspacing=1.0)
+                leg.set_animated(True)        # drawn over the dots, not under them
+                self.legend = leg
         # airfoil
         self.foil = Polygon(np.zeros((3, 2)), closed=True, facecolor=LOOK["airfoil"],
                             edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
@@ -404,6 +498,10 @@ class FilmRenderer:
         self.clock = ax.text(0.012, 0.985, "", transform=ax.transAxes, fontsize=fs, color=LOOK["ink"],
                              va="top", ha="left", zorder=5, family="monospace", animated=True)
         self.animated.append(self.clock)
+        if self.legend is not None:
+            self.animated.append(self.legend)
+        if self.gust_img is not None:
+            self.animated.append(self.gust_caption)
 
     def _field(self, i):
         """The field of frame i on the grid (vorticity, speed or stream function)."""
@@ -411,15 +509,17 @@ class FilmRenderer:
         t = f.frame_state(i)[0]
         src = f.sources(i)
         if f.opt.flow == "vorticity":
+            # the wake's vorticity only: the bound vortices are the airfoil itself (drawn as such);
+            # smoothed over a coarse grid they would spread across and beyond it
             sigma = max(1.5 * max(self.grid.dx, self.grid.dz), f.r_wake)
-            return fields.vorticity_field(self.grid, src, sigma=sigma)
+            return fields.vorticity_field(self.grid, src[:1], sigma=sigma)
         U = 0.0 if f.air else f.U
         X, Z = np.meshgrid(self.grid.x, self.grid.z)
         if f.opt.flow == "speed":
             gust = None
             if f.gust_field is not None:
-                sh = f.x_shift(t)
-                gust = (lambda x, z, tt: f.gust_field.velocity(x - sh, z, tt))
+                sh, zsh = f.x_shift(t), f.z_shift(i)
+                gust = (lambda x, z, tt: f.gust_field.velocity(x - sh, z - zsh, tt))
             u, w = fields.velocity_field(X, Z, src, freestream=(U, 0.0), gust=gust, t=t)
             return fields.speed(u, w)
         return fields.stream_function(X, Z, src, freestream=(U, 0.0))
@@ -469,6 +569,21 @@ class FilmRenderer:
         self.tr_line, = ax.plot([], [], color=LOOK["trace"], lw=1.6, animated=True)
         self.tr_dot, = ax.plot([], [], "o", color=LOOK["marker"], ms=5.5 * self.H / 720.0, clip_on=False, animated=True)
         self.animated += [self.tr_line, self.tr_dot]
+        # the extreme of the trace, marked once the film reaches it
+        self.peak = f.trace_peak()
+        self.pk_mark = self.pk_text = None
+        if self.peak is not None:
+            tp, vp, word = self.peak
+            self.pk_mark, = ax.plot([tp], [vp], "o", ms=8.0 * self.H / 720.0, mfc="none", mec=LOOK["second"],
+                                    mew=1.4, clip_on=False, animated=True, visible=False)
+            right = tp > f.t0 + 0.7 * (f.t1 - f.t0)
+            self.pk_text = ax.annotate(f"{word} {f.trace_name} = {vp:.4g} at t = {tp:.4g} s", xy=(tp, vp),
+                                       xytext=(-8 if right else 8, 3 if word == "peak" else -3),
+                                       textcoords="offset points", ha="right" if right else "left",
+                                       va="bottom" if word == "peak" else "top", fontsize=fs * 0.75,
+                                       color=LOOK["second"], animated=True, visible=False,
+                                       annotation_clip=False)
+            self.animated += [self.pk_mark, self.pk_text]
 
     # -- one frame ---------------------------------------------------------
     def update(self, i):
@@ -476,6 +591,7 @@ class FilmRenderer:
         f = self.film
         t, k, alpha, h = f.frame_state(i)
         sh = f.x_shift(t)
+        hv = h + f.z_shift(i)              # the airfoil's height in the picture
         ax = self.ax
         if self.img is not None:
             self.img.set_data(self._field(i))
@@ -490,21 +606,28 @@ class FilmRenderer:
         if self.gust_img is not None:
             w = f.gust_w(self.g_x - sh, t)
             self.gust_img.set_data(w[None, :])
-            self.quiv.set_UVC(np.zeros_like(self.q_x), f.gust_w(self.q_x - sh, t))
+            wq = np.asarray(f.gust_w(self.q_x - sh, t), dtype=float)
+            # no arrow where the gust is (all but) zero: a zero-length arrow would draw as a dot
+            wq = np.where(np.abs(wq) > 0.01 * f.gust_max, wq, np.nan)
+            self.quiv.set_UVC(np.zeros_like(self.q_x), wq)
             if self.g_follow:
-                lo, hi = h - 0.75 * f.c, h + 0.75 * f.c
+                lo, hi = hv - 0.75 * f.c, hv + 0.75 * f.c
                 self.gust_img.set_extent((self.xlim[0], self.xlim[1], lo, hi))
-                self.quiv.set_offsets(np.column_stack([self.q_x, np.full_like(self.q_x, h)]))
+                self.quiv.set_offsets(np.column_stack([self.q_x, np.full_like(self.q_x, hv)]))
+        if self.path is not None and f.follow:
+            self.path.set_ydata(self.path_z - h)
         if self.scat is not None:
             x, z, g = f.wake(i)
             self.scat.set_offsets(np.column_stack([x, z]))
             self.scat.set_array(np.asarray(g, dtype=float))
             a = np.minimum(np.abs(g) / self.g_lim, 1.0)
             self.scat.set_sizes(self.size_min + (self.size_max - self.size_min) * a)
-        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, h, n=61, x_shift=sh)
+        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh)
         self.foil.set_xy(np.column_stack([xo, zo]))
         t_star = f.U * t / f.c
         txt = f"t = {t:.3f} s   {t_star:.1f} chords flown   pitch {math.degrees(alpha):+.1f} deg"
+        if f.heaves:
+            txt += f"   height {h:+.3f} m"
         if f.gust_w is not None:
             txt += f"   gust at leading edge {float(f.gust_w(np.array([-f.pivot * f.c]), t)[0]):+.2f} m/s"
         self.clock.set_text(txt)
@@ -514,6 +637,10 @@ class FilmRenderer:
             self.tr_dot.set_data([self.tr_t[j - 1]], [self.tr_y[j - 1]])
         else:
             self.tr_dot.set_data([], [])
+        if self.peak is not None:
+            reached = t >= self.peak[0] - 1e-12
+            self.pk_mark.set_visible(reached)
+            self.pk_text.set_visible(reached)
 
     def frame(self, i):
         """Frame i as an (H, W, 3) uint8 array (a new array)."""
@@ -525,6 +652,8 @@ class FilmRenderer:
             self.ax.draw_artist(self.contours)
             self.ax.draw_artist(self.foil)
             self.ax.draw_artist(self.clock)
+            if self.gust_img is not None:
+                self.ax.draw_artist(self.gust_caption)
         buf = np.asarray(self.canvas.buffer_rgba())
         return np.ascontiguousarray(buf[:self.H, :self.W, :3])
 
