@@ -334,3 +334,21 @@ def test_warnings_banner_and_the_peak_of_the_trace(run_dir, heave_dir):
     assert not r.pk_mark.get_visible() and not r.pk_text.get_visible()
     r.update(before + 1)
     assert r.pk_mark.get_visible() and f"{vp:.4g}" in r.pk_text.get_text()
+
+
+def test_wake_dots_are_drawn_where_the_vortices_are_with_their_sense(run_dir):
+    # two vortices of opposite sense placed by hand: teal (blue above red) for counter-clockwise,
+    # brick (red above blue) for clockwise, each centred on its own pixel
+    res = load_run(run_dir)
+    r = FilmRenderer(Film(res, FilmOptions(width=640, height=360, frames=2)))
+    x = np.array([0.5 * (r.xlim[0] + r.xlim[1]), 0.75 * r.xlim[0] + 0.25 * r.xlim[1]])
+    z = np.full(2, r.zlim[0] + 0.2 * (r.zlim[1] - r.zlim[0]))
+    r.canvas.restore_region(r.bg)
+    r.scat.set_data(x, z, np.array([r.g_lim, -r.g_lim]))
+    r.ax.draw_artist(r.scat)
+    img = np.asarray(r.canvas.buffer_rgba())[..., :3].astype(int)
+    cols, rows = r.pixel_of(x, z)
+    ccw = img[int(rows[0]), int(cols[0])]
+    cw = img[int(rows[1]), int(cols[1])]
+    assert ccw[2] - ccw[0] > 60 and cw[0] - cw[2] > 60
+    assert img[int(rows[0]) - 12, int(cols[0])].mean() > 240      # paper a few dot radii away
