@@ -34,6 +34,10 @@ FLOW_STYLES = {
     "speed": "flow speed (m/s)",
     "streamlines": "streamlines",
 }
+#: Shorter wordings of FLOW_STYLES and VIEWS for small films.
+FLOW_SHORT = {"vortices": "wake vortices (dot size: strength)", "vorticity": "wake vorticity (1/s)",
+              "speed": "flow speed (m/s)", "streamlines": "streamlines"}
+VIEWS_SHORT = {"airfoil": "riding with the airfoil", "air": "from the still air"}
 VIEWS = {
     "airfoil": "seen riding with the airfoil (the air streams past to the right)",
     "air": "seen from the still air (the airfoil flies through it to the left)",
@@ -440,8 +444,7 @@ class FilmRenderer:
         f, fig, fs = self.film, self.fig, self.fs
         title = f.sc.title or Path(str(f.sc.out_dir())).name
         fig.text(0.075, 0.965, title, fontsize=fs * 1.25, color=LOOK["ink"], weight="bold", va="top")
-        cam = "; the camera follows the airfoil" if f.follow else ""
-        fig.text(0.075, 0.925, f"{FLOW_STYLES[f.opt.flow]}, {VIEWS[f.opt.view]}{cam}",
+        fig.text(0.075, 0.925, self._subtitle(0.9 * self.W / self.DPI, fs * 0.85),
                  fontsize=fs * 0.85, color=LOOK["muted"], va="top")
         fig.text(0.975, 0.012, CAUTION, fontsize=fs * 0.7, color=LOOK["muted"], ha="right", va="bottom")
         ax = self.ax
@@ -464,6 +467,18 @@ class FilmRenderer:
                                  animated=f.follow)
             if f.follow:          # heights relative to the airfoil: the path moves with it
                 self.animated.append(self.path)
+
+    def _subtitle(self, width_in, size):
+        """What the flow panel shows, in the longest wording that fits the width."""
+        f = self.film
+        flow, view = f.opt.flow, f.opt.view
+        cam = ("; the camera follows the airfoil", "; camera following") if f.follow else ("", "")
+        for text in (f"{FLOW_STYLES[flow]}, {VIEWS[view]}{cam[0]}",
+                     f"{FLOW_SHORT[flow]}, {VIEWS[view]}{cam[0]}",
+                     f"{FLOW_SHORT[flow]}, {VIEWS_SHORT[view]}{cam[1]}"):
+            if len(wrap_to_width(text, width_in, size)) == 1:
+                return text
+        return text
 
     def _banner(self):
         """The run's warnings (:func:`unsteady.outputs.pictures.run_warnings`) in one quiet line."""
