@@ -333,7 +333,7 @@ def plot_histories(result, path):
         if k not in h:
             continue
         if k in INPUTS and not moves(h[k]):
-            if k in ("pitch_deg", "height_m") or np.any(h[k] != 0):
+            if k == "pitch_deg" or np.any(h[k] != 0):     # (no plunge needs no note)
                 v = float(h[k][np.isfinite(h[k])][0]) if np.isfinite(h[k]).any() else float("nan")
                 held.append(f"{_INPUT_WORDS[k]} {v:.4g}{unit}")
             continue
