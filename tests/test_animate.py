@@ -114,6 +114,7 @@ def test_bad_input_is_one_line_exit_2_and_no_file(run_dir, tmp_path, capsys):
         ["--trace", "n"],              # this run has no load factor
         ["--size", "321x180"],         # odd side for H.264 yuv420p
         ["--span", "5:6"],             # outside the run
+        ["--camera", "drone"],
     ]
     for extra in cases:
         assert main(["animate", str(run_dir), "--out", str(out), "--quiet"] + extra) == 2, extra

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import os
 from pathlib import Path
 
 from ..core.errors import UsageError
@@ -178,6 +179,11 @@ def out_path(out, run_dirs):
             raise UsageError(f"error: {out}: --out: exists and is not a folder; give a folder or FILE.png")
         else:
             target = out / PICTURE          # a new folder, made when the runs have been read
+    anc = target.absolute().parent
+    while not anc.exists():
+        anc = anc.parent
+    if not os.access(anc, os.W_OK | os.X_OK):
+        raise UsageError(f"error: {target}: --out: cannot write in {anc}; give --out a writable folder")
     if target.exists() and (target.is_dir() or not written_by_unsteady(target)):
         raise UsageError(f"error: {target}: --out: exists and was not written by unsteady; "
                          "give another name or move that file away")
