@@ -114,6 +114,7 @@ def test_bad_input_is_one_line_exit_2_and_no_file(run_dir, tmp_path, capsys):
         ["--trace", "n"],              # this run has no load factor
         ["--size", "321x180"],         # odd side for H.264 yuv420p
         ["--span", "5:6"],             # outside the run
+        ["--camera", "drone"],
     ]
     for extra in cases:
         assert main(["animate", str(run_dir), "--out", str(out), "--quiet"] + extra) == 2, extra
@@ -135,14 +136,14 @@ def test_bad_input_is_one_line_exit_2_and_no_file(run_dir, tmp_path, capsys):
 def test_interrupted_film_leaves_no_file(run_dir, tmp_path, monkeypatch):
     res = load_run(run_dir)
     calls = {"n": 0}
-    orig = FilmRenderer.frame
+    orig = FilmRenderer.draw
 
     def failing(self, i):
         calls["n"] += 1
         if calls["n"] > 3:
             raise RuntimeError("stop")
         return orig(self, i)
-    monkeypatch.setattr(FilmRenderer, "frame", failing)
+    monkeypatch.setattr(FilmRenderer, "draw", failing)
     with pytest.raises(RuntimeError):
         write_film(res, tmp_path / "f.mp4", FilmOptions(width=160, height=96, frames=10))
     assert list(tmp_path.iterdir()) == []
@@ -212,3 +213,143 @@ def test_snapshots_of_a_2000_step_run_stay_small(tmp_path):
     out = res.save(tmp_path / "big", plots=False)
     assert len(res.snapshots["t"]) == 2001
     assert (out / "snapshots.npz").stat().st_size < 50e6
+
+
+# ---------------------------------------------------------------------------
+# films that brief well (issue 13): each check fails on the film drawn before
+
+@pytest.fixture(scope="module")
+def heave_dir(tmp_path_factory):
+    """A light aircraft heaving 0.2 m (0.8 chord) through a 3 m/s 1-cosine gust (16 chords, frozen wake)."""
+    sc = unsteady.load_scenario({
+        "title": "Heaving test plate",
+        "flow": {"speed": 15.0, "density": 1.2},
+        "airfoil": {"shape": "flat", "chord": 0.25, "elements": 8},
+        "aircraft": {"mass": 1.0, "wing_area": 0.55},
+        "gust": {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 2.0, "arrival": 0.02},
+        "run": {"chords": 16, "wake": "frozen"},
+        "output": {"snapshot_every": 0.01},
+    })
+    d = tmp_path_factory.mktemp("films") / "heave"
+    unsteady.simulate(sc).save(d, plots=False)
+    return d
+
+
+def _foil_mid_z(renderer, i):
+    renderer.update(i)
+    xy = renderer.foil.get_xy()
+    return 0.5 * (xy[:, 1].min() + xy[:, 1].max())
+
+
+def test_camera_follows_a_heaving_airfoil_by_default(heave_dir, run_dir):
+    res = load_run(heave_dir)
+    h = res.snapshots["h"]
+    assert np.ptp(h) > 0.15
+    opts = dict(width=320, height=180, frames=6)
+    follow = FilmRenderer(Film(res, FilmOptions(**opts)))
+    fixed = FilmRenderer(Film(res, FilmOptions(camera="fixed", **opts)))
+    assert follow.film.follow and not fixed.film.follow
+    z_follow = [_foil_mid_z(follow, i) for i in range(6)]
+    z_fixed = [_foil_mid_z(fixed, i) for i in range(6)]
+    heights = [follow.film.frame_state(i)[3] for i in range(6)]
+    # following, the airfoil stays at mid height; fixed, it moves with its heave
+    assert np.ptp(z_follow) < 0.02 * res.scenario.chord
+    assert np.ptp(z_fixed) == pytest.approx(np.ptp(heights), rel=0.05)
+    lo, hi = follow.zlim
+    assert lo < z_follow[0] < hi and hi - lo < fixed.zlim[1] - fixed.zlim[0] + 1e-12
+    assert "height" in follow.clock_line
+    # the wake is drawn at its height above the airfoil's pitch axis
+    x, z, _g = follow.film.wake(5)
+    k = follow.film.snap_index[5]
+    o = res.snapshots["offsets"]
+    assert np.allclose(z, res.snapshots["z"][o[k]:o[k + 1]] - h[k])
+    # a pitching airfoil that does not heave keeps a fixed camera
+    assert not Film(load_run(run_dir), FilmOptions(**opts)).follow
+
+
+def test_zero_gust_draws_no_arrows_and_the_caption_stays_readable(heave_dir):
+    res = load_run(heave_dir)
+    film = Film(res, FilmOptions(width=640, height=360, frames=27, flow="speed", grid=(24, 12)))
+    r = FilmRenderer(film)
+    assert film.times[0] < 0.02                         # before the gust arrives: no gust anywhere
+    r.update(0)
+    assert np.asarray(r.quiv.Umask).all()      # no zero-length arrows (drawn as dots)
+    i = int(np.argmin(np.abs(film.times - 0.02 - 1.0 / 15.0)))   # the gust's peak at the leading edge
+    r.update(i)
+    assert not np.asarray(r.quiv.Umask).all()
+    # the caption lies clear of the band drawn along the bottom ...
+    rend = r.canvas.get_renderer()
+    cap, band = r.gust_caption.get_window_extent(rend), r.gust_img.get_window_extent(rend)
+    assert cap.y0 >= band.y1 - 0.5
+    # ... and every frame shows it as drawn on the background (nothing moving covers it)
+    img = r.frame(i)
+    r.canvas.restore_region(r.bg)
+    bg = np.asarray(r.canvas.buffer_rgba())[..., :3]
+    rows = slice(int(r.H - cap.y1) + 1, int(r.H - cap.y0) - 1)
+    cols = slice(int(cap.x0) + 1, int(cap.x1) - 1)
+    assert bg[rows, cols].std() > 5                      # there is text there
+    assert np.array_equal(img[rows, cols], bg[rows, cols])
+
+
+def test_vorticity_at_a_small_size_leaves_the_bound_vortices_out(run_dir):
+    res = load_run(run_dir)
+    film = Film(res, FilmOptions(width=320, height=180, frames=5, flow="vorticity"))
+    r = FilmRenderer(film)
+    i = 2
+    t, k, alpha, hh = film.frame_state(i)
+    om = r._field(i)
+    g = r.grid
+    # Stokes: the smoothed field integrates to the circulation of the wake vortices inside the grid
+    # (common practice); the bound vortices are the airfoil itself and are not smeared over it
+    x, z, gam = film.wake(i)
+    inside = (x >= g.x[0]) & (x <= g.x[-1]) & (z >= g.z[0]) & (z <= g.z[-1])
+    bound = float(np.sum(res.snapshots["gamma_body"][k]))
+    assert abs(bound) > 0.2 * abs(gam[inside].sum())
+    assert om.sum() * g.dx * g.dz == pytest.approx(gam[inside].sum(), rel=0.05, abs=1e-3 * abs(bound))
+    # near the leading edge, a chord ahead of the wake, the field is quiet
+    c = res.scenario.chord
+    xl, zl = chord_line(c, res.scenario.pivot, alpha, 0.0, n=11)
+    j, m = np.argmin(np.abs(g.x - xl[1])), np.argmin(np.abs(g.z - zl[1]))
+    assert abs(om[m, j]) < 0.1 * r.field_norm.vmax
+
+
+def test_warnings_banner_and_the_peak_of_the_trace(run_dir, heave_dir):
+    # 15 deg at 5 Hz takes the effective angle beyond the attached-flow limit: the banner says so
+    res = load_run(run_dir)
+    assert res.summary["lag"]["validity"]["attached_flow_ok"] is False
+    r = FilmRenderer(Film(res, FilmOptions(width=640, height=360, frames=3)))
+    assert r.banner is not None and r.banner.get_text().startswith("caution: outside the model's attached-flow")
+    r.frame(0)
+    rend = r.canvas.get_renderer()
+    assert r.banner.get_window_extent(rend).y0 >= r.ax.get_window_extent(rend).y1     # above the flow panel
+    # a gentle run has no banner; its load-factor peak is marked once the film reaches it
+    gentle = load_run(heave_dir)
+    assert gentle.summary["lag"]["validity"]["attached_flow_ok"] is True and not gentle.scenario.warnings
+    film = Film(gentle, FilmOptions(width=320, height=180, frames=27))
+    r = FilmRenderer(film)
+    assert r.banner is None
+    tp, vp, word = r.peak
+    assert (tp, vp, word) == (gentle.summary["t_n_max"], gentle.summary["n_max"], "peak")
+    before = int(np.searchsorted(film.times, tp)) - 1
+    r.update(before)
+    assert not r.pk_mark.get_visible() and not r.pk_text.get_visible()
+    r.update(before + 1)
+    assert r.pk_mark.get_visible() and f"{vp:.4g}" in r.pk_text.get_text()
+
+
+def test_wake_dots_are_drawn_where_the_vortices_are_with_their_sense(run_dir):
+    # two vortices of opposite sense placed by hand: teal (blue above red) for counter-clockwise,
+    # brick (red above blue) for clockwise, each centred on its own pixel
+    res = load_run(run_dir)
+    r = FilmRenderer(Film(res, FilmOptions(width=640, height=360, frames=2)))
+    x = np.array([0.5 * (r.xlim[0] + r.xlim[1]), 0.75 * r.xlim[0] + 0.25 * r.xlim[1]])
+    z = np.full(2, r.zlim[0] + 0.2 * (r.zlim[1] - r.zlim[0]))
+    r.canvas.restore_region(r.bg)
+    r.scat.set_data(x, z, np.array([r.g_lim, -r.g_lim]))
+    r.ax.draw_artist(r.scat)
+    img = np.asarray(r.canvas.buffer_rgba())[..., :3].astype(int)
+    cols, rows = r.pixel_of(x, z)
+    ccw = img[int(rows[0]), int(cols[0])]
+    cw = img[int(rows[1]), int(cols[1])]
+    assert ccw[2] - ccw[0] > 60 and cw[0] - cw[2] > 60
+    assert img[int(rows[0]) - 12, int(cols[0])].mean() > 240      # paper a few dot radii away

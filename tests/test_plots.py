@@ -7,6 +7,7 @@ import numpy as np
 import pytest
 
 import unsteady
+from matplotlib.colors import to_rgb
 from unsteady.outputs import pictures as plots
 from unsteady.apps.cli import main
 
@@ -141,3 +142,129 @@ def test_pictures_command_redraws_the_gust_load_picture(tmp_path, capsys):
     out = unsteady.simulate(sc).save(tmp_path / "g", plots=False)
     assert main(["pictures", str(out)]) == 0
     assert (out / "gust-loads.png").is_file()
+
+
+# ---------------------------------------------------------------------------
+# pictures that brief well (issue 13): each check fails on the picture drawn before
+
+@pytest.fixture(scope="module")
+def gust_run():
+    """A flat plate free to heave through a 1-cosine up-gust, pitch held (12 chords, frozen wake)."""
+    sc = unsteady.load_scenario({
+        "title": "Gust test plate",
+        "flow": {"speed": 15.0, "density": 1.2},
+        "airfoil": {"shape": "flat", "chord": 0.25, "elements": 8},
+        "aircraft": {"mass": 3.0, "wing_area": 0.55},
+        "gust": {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 2.0, "arrival": 0.02},
+        "run": {"chords": 12, "wake": "frozen"}})
+    return unsteady.simulate(sc)
+
+
+def test_lift_loop_of_a_gust_run_is_drawn_against_the_effective_angle(gust_run, captured):
+    res = gust_run
+    assert not plots.moves(res.history["pitch_deg"])        # the pitch is held (trimmed)
+    plots.plot_lift_loop(res, plots.Path("loop.png"))
+    ax = captured["loop.png"].axes[0]
+    line = [ln for ln in ax.get_lines() if ln.get_label() == "vortex model"][0]
+    x = np.asarray(line.get_xdata())
+    assert np.array_equal(x, res.history["alpha_eff_deg"])
+    # a 1 m/s gust at 15 m/s raises the angle by up to atan(1/15) = 3.8 deg (less the heave rate)
+    assert np.ptp(x) > 1.0
+    lo, hi = ax.get_xlim()
+    assert hi - lo > 1.0                  # not a vertical line
+    assert "effective angle" in ax.get_xlabel()
+
+
+def test_histories_of_a_gust_run_show_what_moved(gust_run, captured):
+    plots.plot_histories(gust_run, plots.Path("h.png"))
+    fig = captured["h.png"]
+    labels = [ax.get_ylabel() for ax in fig.axes]
+    assert "pitch angle (deg)" not in labels
+    assert any("gust" in lab for lab in labels) and "height of the pitch axis (m)" in labels
+    for ax in fig.axes:
+        y = np.asarray(ax.get_lines()[0].get_ydata(), dtype=float)
+        assert plots.moves(y), ax.get_ylabel()              # no flat panel
+    texts = [t.get_text() for t in fig.texts]
+    assert any(t.startswith("held constant: pitch") for t in texts)
+
+
+def test_wake_picture_frames_the_near_wake_and_shows_the_whole_below(gust_run, captured):
+    res = gust_run
+    assert plots.plot_wake(res, plots.Path("w.png"))
+    fig = captured["w.png"]
+    near, whole = fig.axes[:2]
+    c = res.scenario.chord
+    s = res.snapshots
+    a, b = s["offsets"][-2], s["offsets"][-1]
+    x = s["x"][a:b]
+    lo, hi = near.get_xlim()
+    assert (hi - lo) / c == pytest.approx(1.0 + plots.NEAR_WAKE_CHORDS + plots.NEAR_WAKE_AHEAD, rel=0.02)
+    assert x.max() - x.min() > 2 * (hi - lo)               # the wake is longer than the frame
+    # true proportions in the near panel: metres per pixel the same across and up
+    bb = near.get_window_extent()
+    z0, z1 = near.get_ylim()
+    assert (hi - lo) / bb.width == pytest.approx((z1 - z0) / bb.height, rel=1e-6)
+    # every wake vortex on the whole-wake panel, and the frame of the near panel marked on it
+    assert np.allclose(whole.collections[0].get_offsets(), np.column_stack([x, s["z"][a:b]]))
+    frames = [p for p in whole.patches if isinstance(p, plots.Rectangle)]
+    assert len(frames) == 1 and frames[0].get_width() == pytest.approx(hi - lo)
+
+
+def test_pressure_jump_is_scaled_on_the_chord_behind_the_leading_edge(run, captured):
+    res, _ = run
+    plots.plot_pressure_jump(res, plots.Path("p.png"))
+    ax = captured["p.png"].axes[0]
+    lo, hi = ax.get_ylim()
+    s = res.snapshots
+    rows = plots.pressure_instants(res.history)
+    dcp = np.asarray(s["dcp"], dtype=float)[rows]
+    rest = s["x_dcp"] >= plots.PRESSURE_SCALE_FROM
+    le = int(np.argmin(s["x_dcp"]))
+    # thin-airfoil load 4 alpha sqrt((1 - x)/x) is singular at the leading edge (Katz & Plotkin 2001,
+    # sec. 5.2, from memory): the first element carries several times the load of the rest
+    assert dcp[:, le].max() > 2 * dcp[:, rest].max()
+    assert lo <= dcp[:, rest].min() and hi >= dcp[:, rest].max()       # the rest fits
+    assert hi < dcp[:, le].max()                                         # the leading edge does not...
+    written = [t.get_text() for t in ax.texts if t.get_text().startswith("leading edge")]
+    assert f"leading edge {dcp[:, le].max():.3g}" in written             # ... and is written instead
+
+
+def test_lag_picture_has_t50_t90_marks_house_style_and_an_uncut_title(run, captured):
+    res, _ = run
+    lag = res.summary["lag"]
+    long_reasons = ["effective angle reaches 45.7 deg, beyond 12 deg: a real section would separate or "
+                    "stall there", "reduced pitch rate reaches 0.070, beyond 0.05: a leading-edge vortex "
+                    "would change the lift"]
+    summary = dict(res.summary, lag=dict(lag, validity=dict(lag["validity"], attached_flow_ok=False,
+                                                            reasons=long_reasons)))
+    sc = res.scenario
+    long = unsteady.Result(res.history, summary, res.snapshots, sc)
+    plots.plot_lag(long, plots.Path("lag.png"))
+    fig = captured["lag.png"]
+    ax1 = fig.axes[0]
+    t = res.history["t"]
+    for key, who in (("t50", "cl"), ("t90_qs", "cl_quasi_steady")):
+        tm = lag["t_begin"] + lag[key]
+        mark = [ln for ln in ax1.get_lines() if ln.get_label() == f"_{key}"]
+        assert len(mark) == 1
+        assert mark[0].get_xdata()[0] == pytest.approx(tm)
+        assert mark[0].get_ydata()[0] == pytest.approx(np.interp(tm, t, res.history[who]))
+    assert lag["t90"] is None and any("t90 not reached" in tx.get_text() for tx in ax1.texts)
+    # the house style of the other pictures (paper, not white)
+    assert fig.get_facecolor()[:3] == pytest.approx(to_rgb(plots.LOOK["paper"]))
+    # no title or note cut at the figure's sides
+    fig.canvas.draw()
+    r = fig.canvas.get_renderer()
+    fb = fig.bbox
+    for tx in fig.texts:
+        bb = tx.get_window_extent(r)
+        assert bb.x0 >= fb.x0 - 0.5 and bb.x1 <= fb.x1 + 0.5, tx.get_text()[:40]
+    assert any("reduced pitch rate reaches 0.070" in tx.get_text().replace("\n", " ") for tx in fig.texts)
+
+
+def test_every_png_is_marked_as_written_by_unsteady(run, tmp_path):
+    res, _ = run
+    plots.plot_histories(res, tmp_path / "h.png")
+    assert plots.written_by_unsteady(tmp_path / "h.png")
+    (tmp_path / "other.png").write_bytes(b"\x89PNG\r\n\x1a\n not ours")
+    assert not plots.written_by_unsteady(tmp_path / "other.png")

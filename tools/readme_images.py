@@ -2,8 +2,8 @@
 
 Usage: .venv/bin/python tools/readme_images.py [--scenario FILE] [--out docs]
 
-- ``docs/film-frame.png``: one frame (two thirds through) of the film of a bundled scenario
-  (default scenarios/drone-gust-1cos.toml), 800x450;
+- ``docs/film-frame.png``: one frame of the film of a bundled scenario (default
+  scenarios/drone-gust-1cos.toml), 800x450, a little after the peak of its trace;
 - ``docs/report-page.png``: the top of that run's report page, taken with headless Chromium.
 Both are reduced to a palette of 128 colours to stay under about 150 KB each.
 """
@@ -39,8 +39,12 @@ def save_small(rgb, path, width=None):
 
 
 def film_frame(run, path):
+    """The frame a little after the peak of the traced quantity (gust and peak mark both in view)."""
     film = Film(load_run(run), FilmOptions(width=800, height=450, frames=60))
-    save_small(FilmRenderer(film).frame(40), path)
+    renderer = FilmRenderer(film)
+    peak = renderer.peak
+    t = peak[0] + 0.12 * (film.t1 - film.t0) if peak is not None else film.t0 + 0.66 * (film.t1 - film.t0)
+    save_small(renderer.frame(int(np.argmin(np.abs(film.times - t)))), path)
 
 
 def page_shot(run, path, chromium):

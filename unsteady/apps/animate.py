@@ -48,6 +48,9 @@ def add_arguments(p):
     p.add_argument("--grid", default=None, metavar="NXxNZ", help="field grid nodes (default: one per ~8 pixels)")
     p.add_argument("--reach", type=float, default=6.0, metavar="CHORDS",
                    help="chords of wake shown behind the trailing edge (default 6)")
+    p.add_argument("--camera", default="auto", metavar="MODE",
+                   help="auto (default): follow the airfoil when it heaves freely or its height changes by "
+                        "more than a chord; follow: keep it at mid height; fixed: one frame holding the whole motion")
     p.add_argument("--quiet", action="store_true", help="no progress bar or report")
 
 
@@ -68,7 +71,7 @@ def main(args):
                        span=_span(args.span, label) if args.span else (None, None),
                        slowdown=args.slowdown, frames=args.frames, view=args.view, flow=args.flow,
                        trace=args.trace, grid=_pair(args.grid, "--grid", label, "160x90") if args.grid else None,
-                       reach=args.reach)
+                       reach=args.reach, camera=args.camera)
     res = load_run(run_dir)
     film = write_film(res, out, opts, progress=not args.quiet, label=label)
     if not args.quiet:

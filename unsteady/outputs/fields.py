@@ -228,18 +228,20 @@ def snapshot_count(snapshots) -> int:
     return int(len(snapshots.get("t", ())))
 
 
-def snapshot_sources(snapshots, k, r_wake, r_body, x_shift=0.0):
+def snapshot_sources(snapshots, k, r_wake, r_body, x_shift=0.0, z_shift=0.0):
     """Wake and bound vortices of snapshot ``k`` as two :class:`Sources`.
 
-    ``x_shift`` (m) moves them along x: ``-U t`` gives the still-air frame.
-    Bound vortices are absent from snapshots written before they were kept.
+    ``x_shift`` (m) moves them along x: ``-U t`` gives the still-air frame;
+    ``z_shift`` (m) moves them up: ``-h`` gives heights above the pitch axis
+    (a camera following the airfoil).  Bound vortices are absent from
+    snapshots written before they were kept.
     """
     o = snapshots["offsets"]
     a, b = int(o[k]), int(o[k + 1])
-    wake = Sources.of(snapshots["x"][a:b] + x_shift, snapshots["z"][a:b], snapshots["gamma"][a:b], r_wake)
+    wake = Sources.of(snapshots["x"][a:b] + x_shift, snapshots["z"][a:b] + z_shift, snapshots["gamma"][a:b], r_wake)
     out = [wake]
     if "gamma_body" in snapshots and len(snapshots["gamma_body"]) > k:
-        out.append(Sources.of(snapshots["x_body"][k] + x_shift, snapshots["z_body"][k],
+        out.append(Sources.of(snapshots["x_body"][k] + x_shift, snapshots["z_body"][k] + z_shift,
                               snapshots["gamma_body"][k], r_body))
     return out
 

@@ -11,30 +11,44 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np  # noqa: E402
+from matplotlib.artist import Artist  # noqa: E402
 from matplotlib.backends.backend_agg import FigureCanvasAgg  # noqa: E402
 from matplotlib.colors import Normalize  # noqa: E402
 from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.lines import Line2D  # noqa: E402
 from matplotlib.patches import Polygon  # noqa: E402
+from matplotlib.path import Path as MplPath  # noqa: E402
+from matplotlib.transforms import Affine2D, IdentityTransform  # noqa: E402
 
 from . import fields, rundir  # noqa: E402
 from ..core.errors import UsageError  # noqa: E402
 from ..core.files import append_mark, atomic_path  # noqa: E402
-from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP  # noqa: E402
+from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP, run_warnings, wrap_to_width  # noqa: E402
 
 __all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
-           "FLOW_STYLES", "VIEWS", "TRACES"]
+           "FLOW_STYLES", "VIEWS", "TRACES", "CAMERAS"]
 
 FLOW_STYLES = {
     "vortices": "wake vortices (teal: counter-clockwise, brick: clockwise; size: strength)",
-    "vorticity": "smoothed vorticity (1/s)",
+    "vorticity": "smoothed vorticity of the wake (1/s)",
     "speed": "flow speed (m/s)",
     "streamlines": "streamlines",
 }
+#: Shorter wordings of FLOW_STYLES and VIEWS for small films.
+FLOW_SHORT = {"vortices": "wake vortices (dot size: strength)", "vorticity": "wake vorticity (1/s)",
+              "speed": "flow speed (m/s)", "streamlines": "streamlines"}
+VIEWS_SHORT = {"airfoil": "riding with the airfoil", "air": "from the still air"}
 VIEWS = {
     "airfoil": "seen riding with the airfoil (the air streams past to the right)",
     "air": "seen from the still air (the airfoil flies through it to the left)",
 }
+CAMERAS = {
+    "auto": "follows the airfoil when it heaves freely ([aircraft]) or its height changes by more than a chord",
+    "follow": "keeps the airfoil's pitch axis at the middle height of the picture",
+    "fixed": "one frame for the whole film, holding the whole motion",
+}
+#: Height change (chords) beyond which the automatic camera follows the airfoil.
+FOLLOW_BEYOND_CHORDS = 1.0
 # trace name -> (history column, label)
 TRACES = {
     "cl": ("cl", "lift coefficient cl"),
@@ -73,6 +87,9 @@ class FilmOptions:
         Field grid nodes (nx, nz); None: about one node per 8 pixels.
     reach : float
         Chords of wake shown behind the trailing edge.
+    camera : {"auto", "follow", "fixed"}
+        See :data:`CAMERAS`: following, heights are drawn relative to the
+        pitch axis and the clock gives the airfoil's height.
     """
 
     frame_rate: float = 25.0
@@ -86,6 +103,7 @@ class FilmOptions:
     trace: str = None
     grid: tuple = None
     reach: float = 6.0
+    camera: str = "auto"
 
 
 # ---------------------------------------------------------------------------
@@ -159,6 +177,14 @@ class Film:
         self.air = options.view == "air"
         self.trace_name = options.trace or ("n" if "n" in self.hist else "cl")
         self.trace_col, self.trace_label = TRACES[self.trace_name]
+        hs = np.asarray(self.snap["h"], dtype=float)[self.snap_index]
+        self.heaves = bool(np.ptp(hs) > 0) if hs.size else False
+        if options.camera == "auto":
+            self.follow = self.heaves and ("n" in self.hist or float(np.ptp(hs)) > FOLLOW_BEYOND_CHORDS * self.c)
+        else:
+            self.follow = options.camera == "follow"
+        #: Where the model is out of its depth (banner of every frame).
+        self.warnings = run_warnings(result)
         self._gust_setup()
 
     # -- checks ------------------------------------------------------------
@@ -188,6 +214,8 @@ class Film:
             raise UsageError(f"error: {lab}: --grid: {o.grid[0]}x{o.grid[1]}; allowed: 4x4 to 2000x2000 nodes")
         if not (o.reach > 0 and math.isfinite(o.reach)):
             raise UsageError(f"error: {lab}: --reach: {o.reach}; allowed: a positive number of chords")
+        if o.camera not in CAMERAS:
+            raise UsageError(f"error: {lab}: --camera: unknown camera {o.camera!r}; allowed: {', '.join(CAMERAS)}")
 
     # -- gust --------------------------------------------------------------
     def _gust_setup(self):
@@ -222,20 +250,123 @@ class Film:
         """Shift (m) from the solver's frame to the picture's frame at time t."""
         return -self.U * (t - self.t0) if self.air else 0.0
 
+    def z_shift(self, i):
+        """Shift (m) of heights from the solver's frame to the picture's at frame i (-h when following)."""
+        return -float(self.snap["h"][int(self.snap_index[i])]) if self.follow else 0.0
+
     def frame_state(self, i):
-        """(t, snapshot index, alpha, h) of frame i."""
+        """(t, snapshot index, alpha, h) of frame i (h: the airfoil's true height)."""
         k = int(self.snap_index[i])
         return float(self.snap["t"][k]), k, float(self.snap["alpha"][k]), float(self.snap["h"][k])
 
     def sources(self, i):
+        """Wake and bound vortices of frame i, in the picture's frame."""
         t, k, _, _ = self.frame_state(i)
-        return fields.snapshot_sources(self.snap, k, self.r_wake, self.r_body, self.x_shift(t))
+        return fields.snapshot_sources(self.snap, k, self.r_wake, self.r_body, self.x_shift(t), self.z_shift(i))
 
     def wake(self, i):
+        """(x, z, gamma) of the wake vortices of frame i, in the picture's frame."""
         t, k, _, _ = self.frame_state(i)
         o = self.snap["offsets"]
         a, b = int(o[k]), int(o[k + 1])
-        return (self.snap["x"][a:b] + self.x_shift(t), self.snap["z"][a:b], self.snap["gamma"][a:b])
+        return (self.snap["x"][a:b] + self.x_shift(t), self.snap["z"][a:b] + self.z_shift(i),
+                self.snap["gamma"][a:b])
+
+    def trace_peak(self):
+        """(t, value, word) of the traced quantity's extreme, or None when outside the film.
+
+        The summary's headline peak where it has one (``<col>_max``/``<col>_min``
+        with their times: they leave out one-step transients), the one further
+        from the start; otherwise the sample of the history furthest from the start.
+        """
+        h, s = self.hist, self.res.summary or {}
+        y, t = np.asarray(h[self.trace_col], dtype=float), np.asarray(h["t"], dtype=float)
+        ok = np.isfinite(y)
+        if not ok.any():
+            return None
+        y0 = float(y[ok][0])
+        name = self.trace_name
+        cands = []
+        for end, word in (("max", "peak"), ("min", "lowest")):
+            v = s.get(f"{name}_{end}")
+            if isinstance(v, (int, float)) and math.isfinite(v):
+                tv = s.get(f"t_{name}_{end}")
+                if not isinstance(tv, (int, float)) or not math.isfinite(tv):
+                    tv = float(t[ok][np.argmin(np.abs(y[ok] - v))])
+                cands.append((abs(v - y0), float(tv), float(v), word))
+        if not cands:
+            i = int(np.flatnonzero(ok)[np.argmax(np.abs(y[ok] - y0))])
+            cands.append((abs(y[i] - y0), float(t[i]), float(y[i]), "peak" if y[i] >= y0 else "lowest"))
+        dev, tp, vp, word = max(cands)
+        if not dev > 0 or not (self.t0 - 1e-12 <= tp <= self.t1 + 1e-12):
+            return None
+        return tp, vp, word
+
+
+class WakeDots(Artist):
+    """Wake vortices as dots whose colour and size follow their circulation, drawn fast.
+
+    The circulation range [-g_lim, g_lim] is cut into ``levels`` bins; each bin is
+    one colour and one dot size, stamped by the renderer's marker routine (a
+    dot rasterised once, then copied to every position), weakest bin first.
+    The marker routine puts stamps on whole pixels, so each bin is stamped in
+    ``phases`` x ``phases`` sub-pixel shifts: positions are kept to 1/phases
+    of a pixel.  A scatter collection draws every dot as its own path: two to
+    four times slower for 2,000 vortices, and the film's largest cost.
+    """
+
+    def __init__(self, ax, g_lim, cmap, r_min_px, r_max_px, alpha=1.0, levels=32, phases=2):
+        super().__init__()
+        self.axes = ax
+        self.set_figure(ax.figure)
+        self.set_animated(True)
+        self.edges = np.linspace(-g_lim, g_lim, levels + 1)
+        mids = 0.5 * (self.edges[:-1] + self.edges[1:])
+        a = np.abs(mids) / g_lim
+        self.colours = [tuple(cmap(0.5 + 0.5 * m / g_lim)[:3]) + (alpha,) for m in mids]
+        self.radii = r_min_px + (r_max_px - r_min_px) * a
+        self.phases = p = int(phases)
+        # rank of each bin in drawing order (weakest first: strong vortices on top)
+        self.rank = np.empty(levels, dtype=np.int64)
+        self.rank[np.argsort(a, kind="stable")] = np.arange(levels)
+        self.by_rank = np.argsort(a, kind="stable")
+        circle = MplPath.unit_circle()
+        self.stamps = [[circle.transformed(Affine2D().scale(r).translate((i + 0.5) / p, (j + 0.5) / p))
+                        for i in range(p) for j in range(p)] for r in self.radii]
+        self.xy = np.zeros((0, 2))
+        self.gamma = np.zeros(0)
+
+    def set_data(self, x, z, gamma):
+        self.xy = np.column_stack([x, z])
+        self.gamma = np.asarray(gamma, dtype=float)
+
+    def bins(self):
+        """Bin index of every dot (the circulation clipped to the bins' range)."""
+        return np.clip(np.searchsorted(self.edges, self.gamma, side="right") - 1, 0, len(self.radii) - 1)
+
+    def draw(self, renderer):
+        if not self.get_visible() or self.gamma.size == 0:
+            return
+        p = self.phases
+        pix = self.axes.transData.transform(self.xy)
+        whole = np.floor(pix)
+        sub = np.minimum(((pix - whole) * p).astype(np.int64), p - 1)
+        key = (self.rank[self.bins()] * p + sub[:, 0]) * p + sub[:, 1]
+        order = np.argsort(key, kind="stable")
+        ks = key[order]
+        starts = np.r_[0, np.flatnonzero(np.diff(ks)) + 1]
+        ends = np.r_[starts[1:], ks.size]
+        pts = whole[order]
+        gc = renderer.new_gc()
+        gc.set_clip_rectangle(self.axes.bbox)
+        gc.set_linewidth(0)
+        ident = IdentityTransform()
+        for a, b in zip(starts, ends):
+            k = int(ks[a])
+            j = int(self.by_rank[k // (p * p)])
+            renderer.draw_markers(gc, self.stamps[j][k % (p * p)], ident, MplPath(pts[a:b]), ident,
+                                  self.colours[j])
+        gc.restore()
 
 
 class FilmRenderer:
@@ -259,15 +390,25 @@ class FilmRenderer:
         self.canvas = FigureCanvasAgg(fig)
         field_mode = o.flow in ("vorticity", "speed")
         right = 0.905 if field_mode else 0.975
-        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, 0.53], facecolor=LOOK["paper"])
+        # a quiet banner of the run's warnings takes a strip above the flow panel
+        self.flow_top = 0.855 if f.warnings else 0.895
+        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, self.flow_top - 0.365], facecolor=LOOK["paper"])
         self.ax_tr = fig.add_axes([0.075, 0.1, 0.9, 0.185], facecolor=LOOK["paper"])
         self._limits()
         self.animated = []
+        #: Static artists pasted back over the moving ones every frame (their pixels, copied once).
+        self.stickers = []
         self._static_text()
+        self._banner()
         self._build_flow(field_mode)
         self._build_trace()
         self.canvas.draw()
+        if np.asarray(self.canvas.buffer_rgba()).shape != (self.H, self.W, 4):
+            raise RuntimeError(f"the film canvas is not {self.W}x{self.H} pixels")
         self.bg = self.canvas.copy_from_bbox(fig.bbox)
+        rend = self.canvas.get_renderer()
+        self.sticker_regions = [self.canvas.copy_from_bbox(a.get_window_extent(rend).expanded(1.02, 1.1))
+                                for a in self.stickers]
 
     # -- layout ------------------------------------------------------------
     def _limits(self):
@@ -282,7 +423,7 @@ class FilmRenderer:
         else:
             x_lo = x_le0 - 0.8 * c
             x_hi = x_te0 + f.opt.reach * c
-        hs = f.snap["h"][f.snap_index]
+        hs = f.snap["h"][f.snap_index] * (0.0 if f.follow else 1.0)
         alphas = f.snap["alpha"][f.snap_index]
         z_lo = float(np.min(hs)) - c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
         z_hi = float(np.max(hs)) + c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
@@ -311,7 +452,7 @@ class FilmRenderer:
         f, fig, fs = self.film, self.fig, self.fs
         title = f.sc.title or Path(str(f.sc.out_dir())).name
         fig.text(0.075, 0.965, title, fontsize=fs * 1.25, color=LOOK["ink"], weight="bold", va="top")
-        fig.text(0.075, 0.925, f"{FLOW_STYLES[f.opt.flow]}, {VIEWS[f.opt.view]}",
+        fig.text(0.075, 0.925, self._subtitle(0.9 * self.W / self.DPI, fs * 0.85),
                  fontsize=fs * 0.85, color=LOOK["muted"], va="top")
         fig.text(0.975, 0.012, CAUTION, fontsize=fs * 0.7, color=LOOK["muted"], ha="right", va="bottom")
         ax = self.ax
@@ -323,11 +464,46 @@ class FilmRenderer:
             a.spines["right"].set_visible(False)
         ax.set_xlabel("x, still air (m)" if f.air else "x, downstream of the pitch axis (m)",
                       fontsize=fs * 0.85, color=LOOK["ink"], labelpad=1)
-        ax.set_ylabel("height z (m)", fontsize=fs * 0.85, color=LOOK["ink"])
+        ax.set_ylabel("z above the pitch axis (m)" if f.follow else "height z (m)",
+                      fontsize=fs * 0.85, color=LOOK["ink"])
+        self.path = None
         if f.air:   # the path of the pitch axis through the still air
             th = f.hist["t"]
             sel = (th >= f.t0) & (th <= f.t1)
-            ax.plot(-f.U * (th[sel] - f.t0), f.hist["height_m"][sel], color=LOOK["path"], lw=0.8, ls=(0, (4, 4)))
+            self.path_x, self.path_z = -f.U * (th[sel] - f.t0), f.hist["height_m"][sel]
+            self.path, = ax.plot(self.path_x, self.path_z, color=LOOK["path"], lw=0.8, ls=(0, (4, 4)),
+                                 animated=f.follow)
+            if f.follow:          # heights relative to the airfoil: the path moves with it
+                self.animated.append(self.path)
+
+    def _subtitle(self, width_in, size):
+        """What the flow panel shows, in the longest wording that fits the width."""
+        f = self.film
+        flow, view = f.opt.flow, f.opt.view
+        cam = ("; the camera follows the airfoil", "; camera following") if f.follow else ("", "")
+        for text in (f"{FLOW_STYLES[flow]}, {VIEWS[view]}{cam[0]}",
+                     f"{FLOW_SHORT[flow]}, {VIEWS[view]}{cam[0]}",
+                     f"{FLOW_SHORT[flow]}, {VIEWS_SHORT[view]}{cam[1]}"):
+            if len(wrap_to_width(text, width_in, size)) == 1:
+                return text
+        return text
+
+    def _banner(self):
+        """The run's warnings (:func:`unsteady.outputs.pictures.run_warnings`) in one quiet line."""
+        f, fs = self.film, self.fs
+        self.banner = None
+        if not f.warnings:
+            return
+        size = fs * 0.78
+        width = self.ax.get_position().x1 * self.W / self.DPI - 0.075 * self.W / self.DPI - 0.1
+        more = len(f.warnings) - 1
+        tail = f" (+{more} more: see summary.json and the report)" if more else ""
+        first = wrap_to_width("caution: " + f.warnings[0], width - (0.3 * len(tail) * size / 72.0), size)
+        text = first[0] + (" ..." if len(first) > 1 else "") + tail
+        self.banner = self.fig.text(0.075, 0.5 * (self.flow_top + 0.905), text, fontsize=size,
+                                    color=LOOK["warn"], va="center", ha="left",
+                                    bbox=dict(boxstyle="round,pad=0.3", facecolor=LOOK["note_bg"],
+                                              edgecolor="none"))
 
     # -- flow panel --------------------------------------------------------
     def _build_flow(self, field_mode):
@@ -336,6 +512,7 @@ class FilmRenderer:
         self.img = None
         self.contours = None
         self.scat = None
+        self.legend = None
         self.gust_img = None
         self.quiv = None
         # gust band (under everything else)
@@ -343,7 +520,7 @@ class FilmRenderer:
             self.g_x = np.linspace(*self.xlim, 241)
             zs = self.zlim
             if o.flow == "vortices":
-                hm = float(np.mean(f.snap["h"][f.snap_index]))
+                hm = 0.0 if f.follow else float(np.mean(f.snap["h"][f.snap_index]))
                 band = (hm - 0.75 * f.c, hm + 0.75 * f.c)
             else:
                 band = (zs[0], zs[0] + 0.07 * (zs[1] - zs[0]))
@@ -355,14 +532,20 @@ class FilmRenderer:
             self.q_x = np.linspace(*self.xlim, 25)[1:-1]
             zq = np.full_like(self.q_x, 0.5 * (band[0] + band[1]))
             half = 0.45 * (band[1] - band[0])
-            self.g_follow = o.flow == "vortices"     # the band rides at the airfoil's height
+            self.g_follow = o.flow == "vortices" and not f.follow    # the band rides at the airfoil's height
             self.quiv = ax.quiver(self.q_x, zq - 0.0, np.zeros_like(self.q_x), np.zeros_like(self.q_x),
                                   angles="xy", scale_units="xy", scale=f.gust_max / half, pivot="middle",
                                   color=LOOK["ink"], alpha=0.55, width=0.0025, headwidth=3.5, headlength=4,
                                   zorder=0.6, animated=True)
-            ax.text(0.005, 0.012,
-                    f"band and arrows: vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
-                    transform=ax.transAxes, fontsize=fs * 0.72, color=LOOK["muted"], va="bottom")
+            # the caption goes above a band drawn along the bottom; it is a sticker (pasted over the
+            # moving artists every frame, on a paper box), so that the band never covers it
+            zs = self.zlim
+            y_cap = 0.012 if o.flow == "vortices" else (band[1] - zs[0]) / (zs[1] - zs[0]) + 0.012
+            self.gust_caption = ax.text(
+                0.005, y_cap, f"band and arrows: vertical gust (violet up, ochre down; peak {f.gust_max:.2g} m/s)",
+                transform=ax.transAxes, fontsize=fs * 0.72, color=LOOK["muted"], va="bottom", zorder=6,
+                bbox=dict(boxstyle="square,pad=0.15", facecolor=LOOK["paper"], edgecolor="none"))
+            self.stickers.append(self.gust_caption)
             self.animated += [self.gust_img, self.quiv]
         # field
         if o.flow in ("vorticity", "speed", "streamlines"):
@@ -380,7 +563,7 @@ class FilmRenderer:
                                  aspect="auto", cmap=cmap, norm=self.field_norm, interpolation="bilinear",
                                  zorder=0.3, animated=True)
             self.animated.insert(0, self.img)
-            cax = self.fig.add_axes([0.925, 0.365, 0.012, 0.53])
+            cax = self.fig.add_axes([0.925, 0.365, 0.012, self.flow_top - 0.365])
             cb = self.fig.colorbar(self.img, cax=cax)
             cb.set_label(FLOW_STYLES[o.flow], fontsize=fs * 0.8, color=LOOK["ink"])
             cb.ax.tick_params(labelsize=fs * 0.75, colors=LOOK["ink"])
@@ -390,28 +573,62 @@ class FilmRenderer:
         self.g_lim = float(np.percentile(g_all, 99.0)) if g_all.size else 1.0
         self.g_lim = self.g_lim if self.g_lim > 0 else 1.0
         s = (self.H / 720.0) ** 0.8
-        self.size_max = (7.5 * s) ** 2
-        self.size_min = (1.6 * s) ** 2
+        px = self.DPI / 72.0                     # pixels per point
         if o.flow != "vorticity":
             alpha = 0.9 if o.flow == "vortices" else 0.5
-            self.scat = ax.scatter(np.zeros(0), np.zeros(0), c=np.zeros(0), s=np.zeros(0), cmap=VORTEX_MAP,
-                                   norm=Normalize(-self.g_lim, self.g_lim), linewidths=0, alpha=alpha,
-                                   zorder=2, animated=True)
+            # dot diameters 1.6 to 7.5 points at 720 lines
+            self.scat = WakeDots(ax, self.g_lim, VORTEX_MAP, 0.8 * s * px, 3.75 * s * px, alpha=alpha)
             self.animated.append(self.scat)
             if o.flow == "vortices":
                 handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
                            Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
-                ax.legend(handles=handles, loc="upper right", fontsize=fs * 0.75, frameon=False,
-                          handletextpad=0.2, ncol=2, columnspacing=1.0)
+                leg = ax.legend(handles=handles, loc="lower right", fontsize=fs * 0.75, frameon=False,
+                                handletextpad=0.2, ncol=2, columnspacing=1.0)
+                self.legend = leg
+                self.stickers.append(leg)     # pasted over the dots, not drawn under them
         # airfoil
         self.foil = Polygon(np.zeros((3, 2)), closed=True, facecolor=LOOK["airfoil"],
                             edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
         ax.add_patch(self.foil)
         self.animated.append(self.foil)
-        # clock
-        self.clock = ax.text(0.012, 0.985, "", transform=ax.transAxes, fontsize=fs, color=LOOK["ink"],
-                             va="top", ha="left", zorder=5, family="monospace", animated=True)
-        self.animated.append(self.clock)
+        self._build_clock()
+
+    def _build_clock(self):
+        """The clock line: its words a sticker drawn once, its numbers (monospace, fixed widths) per frame.
+
+        Rendering glyphs is a film's second largest cost; the numbers are a
+        quarter of the line's glyphs.
+        """
+        f, ax, fs = self.film, self.ax, self.fs
+        snaps = f.snap
+        idx = f.snap_index
+        fields_ = [("t = ", "{:.3f}", [f.t1]), (" s   ", "{:.1f}", [f.U * f.t1 / f.c]),
+                   (" chords flown   pitch ", "{:+.1f}", np.degrees(snaps["alpha"][idx])), (" deg", None, None)]
+        if f.heaves:
+            fields_[-1:] = [(" deg   height ", "{:+.3f}", snaps["h"][idx]), (" m", None, None)]
+        if f.gust_w is not None:
+            fields_[-1:] = [(fields_[-1][0] + "   gust at leading edge ", "{:+.2f}", [f.gust_max, -f.gust_max]),
+                            (" m/s", None, None)]
+        self.clock_fields = [(pre, fmt, max(len(fmt.format(float(v))) for v in vals) if fmt else 0)
+                             for pre, fmt, vals in fields_]
+        words = "".join(pre + " " * w for pre, _fmt, w in self.clock_fields)
+        kw = dict(transform=ax.transAxes, fontsize=fs, color=LOOK["ink"], va="top", ha="left", zorder=5,
+                  family="monospace")
+        self.clock_words = ax.text(0.012, 0.985, words, bbox=dict(boxstyle="square,pad=0.25", alpha=0.8,
+                                                                facecolor=LOOK["paper"], edgecolor="none"), **kw)
+        self.stickers.append(self.clock_words)
+        self.clock = ax.text(0.012, 0.985, "", animated=True, **kw)
+        self.overlays = [self.clock]
+        self.clock_line = ""
+
+    def _clock_numbers(self, values):
+        """(numbers-only text, whole line) for the clock's values, in the order of its fields."""
+        nums, line = [], []
+        for (pre, fmt, w), v in zip(self.clock_fields, list(values) + [None]):
+            text = fmt.format(v).rjust(w) if fmt else ""
+            nums.append(" " * len(pre) + text)
+            line.append(pre + text)
+        return "".join(nums), "".join(line)
 
     def _field(self, i):
         """The field of frame i on the grid (vorticity, speed or stream function)."""
@@ -419,15 +636,17 @@ class FilmRenderer:
         t = f.frame_state(i)[0]
         src = f.sources(i)
         if f.opt.flow == "vorticity":
+            # the wake's vorticity only: the bound vortices are the airfoil itself (drawn as such);
+            # smoothed over a coarse grid they would spread across and beyond it
             sigma = max(1.5 * max(self.grid.dx, self.grid.dz), f.r_wake)
-            return fields.vorticity_field(self.grid, src, sigma=sigma)
+            return fields.vorticity_field(self.grid, src[:1], sigma=sigma)
         U = 0.0 if f.air else f.U
         X, Z = np.meshgrid(self.grid.x, self.grid.z)
         if f.opt.flow == "speed":
             gust = None
             if f.gust_field is not None:
-                sh = f.x_shift(t)
-                gust = (lambda x, z, tt: f.gust_field.velocity(x - sh, z, tt))
+                sh, zsh = f.x_shift(t), f.z_shift(i)
+                gust = (lambda x, z, tt: f.gust_field.velocity(x - sh, z - zsh, tt))
             u, w = fields.velocity_field(X, Z, src, freestream=(U, 0.0), gust=gust, t=t)
             return fields.speed(u, w)
         return fields.stream_function(X, Z, src, freestream=(U, 0.0))
@@ -477,6 +696,21 @@ class FilmRenderer:
         self.tr_line, = ax.plot([], [], color=LOOK["trace"], lw=1.6, animated=True)
         self.tr_dot, = ax.plot([], [], "o", color=LOOK["marker"], ms=5.5 * self.H / 720.0, clip_on=False, animated=True)
         self.animated += [self.tr_line, self.tr_dot]
+        # the extreme of the trace, marked once the film reaches it
+        self.peak = f.trace_peak()
+        self.pk_mark = self.pk_text = None
+        if self.peak is not None:
+            tp, vp, word = self.peak
+            self.pk_mark, = ax.plot([tp], [vp], "o", ms=8.0 * self.H / 720.0, mfc="none", mec=LOOK["second"],
+                                    mew=1.4, clip_on=False, animated=True, visible=False)
+            right = tp > f.t0 + 0.7 * (f.t1 - f.t0)
+            self.pk_text = ax.annotate(f"{word} {f.trace_name} = {vp:.4g} at t = {tp:.4g} s", xy=(tp, vp),
+                                       xytext=(-8 if right else 8, 3 if word == "peak" else -3),
+                                       textcoords="offset points", ha="right" if right else "left",
+                                       va="bottom" if word == "peak" else "top", fontsize=fs * 0.75,
+                                       color=LOOK["second"], animated=True, visible=False,
+                                       annotation_clip=False)
+            self.animated += [self.pk_mark, self.pk_text]
 
     # -- one frame ---------------------------------------------------------
     def update(self, i):
@@ -484,6 +718,7 @@ class FilmRenderer:
         f = self.film
         t, k, alpha, h = f.frame_state(i)
         sh = f.x_shift(t)
+        hv = h + f.z_shift(i)              # the airfoil's height in the picture
         ax = self.ax
         if self.img is not None:
             self.img.set_data(self._field(i))
@@ -498,33 +733,40 @@ class FilmRenderer:
         if self.gust_img is not None:
             w = f.gust_w(self.g_x - sh, t)
             self.gust_img.set_data(w[None, :])
-            self.quiv.set_UVC(np.zeros_like(self.q_x), f.gust_w(self.q_x - sh, t))
+            wq = np.asarray(f.gust_w(self.q_x - sh, t), dtype=float)
+            # no arrow where the gust is (all but) zero: a zero-length arrow would draw as a dot
+            wq = np.where(np.abs(wq) > 0.01 * f.gust_max, wq, np.nan)
+            self.quiv.set_UVC(np.zeros_like(self.q_x), wq)
             if self.g_follow:
-                lo, hi = h - 0.75 * f.c, h + 0.75 * f.c
+                lo, hi = hv - 0.75 * f.c, hv + 0.75 * f.c
                 self.gust_img.set_extent((self.xlim[0], self.xlim[1], lo, hi))
-                self.quiv.set_offsets(np.column_stack([self.q_x, np.full_like(self.q_x, h)]))
+                self.quiv.set_offsets(np.column_stack([self.q_x, np.full_like(self.q_x, hv)]))
+        if self.path is not None and f.follow:
+            self.path.set_ydata(self.path_z - h)
         if self.scat is not None:
-            x, z, g = f.wake(i)
-            self.scat.set_offsets(np.column_stack([x, z]))
-            self.scat.set_array(np.asarray(g, dtype=float))
-            a = np.minimum(np.abs(g) / self.g_lim, 1.0)
-            self.scat.set_sizes(self.size_min + (self.size_max - self.size_min) * a)
-        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, h, n=61, x_shift=sh)
+            self.scat.set_data(*f.wake(i))
+        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh)
         self.foil.set_xy(np.column_stack([xo, zo]))
-        t_star = f.U * t / f.c
-        txt = f"t = {t:.3f} s   {t_star:.1f} chords flown   pitch {math.degrees(alpha):+.1f} deg"
+        values = [t, f.U * t / f.c, math.degrees(alpha)]
+        if f.heaves:
+            values.append(h)
         if f.gust_w is not None:
-            txt += f"   gust at leading edge {float(f.gust_w(np.array([-f.pivot * f.c]), t)[0]):+.2f} m/s"
-        self.clock.set_text(txt)
+            values.append(float(f.gust_w(np.array([-f.pivot * f.c]), t)[0]))
+        nums, self.clock_line = self._clock_numbers(values)
+        self.clock.set_text(nums)
         j = int(np.searchsorted(self.tr_t, t + 1e-12))
         self.tr_line.set_data(self.tr_t[:j], self.tr_y[:j])
         if j > 0:
             self.tr_dot.set_data([self.tr_t[j - 1]], [self.tr_y[j - 1]])
         else:
             self.tr_dot.set_data([], [])
+        if self.peak is not None:
+            reached = t >= self.peak[0] - 1e-12
+            self.pk_mark.set_visible(reached)
+            self.pk_text.set_visible(reached)
 
-    def frame(self, i):
-        """Frame i as an (H, W, 3) uint8 array (a new array)."""
+    def draw(self, i):
+        """Draw frame i on the canvas: the background, the moving artists, the stickers."""
         self.update(i)
         self.canvas.restore_region(self.bg)
         for a in self.animated:
@@ -532,8 +774,19 @@ class FilmRenderer:
         if self.contours is not None:
             self.ax.draw_artist(self.contours)
             self.ax.draw_artist(self.foil)
-            self.ax.draw_artist(self.clock)
-        buf = np.asarray(self.canvas.buffer_rgba())
+        for region in self.sticker_regions:
+            self.canvas.restore_region(region)
+        for a in self.overlays:
+            a.axes.draw_artist(a)
+
+    def frame_rgba(self, i):
+        """Frame i as the canvas's own (H, W, 4) RGBA buffer: no copy, valid until the next frame is drawn."""
+        self.draw(i)
+        return np.asarray(self.canvas.buffer_rgba())
+
+    def frame(self, i):
+        """Frame i as an (H, W, 3) uint8 array (a new array)."""
+        buf = self.frame_rgba(i)
         return np.ascontiguousarray(buf[:self.H, :self.W, :3])
 
 
@@ -543,13 +796,13 @@ class _Mp4Writer:
     def __init__(self, path, size, fps):
         import imageio_ffmpeg
         self.gen = imageio_ffmpeg.write_frames(
-            str(path), size, fps=fps, codec="libx264", pix_fmt_in="rgb24", pix_fmt_out="yuv420p",
+            str(path), size, fps=fps, codec="libx264", pix_fmt_in="rgba", pix_fmt_out="yuv420p",
             macro_block_size=2, ffmpeg_log_level="error", quality=None,
             output_params=["-crf", "20", "-preset", "veryfast", "-movflags", "+faststart"])
         self.gen.send(None)
 
-    def add(self, rgb):
-        self.gen.send(rgb)
+    def add(self, rgba):
+        self.gen.send(rgba.data)       # the (H, W, 4) buffer as it is: ffmpeg converts
 
     def close(self):
         self.gen.close()
@@ -570,13 +823,13 @@ class _GifWriter:
         Image.fromarray(pal).save(pal_path)
         w, h = size
         cmd = [imageio_ffmpeg.get_ffmpeg_exe(), "-hide_banner", "-loglevel", "error", "-y",
-               "-f", "rawvideo", "-pix_fmt", "rgb24", "-s", f"{w}x{h}", "-r", f"{fps}", "-i", "-",
+               "-f", "rawvideo", "-pix_fmt", "rgba", "-s", f"{w}x{h}", "-r", f"{fps}", "-i", "-",
                "-i", pal_path, "-lavfi", "[0:v][1:v]paletteuse=dither=bayer:bayer_scale=4:diff_mode=rectangle",
                "-loop", "0", "-f", "gif", str(path)]
         self.proc = subprocess.Popen(cmd, stdin=subprocess.PIPE, stderr=subprocess.PIPE)
 
-    def add(self, rgb):
-        self.proc.stdin.write(rgb.tobytes())
+    def add(self, rgba):
+        self.proc.stdin.write(rgba.data)
 
     def close(self):
         try:
@@ -657,7 +910,7 @@ def _encode(renderer, path, bar=None):
         writer = _Mp4Writer(path, size, o.frame_rate)
     try:
         for i in range(film.n_frames):
-            writer.add(renderer.frame(i))
+            writer.add(renderer.frame_rgba(i))
             if bar is not None:
                 bar.update(i + 1, f"frame {i + 1}/{film.n_frames}")
     except BaseException:

@@ -379,13 +379,17 @@ def scenario_words(sc):
 # pictures and film, as data URIs
 
 CAPTIONS = {
-    "histories.png": "Lift and moment coefficients (and load factor, when free to heave), pitch and plunge "
-                     "against time.",
-    "lift-loop.png": "Lift coefficient against pitch angle, beside the quasi-steady line.",
-    "wake.png": "The shed wake vortices and the section at the last snapshot.",
-    "pressure-jump.png": "Pressure jump across the camber line along the chord at a few instants.",
+    "histories.png": "Lift and moment coefficients (and load factor, when free to heave), and the inputs that "
+                     "moved (gust, pitch, plunge or heave) against time; an input held constant is written "
+                     "under the title.",
+    "lift-loop.png": "Lift coefficient against the pitch angle (or, when the pitch is held, the effective angle "
+                     "of attack), beside the quasi-steady line.",
+    "wake.png": "The near wake, a few chords behind the section in true proportions, and below it the whole "
+                "shed wake at the last snapshot.",
+    "pressure-jump.png": "Pressure jump across the camber line along the chord at a few instants, scaled on the "
+                         "chord behind the leading edge (the leading-edge value is written).",
     "lag.png": "Lift coefficient against the quasi-steady value and the effective angle of attack, "
-               "with the attached-flow check.",
+               "with the t50/t90 marks of a ramp or step and the attached-flow check.",
     "gust-loads.png": "Gust velocity met at the leading edge and the load factor, with the peak and "
                       "the gust-formula estimate.",
 }
