@@ -63,8 +63,9 @@ def test_no_statistics_for_a_short_record_or_a_discrete_gust():
 def test_turbulence_run_starts_level_in_the_field(model):
     """The aircraft flies in the turbulence from t = 0: both models start trimmed in the field
     as it stands then (n = 1, common practice for a trimmed start), with no jump of the load factor
-    at the start (it jumped by 5.5 in one step in the vortex model, and the linear model began at
-    n = -4.5 or 1.27), and the peaks leave the start-up out like the statistics."""
+    at the start (the trust issue reported a jump of 5.5 in one step and a linear start at
+    n = -4.5; measured before this change, the linear model began at 1.27), and the peaks leave
+    the start-up out like the statistics."""
     sc = unsteady.load_scenario(ROOT / "scenarios" / "drone-turbulence.toml",
                                 overrides={"run.model": model, "run.duration": 2.5})
     res = unsteady.simulate(sc)

@@ -42,8 +42,7 @@ import math
 
 import numpy as np
 
-from ..inputs.estimates import angle_text
-from .lag import validity
+from ..inputs.estimates import angle_text, motion_key
 from .summary import impulse_mask
 
 #: |cl| beyond which a real section would have stalled (common practice, see module docstring).
@@ -54,17 +53,13 @@ ROUTE_TOLERANCE = 0.05
 WAKE_BAND = 0.02
 
 
-def _motion_key(sc):
-    mo = sc.data.get("motion", {})
-    return "motion.pitch" if "pitch" in mo or "plunge" not in mo else "motion.plunge"
-
-
-def _gust_key(sc, what="amplitude"):
+def _gust_key(sc):
+    """The key a gust warning names: the gust's strength, or the whole list of gusts."""
     g = sc.data.get("gust")
     if g is None:
         return None
     if isinstance(g, dict):
-        return f"gust.{'intensity' if g.get('profile') == 'turbulence' else what}"
+        return f"gust.{'intensity' if g.get('profile') == 'turbulence' else 'amplitude'}"
     return "gust"
 
 
@@ -78,7 +73,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
         columns included).
     sc : Scenario
     summary : dict
-        The run's summary, its ``lag`` block included.
+        The run's summary, its ``lag`` block (peaks and validity verdict) included.
     snapshots : dict, optional
         The run's snapshots (wake positions), for the wake-through-airfoil check.
     """
@@ -87,20 +82,20 @@ def measured_warnings(history, sc, summary, snapshots=None):
     if t.size == 0:
         return out
     gust_key = _gust_key(sc)
-    motion_key = _motion_key(sc)
+    mkey = motion_key(sc.data.get("motion", {}))
     vortex = sc.data["run"].get("model", "vortex") == "vortex"
 
-    # 1-2: the attached-flow verdict
-    k_red = np.radians(np.asarray(history["pitch_rate_deg_s"], float)) * sc.chord / (2.0 * sc.speed)
-    v = validity(np.asarray(history["alpha_eff_deg"], float), k_red)
-    a_max = float(np.nanmax(np.abs(history["alpha_eff_deg"])))
+    # 1-2: the attached-flow verdict, as the lag block found it
+    lag = summary["lag"]
+    v = lag["validity"]
+    a_max = abs(lag.get("peak_effective_alpha_deg", 0.0))
     if a_max > v["alpha_eff_limit_deg"]:
         i = int(np.nanargmax(np.abs(history["alpha_eff_deg"])))
-        out.append((gust_key or motion_key,
+        out.append((gust_key or mkey,
                     f"the effective angle of attack reached {angle_text(a_max)} at t = {t[i]:.4g} s, "
                     f"beyond the {v['alpha_eff_limit_deg']:g} degrees of attached flow: a real section "
                     f"would separate or stall there, and these attached-flow loads overstate it"))
-    k_max = float(np.nanmax(np.abs(k_red)))
+    k_max = lag.get("peak_pitch_rate", 0.0)
     if k_max > v["pitch_rate_limit"]:
         out.append(("motion.pitch",
                     f"the reduced pitch rate alpha_dot c/(2U) reached {k_max:.3f}, beyond "
@@ -113,7 +108,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
     if "u_gust" in history:
         u_min = float(np.nanmin(np.asarray(history["u_gust"], float)))
         if sc.speed + u_min <= 0.0:
-            out.append((_gust_key(sc) or "gust",
+            out.append((gust_key or "gust",
                         f"the streamwise gust reaches {u_min:.3g} m/s against a flight speed of "
                         f"{sc.speed:.3g} m/s: the air meets the section from behind, which this model "
                         f"does not describe"))
@@ -130,13 +125,13 @@ def measured_warnings(history, sc, summary, snapshots=None):
         if abs(cl[i]) > CL_MAX_TYPICAL:
             msg = (f"the section lift coefficient reached {cl[i]:.3g} at t = {t[i]:.4g} s, beyond the "
                    f"about {CL_MAX_TYPICAL:g} a real section carries before it stalls (common practice)")
-            if "n" in history and np.isfinite(history["n"][i]) and cl[i] != 0.0:
+            if "n" in history and np.isfinite(history["n"][i]) and cl[i] != cl[0]:
+                # n - 1 grows with cl - cl(0) (the trimmed start carries n = 1)
                 n_i = float(history["n"][i])
-                n_cap = 1.0 + (n_i - 1.0) * (math.copysign(CL_MAX_TYPICAL, cl[i]) - cl[0]) / (cl[i] - cl[0]) \
-                    if cl[i] != cl[0] else n_i
+                n_cap = 1.0 + (n_i - 1.0) * (math.copysign(CL_MAX_TYPICAL, cl[i]) - cl[0]) / (cl[i] - cl[0])
                 msg += (f": the load factor {n_i:.3g} there is more than such a section could give "
                         f"(about {n_cap:.3g})")
-            out.append(("aircraft.mass" if "n" in history else gust_key or motion_key, msg))
+            out.append(("aircraft.mass" if "n" in history else gust_key or mkey, msg))
 
     # 6: the two load routes
     if vortex and "cl_impulse" in history and keep.any():
@@ -155,7 +150,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
     if vortex and snapshots is not None:
         hit = wake_through_airfoil(snapshots, sc)
         if hit is not None:
-            out.append((motion_key,
+            out.append((mkey,
                         f"wake vortices lie on the airfoil at t = {hit:.4g} s (the body meets its own "
                         f"wake): the loads after that are not to be trusted"))
     return out

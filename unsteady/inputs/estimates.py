@@ -33,7 +33,8 @@ def angle_text(deg):
     return f"about {deg:.0f} degrees" if deg < 90.0 else "more than 90 degrees (a motion faster than the flight speed)"
 
 
-def _motion_key(mo):
+def motion_key(mo):
+    """The motion key a warning names: the pitch law, unless only a plunge is given."""
     return "motion.pitch" if "pitch" in mo or "plunge" not in mo else "motion.plunge"
 
 
@@ -47,14 +48,14 @@ def estimate_warnings(sc):
     if not gusts and mo:
         angle = math.degrees(_motion_angle_peak(data, 0.0))
         if angle > EFFECTIVE_ANGLE_LIMIT_DEG:
-            out.append(InputError(_motion_key(mo),
+            out.append(InputError(motion_key(mo),
                                   f"the motion raises the effective angle of attack to {angle_text(angle)}, "
                                   f"beyond {EFFECTIVE_ANGLE_LIMIT_DEG:.0f}: the attached-flow model "
                                   f"is far outside its range there (real sections stall near 10-15 degrees)"))
     times = [T for T in sc.kinematics.singular_times() if 0.0 <= T <= data["run"]["duration"]]
     if times:
         shown = ", ".join(f"{T:.4g}" for T in times[:4]) + (" ..." if len(times) > 4 else "")
-        out.append(InputError(_motion_key(mo),
+        out.append(InputError(motion_key(mo),
                               f"changes instantly at t = {shown} s: its apparent-mass force is an impulse "
                               f"there (reported as 'impulses' in the summary and left out of the peaks); a "
                               f"smoothing time gives a force a real actuator could make"))

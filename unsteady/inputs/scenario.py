@@ -87,7 +87,7 @@ def default_dt(chord, speed, elements, frequency=0.0, smoothing=0.0):
 def shortest_smoothing(spec):
     """Shortest positive ``smoothing`` (s) of the ramp laws in a motion-law spec (or list); 0 if none."""
     if isinstance(spec, list):
-        return min([shortest_smoothing(s) for s in spec if shortest_smoothing(s) > 0.0] or [0.0])
+        return min((x for x in map(shortest_smoothing, spec) if x > 0.0), default=0.0)
     if isinstance(spec, dict) and spec.get("law") == "ramp" and _is_number(spec.get("smoothing")):
         return max(float(spec["smoothing"]), 0.0)
     return 0.0
@@ -446,8 +446,9 @@ def resolve(raw, base_dir, stem="scenario"):
         run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
     elif speed and chord and elements:
         f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge"))
-        sigmas = [x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge")) if x > 0.0]
-        run["dt"] = default_dt(chord, speed, elements, f_max, min(sigmas) if sigmas else 0.0)
+        sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge")) if x > 0.0),
+                    default=0.0)
+        run["dt"] = default_dt(chord, speed, elements, f_max, sigma)
     run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
     run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
     run["model"] = grab(choice, "run.model", ru.get("model", "vortex"), RUN_MODELS)

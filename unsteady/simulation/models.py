@@ -319,6 +319,7 @@ class LinearModel(Model):
         self.alpha_L0, self.cm0 = section_constants(sc.section)
         self.march_options = march_options
         self._trim_model = None
+        self._gust_at_start = None
 
     def steady_cl(self, alpha, alpha_dot):
         """The vortex model's steady lift (:meth:`VortexModel.steady_cl`), on purpose.
@@ -342,13 +343,14 @@ class LinearModel(Model):
         if self._trim_model is None:
             self._trim_model = VortexModel(self.sc, None, None)
         cl = self._trim_model.steady_cl(alpha, alpha_dot)
-        gust = self.gust
-        if gust is not None and linear.gust_start(self.sc.data["run"]["start"], gust) == "steady":
-            u, w = _gust_series(gust, -self.sc.pivot * self.sc.chord, np.zeros(1), np.zeros(1))
-            cl += 2.0 * np.pi * float(w[0]) / self.sc.speed
-            if gust.streamwise:
-                cl *= 1.0 + 2.0 * float(u[0]) / self.sc.speed
-        return cl
+        if self._gust_at_start is None:        # (u, w) met at the leading edge at t = 0, or none
+            gust = self.gust
+            steady = gust is not None and linear.gust_start(self.sc.data["run"]["start"], gust) == "steady"
+            u, w = (_gust_series(gust, -self.sc.pivot * self.sc.chord, np.zeros(1), np.zeros(1))
+                    if steady else (np.zeros(1), np.zeros(1)))
+            self._gust_at_start = (float(u[0]) if steady and gust.streamwise else 0.0, float(w[0]))
+        u0, w0 = self._gust_at_start
+        return (cl + 2.0 * np.pi * w0 / self.sc.speed) * (1.0 + 2.0 * u0 / self.sc.speed)
 
     def marcher(self):
         """The :class:`~unsteady.linear.model.LinearMarcher` of the free heave (``[aircraft]``), trimmed motion."""
