@@ -496,6 +496,7 @@ def resolve(raw, base_dir, stem="scenario"):
             value, errs = checker(raw[name], ctx)
             errors += errs
             out[name] = value
+            ctx[name] = value          # a later section may depend on an earlier one (gust on aircraft)
     if ctx["_warnings"]:
         out["_warnings"] = ctx["_warnings"]
     return out, one_per_problem(errors, not_tables)
