@@ -470,7 +470,7 @@ class Turbulence(GustProfile):
         self.x0 = -self.AHEAD_CHORDS * c
         self.samples = turbulence_samples(spec["spectrum"], self.sigma, self.L,
                                           max(self.span[1] - self.x0, self.dx), self.dx,
-                                          int(spec.get("seed", 0)), component)
+                                          realisation_seeds(spec)[0], component)
         self.x = self.x0 + np.arange(self.samples.size) * self.dx
 
     def shape(self, xi):
@@ -624,7 +624,8 @@ def _check_one(g, prefix, ctx):
 
 def check_realisations(key, v):
     """``realisations``: a positive whole number (that many seeds from ``seed`` on) or a list of
-    distinct seeds (whole numbers >= 0); at most :data:`MAX_REALISATIONS`.  Returns it cleaned."""
+    distinct seeds (whole numbers >= 0; it replaces ``seed``, the run itself flies the first);
+    at most :data:`MAX_REALISATIONS`.  Returns it cleaned."""
     if isinstance(v, list):
         if not v or len(v) > MAX_REALISATIONS:
             raise InputError(key, f"must be a list of 1 to {MAX_REALISATIONS} seeds, got {len(v)} entries")
