@@ -138,3 +138,13 @@ def test_vortex_model_on_a_short_record_within_its_scatter():
     psm = vx["turbulence"]["power_spectral_method"]
     assert abs(vx["n_rms"] - psm["sigma_n"]) < 3 * lin["n_rms_std"]
     assert abs(vx["N0"] - psm["N0"]) < 3 * lin["N0_std"]
+
+
+def test_turbulence_loads_picture_is_drawn_for_turbulence_only(tmp_path):
+    from unsteady.outputs.pictures import PICTURES, written_by_unsteady
+    draw = PICTURES["turbulence-loads.png"]
+    res = unsteady.simulate(_drone("run.model=linear", "run.duration=40", "gust.realisations=2"))
+    assert draw(res, tmp_path / "t.png") and written_by_unsteady(tmp_path / "t.png")
+    one = unsteady.simulate(unsteady.load_scenario(ROOT / "scenarios" / "drone-gust-1cos.toml",
+                                                   overrides=["run.model=linear"]))
+    assert draw(one, tmp_path / "o.png") is False and not (tmp_path / "o.png").exists()

@@ -27,7 +27,8 @@ from ..core.version import __version__
 
 __all__ = ["LOOK", "SERIES", "SPIN_MAP", "VORTEX_MAP", "SPEED_MAP", "GUST_MAP", "CAUTION", "PNG_MARK",
            "new_figure", "save_png", "fixed_margins", "house_style", "house_legend", "dress", "finish_figure",
-           "wrap_to_width", "written_by_unsteady", "run_warnings", "moves", "loop_abscissa",
+           "wrap_to_width", "written_by_unsteady", "run_warnings", "warning_notes", "run_title", "moves",
+           "loop_abscissa",
            "PICTURES", "picture", "write_run_plots", "pressure_instants"]
 
 # ---------------------------------------------------------------------------
@@ -268,13 +269,18 @@ def run_warnings(result):
     return [w for w in out if not (w in seen or seen.add(w))]
 
 
-def _warning_notes(result):
+def warning_notes(result):
+    """The run's warnings (:func:`run_warnings`) as picture notes in the warning colour."""
     return [(w, LOOK["warn"]) for w in run_warnings(result)]
 
 
-def _title(result, what):
+def run_title(result, what):
+    """A run picture's title: the scenario's title, then what the picture shows."""
     t = (result.scenario.title if result.scenario is not None else "") or "run"
     return f"{t}: {what}"
+
+
+_warning_notes, _title = warning_notes, run_title
 
 
 def _finish(fig, result, what, path, notes=(), **margins):
@@ -670,3 +676,6 @@ def plot_gust_loads(result, path):
     house_legend(ax2)
     return finish_figure(fig, path, _title(result, "gust loads"), _warning_notes(result), caution=GUST_CAUTION,
                          left=0.8, bottom=0.6, gap=0.18, rows=2)
+
+
+from . import pictures_loads  # noqa: E402,F401  (registers the load pictures, after the registry exists)
