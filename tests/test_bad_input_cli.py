@@ -279,7 +279,15 @@ CASES = [
          {"sweep": {**SWEEP, "envelope": {"across": "flow.density"}}}),
     Case("sweep-envelope-lines", "sweep.envelope.lines", "must be one of the swept keys",
          {"sweep": {**SWEEP, "envelope": {"lines": "airfoil.chord"}}}),
+    Case("sweep-name-format", "sweep.name", "does not apply", {"sweep": {**SWEEP, "name": "V{flow.speed:q}"}}),
     # --- [sweep]: its cases, as `unsteady check` sees them
+    Case("sweep-grid-bad-key-once", "sweep[all 2 cases].flow.sped", "did you mean 'speed'",
+         {"sweep": {"grid": {"flow.sped": [10.0, 12.0]}}}, command="check"),
+    Case("sweep-envelope-value-not-given", "sweep.envelope.value", "no case of this sweep gives",
+         {"sweep": {**SWEEP, "envelope": {"value": "n_max"}}}, command="check"),
+    Case("sweep-envelope-lines-is-across", "sweep.envelope.lines", "is the key across the picture too",
+         {"sweep": {"grid": {"flow.speed": [10.0, 12.0], "flow.density": [1.2, 1.1]},
+                    "envelope": {"across": "flow.speed", "lines": "flow.speed"}}}, command="check"),
     Case("sweep-case-invalid", "sweep[case-001].flow.speed", "must be >= 0.01",
          {"sweep": {"grid": {"flow.speed": [-3.0]}}}, command="check"),
     # --- --set on the command line

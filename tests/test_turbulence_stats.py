@@ -93,7 +93,7 @@ def test_long_linear_record_matches_the_power_spectral_method():
     s = unsteady.simulate(sc).summary
     b = s["turbulence"]
     psm, raw = b["power_spectral_method"], b["unfiltered"]
-    assert s["N0_cut_off_hz"] == pytest.approx(sc.speed / (2 * sc.chord)) == psm["cut_off_hz"]
+    assert s["N0_cut_off_Hz"] == pytest.approx(sc.speed / (2 * sc.chord)) == psm["cut_off_hz"]
     assert b["low_pass"] and raw["cut_off_hz"] == pytest.approx(0.5 / sc.dt)
     assert s["n_rms"] == pytest.approx(psm["sigma_n"], rel=0.05)
     assert s["N0"] == pytest.approx(psm["N0"], rel=0.15)

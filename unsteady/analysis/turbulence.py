@@ -228,7 +228,7 @@ def turbulence_summary(history, sc, more=()):
     """The summary block of a turbulence run with ``[aircraft]`` (empty dict otherwise).
 
     Keys: ``n_rms``, ``A_bar``, ``N0`` (Hz) at the top level (interface names; of n
-    low-passed at ``N0_cut_off_hz``, see the module docstring; with several
+    low-passed at ``N0_cut_off_Hz``, see the module docstring; with several
     realisations their mean), and a ``turbulence`` block with the exceedances, the
     record length, the start-up left out, the cut-off, the power-spectral method's
     figures with the same filter, the unfiltered figures beside the method to the
@@ -263,7 +263,7 @@ def turbulence_summary(history, sc, more=()):
                                             note="2-D section: N0 grows with the log of the cut-off "
                                                  "(here the record's Nyquist frequency)")
     block["unfiltered"] = unf
-    top = {"n_rms": st["n_rms"], "A_bar": st["A_bar"], "N0": st["N0"], "N0_cut_off_hz": st["cut_off_hz"]}
+    top = {"n_rms": st["n_rms"], "A_bar": st["A_bar"], "N0": st["N0"], "N0_cut_off_Hz": st["cut_off_hz"]}
     seeds = realisation_seeds_of(sc)
     if more:
         comb = combine_realisations([st] + list(more), seeds[:1 + len(more)])

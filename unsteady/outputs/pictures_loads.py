@@ -96,7 +96,7 @@ def plot_turbulence_loads(result, path):
     house_legend(ax2, loc="lower left")
 
     notes = [f"n_rms {s['n_rms']:.3g} (lift {s['n_rms'] * weight:.3g} N rms), A_bar {s['A_bar']:.3g} per m/s, "
-             f"N0 {s['N0']:.3g} Hz at a cut-off of {s.get('N0_cut_off_hz', block['cut_off_hz']):.3g} Hz; "
+             f"N0 {s['N0']:.3g} Hz at a cut-off of {s.get('N0_cut_off_Hz', block['cut_off_hz']):.3g} Hz; "
              f"the first {block['startup_discarded_s']:.3g} s (start-up) left out"
              + (f"; means over {reals['count']} realisations" if reals else "")]
     return finish_figure(fig, path, run_title(result, "load factor in continuous turbulence"),
