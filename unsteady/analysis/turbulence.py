@@ -31,7 +31,8 @@ frequency: a band above 800 Hz of rms 0.016 at dt/2), n_rms 0.2627 and 0.2631;
 low-passed at 30 Hz (two chords) N0 was 4.28 Hz at both steps, at 60 Hz 4.87 Hz
 at both (tools/bench_turbulence.py prints the comparison).
 The unfiltered figures, with the power-spectral method to the record's Nyquist
-frequency, are kept beside them (``unfiltered``).
+frequency (or the turbulence grid's, U / (2 dx), when lower), are kept beside
+them (``unfiltered``).
 
 Start-up: the aircraft starts trimmed, and the heave response settles with
 the heave subsidence time tau = 2 m' / (rho U c a) (a the lift slope); the
@@ -257,11 +258,16 @@ def turbulence_summary(history, sc, more=()):
     if psm is not None:
         block["power_spectral_method"] = dict(psm, cut_off_hz=st["cut_off_hz"])
     unf = {k: raw[k] for k in ("n_rms", "A_bar", "N0", "exceedances", "cut_off_hz")}
-    psm0 = power_spectral_method(sc, math.pi / dt)
+    # the record resolves frequencies up to its Nyquist frequency and the synthesised field up to
+    # its grid's, U / (2 dx) (inputs.gusts.Turbulence: dx = min(c/16, L/200)); the lower one bounds it
+    dx = min(sc.chord / 16.0, g["scale_length"] / 200.0)
+    f_top = min(0.5 / dt, 0.5 * sc.speed / dx)
+    psm0 = power_spectral_method(sc, 2.0 * math.pi * f_top)
     if psm0 is not None:
-        unf["power_spectral_method"] = dict(psm0, cut_off_hz=0.5 / dt,
-                                            note="2-D section: N0 grows with the log of the cut-off "
-                                                 "(here the record's Nyquist frequency)")
+        unf["power_spectral_method"] = dict(psm0, cut_off_hz=f_top,
+                                            note="2-D section: N0 grows with the log of the cut-off (here "
+                                                 "the lower of the record's Nyquist frequency and the "
+                                                 "turbulence grid's, U / (2 dx))")
     block["unfiltered"] = unf
     top = {"n_rms": st["n_rms"], "A_bar": st["A_bar"], "N0": st["N0"], "N0_cut_off_Hz": st["cut_off_hz"]}
     seeds = realisation_seeds_of(sc)
