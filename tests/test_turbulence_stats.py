@@ -141,7 +141,8 @@ def test_vortex_model_on_a_short_record_within_its_scatter():
 
 
 def test_turbulence_loads_picture_is_drawn_for_turbulence_only(tmp_path):
-    from unsteady.outputs.pictures import PICTURES, written_by_unsteady
+    from unsteady.outputs.gallery import PICTURES
+    from unsteady.outputs.pictures import written_by_unsteady
     draw = PICTURES["turbulence-loads.png"]
     res = unsteady.simulate(_drone("run.model=linear", "run.duration=40", "gust.realisations=2"))
     assert draw(res, tmp_path / "t.png") and written_by_unsteady(tmp_path / "t.png")

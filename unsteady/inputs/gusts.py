@@ -432,8 +432,8 @@ class Turbulence(GustProfile):
         if c:
             n, dx = cls.grid_points(spec, ctx)
             need = n * cls.BYTES_PER_POINT
-            from .scenario import available_memory
-            have = available_memory()
+            from . import checks
+            have = checks.available_memory()
             if n > cls.MAX_POINTS or (have and need > 0.25 * have):
                 raise InputError("scale_length", f"with the path of the run the turbulence pattern needs "
                                                  f"{n:.3g} points every {dx:.3g} m (about {need / 2**30:.3g} GiB; "

@@ -561,7 +561,8 @@ for _name, _fn in (("histories.png", plot_histories), ("lift-loop.png", plot_lif
 
 
 def write_run_plots(result, out_dir):
-    """Draw every registered picture of a run into ``out_dir`` (those that apply to it)."""
+    """Draw every registered picture of a run into ``out_dir`` (those that apply to it); callers
+    take it from :mod:`unsteady.outputs.gallery`, which loads every picture module first."""
     out_dir = Path(out_dir)
     if len(result.history.get("t", [])) == 0:
         return
@@ -676,6 +677,3 @@ def plot_gust_loads(result, path):
     house_legend(ax2)
     return finish_figure(fig, path, _title(result, "gust loads"), _warning_notes(result), caution=GUST_CAUTION,
                          left=0.8, bottom=0.6, gap=0.18, rows=2)
-
-
-from . import pictures_loads  # noqa: E402,F401  (registers the load pictures, after the registry exists)
