@@ -392,7 +392,7 @@ class FilmRenderer:
         right = 0.905 if field_mode else 0.975
         # a quiet banner of the run's warnings takes a strip above the flow panel
         self.flow_top = 0.855 if f.warnings else 0.895
-        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, self.flow_top - 0.365], facecolor=LOOK["paper"])
+        self.ax = fig.add_axes([0.075, 0.365, right - 0.075, self.flow_top - 0.365], facecolor=LOOK["paper"])
         self.ax_tr = fig.add_axes([0.075, 0.1, 0.9, 0.185], facecolor=LOOK["paper"])
         self._limits()
         self.animated = []
@@ -489,7 +489,7 @@ class FilmRenderer:
         return text
 
     def _banner(self):
-        """The run's warnings (:func:`unsteady.outputs.pictures.run_warnings`) in one quiet line."""
+        """The run's warnings (:func:`unsteady.outputs.notices.run_warnings`) in one quiet line."""
         f, fs = self.film, self.fs
         self.banner = None
         if not f.warnings:

@@ -24,6 +24,7 @@ from ..analysis.lag import ALPHA_EFF_LIMIT_DEG
 from ..core.cautions import GUST_CAUTION, PICTURE_CAUTION
 from ..core.files import atomic_path
 from ..core.version import __version__
+from .notices import run_warnings
 
 __all__ = ["LOOK", "SERIES", "SPIN_MAP", "VORTEX_MAP", "SPEED_MAP", "GUST_MAP", "CAUTION", "PNG_MARK",
            "new_figure", "save_png", "fixed_margins", "house_style", "house_legend", "dress", "finish_figure",
@@ -242,32 +243,6 @@ def moves(y, rel=1e-9):
     return y.size > 1 and float(np.ptp(y)) > rel * max(1.0, float(np.max(np.abs(y))))
 
 
-def _short(line):
-    """A scenario warning without its ``warning: <file>:`` prefix."""
-    parts = str(line).split(": ", 2)
-    return parts[2] if len(parts) == 3 and parts[0] == "warning" else str(line)
-
-
-def run_warnings(result):
-    """Where the model is out of its depth in this run, one line each, for pictures and films.
-
-    The attached-flow verdict (``lag.validity``, when not ok), the scenario's
-    warnings (``Scenario.warnings``, without the file prefix) and the
-    summary's ``warnings`` list; duplicates dropped.
-    """
-    s = result.summary or {}
-    out = []
-    val = (s.get("lag") or {}).get("validity") or {}
-    if isinstance(val, dict) and val.get("attached_flow_ok") is False:
-        out.append("outside the model's attached-flow range: " + "; ".join(val.get("reasons", [])))
-    sc = result.scenario
-    out += [_short(w) for w in (sc.warnings if sc is not None else ())]
-    extra = s.get("warnings") or []
-    out += [extra] if isinstance(extra, str) else [str(w) for w in extra]
-    seen = set()
-    return [w for w in out if not (w in seen or seen.add(w))]
-
-
 def _warning_notes(result):
     return [(w, LOOK["warn"]) for w in run_warnings(result)]
 
@@ -409,7 +384,7 @@ def plot_wake(result, path, k=-1):
     k = k % len(s["t"])
     a, b = int(s["offsets"][k]), int(s["offsets"][k + 1])
     x, z, g = s["x"][a:b], s["z"][a:b], s["gamma"][a:b]
-    c, pivot = float(sc.chord), float(sc.pivot)
+    c = float(sc.chord)
     xo, zo = _outline(result, s["alpha"][k], s["h"][k])
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c

@@ -15,6 +15,7 @@ from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SWEEP_CAUTION
 from ..core.errors import UsageError
 from ..core.files import write_text
 from ..core.version import __version__
+from .notices import run_warnings
 from ..theory import G
 
 __all__ = ["write_report", "folder_kind", "check_report_path", "run_page", "sweep_page",
@@ -684,18 +685,6 @@ def headline_html(summary, sc):
     return "\n".join(parts)
 
 
-def run_warnings(run):
-    """Every warning of a run: the scenario checks, the summary's, a run stopped early."""
-    s, sc = run.result.summary, run.result.scenario
-    out = list(sc.warnings) if sc is not None else []
-    extra = s.get("warnings") or []
-    out += [extra] if isinstance(extra, str) else [str(w) for w in extra]
-    if s.get("error"):
-        out.append(f"the run stopped early: {s['error']}")
-    seen = set()
-    return [w for w in out if not (w in seen or seen.add(w))]
-
-
 def validity_html(run):
     """The attached-flow verdict (``lag.validity``) and the list of warnings."""
     v = (run.result.summary.get("lag") or {}).get("validity")
@@ -710,7 +699,7 @@ def validity_html(run):
         box = (f"<div class=\"box bad\"><strong>Outside the model's attached-flow range:</strong> the "
                f"numbers describe a flow that a real section would not keep.<ul>{reasons}</ul>"
                f"Basis: {_e(v.get('basis', ''))}.</div>")
-    warns = run_warnings(run)
+    warns = run_warnings(run.result, verdict=False, short=False)
     listing = ("<ul>" + "".join(f"<li><code>{_e(w)}</code></li>" for w in warns) + "</ul>") if warns \
         else "<p>No warnings: the checks of the scenario found nothing out of the model's depth.</p>"
     return box + f"<h3>Warnings ({len(warns)})</h3>" + listing
