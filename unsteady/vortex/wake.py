@@ -64,16 +64,25 @@ class VortexStore:
         b = self.nb + self.m
         return self.x[:b], self.z[:b], self.g[:b]
 
-    def velocities(self, U, r_c, r_b, gust, t):
+    def velocities(self, U, r_c, r_b, gust, t, soft=(), r_soft=None):
         """Velocity (m/s) of the air at the wake vortices: wake, bound vortices, freestream, gust.
 
-        Returns views of the store's buffers.
+        The bound vortices act through the core ``r_b``, on the vortices of
+        the sites in ``soft`` through ``r_c``.  Returns views of the store's
+        buffers.
         """
         m, nb = self.m, self.nb
         wx, wz, wg = self.wake()
         u, w = self.vel_u[:m], self.vel_w[:m]
         induced_velocity(wx, wz, wx, wz, wg, r_c, u, w)
         induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
+        if soft:
+            idx = self.of_sites(soft)
+            if idx.size:
+                su, sw = np.empty(idx.size), np.empty(idx.size)
+                induced_velocity(wx[idx], wz[idx], self.x[:nb], self.z[:nb], self.g[:nb], r_soft, su, sw)
+                self.bu[idx] = su
+                self.bw[idx] = sw
         u += self.bu[:m] + U
         w += self.bw[:m]
         if gust is not None:
@@ -81,6 +90,10 @@ class VortexStore:
             u += gu
             w += gw
         return u, w
+
+    def of_sites(self, sites):
+        """Wake indices of the vortices shed by any of ``sites``."""
+        return np.flatnonzero(np.isin(self.site[:self.m], sites))
 
     def frozen_velocities(self, U):
         """The wake moving with the freestream U (m/s): views of the store's buffers."""
