@@ -29,6 +29,8 @@ TABLE = [
     ("lag.loop_area", "loop_area", "{:.4g}"),
     ("lag.peak_effective_alpha_deg", "alpha_eff_pk", "{:.2f}"),
     ("lag.validity.attached_flow_ok", "attached", "{}"),
+    ("lesp_max", "lesp_max", "{:.3f}"),
+    ("lev_onset_t", "lev_onset", "{:.4g}"),
 ]
 
 #: File name of the picture when --out names a folder (or is not given).
@@ -203,6 +205,9 @@ def main(args):
         print(table_text(runs))
         print(f"picture: {out}")
         print(f"note: {MODEL_CAUTION}")
+        if any(s.get("lev_onset_t") is not None for _l, _h, s in runs):
+            from ..core.cautions import SHEDDING_CAUTION
+            print(f"note: runs that shed from the leading edge: {SHEDDING_CAUTION}")
         if any("n" in h for _l, h, _s in runs):
             from ..core.cautions import GUST_CAUTION
             print(f"caution: {GUST_CAUTION}")
