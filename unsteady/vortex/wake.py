@@ -34,6 +34,8 @@ class VortexStore:
         self.z = np.zeros(nb + capacity)
         self.g = np.zeros(nb + capacity)
         self.site = np.zeros(capacity, dtype=np.int64)
+        self.born = np.zeros(capacity, dtype=np.int64)      # step at which each was shed
+        self.clock = -1                                     # steps so far (set_bound counts them)
         self.vel_u, self.vel_w = np.zeros(capacity), np.zeros(capacity)
         self.prev_u, self.prev_w = np.zeros(capacity), np.zeros(capacity)
         self.bu, self.bw = np.zeros(capacity), np.zeros(capacity)
@@ -45,12 +47,14 @@ class VortexStore:
         self.z[:nb] = z
         self.g[:nb] = gamma
         self.new = 0
+        self.clock += 1
 
     def shed(self, x, z, gamma, site):
         """Append one new wake vortex."""
         i = self.nb + self.m
         self.x[i], self.z[i], self.g[i] = x, z, gamma
         self.site[self.m] = site
+        self.born[self.m] = self.clock
         self.m += 1
         self.new += 1
 
@@ -64,11 +68,11 @@ class VortexStore:
         b = self.nb + self.m
         return self.x[:b], self.z[:b], self.g[:b]
 
-    def velocities(self, U, r_c, r_b, gust, t, soft=(), r_soft=None):
+    def velocities(self, U, r_c, r_b, gust, t, soft=None, r_soft=None):
         """Velocity (m/s) of the air at the wake vortices: wake, bound vortices, freestream, gust.
 
-        The bound vortices act through the core ``r_b``, on the vortices of
-        the sites in ``soft`` through ``r_c``.  Returns views of the store's
+        The bound vortices act through the core ``r_b``, on the wake vortices
+        ``soft`` (indices) through ``r_soft``.  Returns views of the store's
         buffers.
         """
         m, nb = self.m, self.nb
@@ -76,8 +80,8 @@ class VortexStore:
         u, w = self.vel_u[:m], self.vel_w[:m]
         induced_velocity(wx, wz, wx, wz, wg, r_c, u, w)
         induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
-        if soft:
-            idx = self.of_sites(soft)
+        if soft is not None:
+            idx = soft
             if idx.size:
                 su, sw = np.empty(idx.size), np.empty(idx.size)
                 induced_velocity(wx[idx], wz[idx], self.x[:nb], self.z[:nb], self.g[:nb], r_soft, su, sw)
@@ -91,9 +95,14 @@ class VortexStore:
             w += gw
         return u, w
 
-    def of_sites(self, sites):
-        """Wake indices of the vortices shed by any of ``sites``."""
-        return np.flatnonzero(np.isin(self.site[:self.m], sites))
+    def of_sites(self, sites, older_sites=(), before=None):
+        """Wake indices of the vortices shed by any of ``sites``, and by any of ``older_sites``
+        before step ``before``."""
+        site = self.site[:self.m]
+        mask = np.isin(site, sites)
+        if older_sites and before is not None:
+            mask |= np.isin(site, older_sites) & (self.born[:self.m] < before)
+        return np.flatnonzero(mask)
 
     def frozen_velocities(self, U):
         """The wake moving with the freestream U (m/s): views of the store's buffers."""
@@ -144,7 +153,7 @@ class VortexStore:
         gone = ~keep
         wx, wz, wg = self.wake()
         out = (wx[gone], wz[gone], wg[gone])
-        for arr in (wx, wz, wg, self.site[:m], self.prev_u[:m], self.prev_w[:m]):
+        for arr in (wx, wz, wg, self.site[:m], self.born[:m], self.prev_u[:m], self.prev_w[:m]):
             arr[:keep.sum()] = arr[keep]
         self.m = int(keep.sum())
         return out
@@ -157,6 +166,8 @@ class FarWake:
         self.n = 0
         self.x, self.z, self.g = np.zeros(capacity), np.zeros(capacity), np.zeros(capacity)
         self.site = np.zeros(capacity, dtype=np.int64)
+        self.born = np.zeros(capacity, dtype=np.int64)      # step at which each was shed
+        self.clock = -1                                     # steps so far (set_bound counts them)
 
     def views(self):
         """Views ``(x, z, gamma)`` of the lumps."""
