@@ -136,7 +136,11 @@ def plot_compare(runs, path, title=""):
     if what != "pitch":
         notes.insert(0, f"the pitch is held: the loops are drawn against the {what}")
     left, right, gap_w = 0.9, 0.25, 0.9
-    dress(fig, title or "comparison of runs", notes, caution=GUST_CAUTION if has_n else PICTURE_CAUTION,
+    caution = PICTURE_CAUTION
+    if any(s.get("lev_onset_t") is not None for _l, _h, s in runs):
+        from ..core.cautions import PICTURE_SHEDDING_CAUTION
+        caution = PICTURE_CAUTION + " " + PICTURE_SHEDDING_CAUTION
+    dress(fig, title or "comparison of runs", notes, caution=GUST_CAUTION if has_n else caution,
           left=left, right=right, bottom=0.75 if "\n" in xlabel else 0.6, gap=0.2, rows=len(rows), cols=2)
     # the loop panel keeps a wider gap from the time panels than the rows from each other
     fig.subplots_adjust(wspace=gap_w / ((fig.get_size_inches()[0] - left - right - gap_w) / 2))

@@ -323,6 +323,8 @@ class VortexSolver:
             site.bind(self, i)
         self._phi_le = _LeadingEdgeJump(self.sites)
         self._le_sites = tuple(i for i, site in enumerate(self.sites) if site.leading_edge)
+        self._soft_cache = (None, None)      # (clock, wake size) -> soft indices
+        self._nodes = None                    # the first body's camber-line nodes (xi, zeta), m
         #: core (m) through which soft-site vortices and the bodies meet (see _soften)
         self.r_soft = max(self.r_c, SOFT_CORE_ELEMENTS * self.body.chord / self.models[0].n)
         #: sites whose vortices meet the bodies through the wake's core (see _soften)
@@ -350,9 +352,11 @@ class VortexSolver:
         """Stage 2: freestream, gust, wake and far-wake lumps at the placed points."""
         tu, tw = self._tu, self._tw
         if self.store.m > 0:
-            induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw)
-            if self.soft_sites:
-                self._soften(s.tx, s.tz, tu, tw)
+            soft = self._soft_indices() if self.soft_sites else None
+            if soft is None or soft.size == 0:
+                induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw)
+            else:
+                self._soften(s.tx, s.tz, tu, tw, soft)
         else:
             tu[:] = 0.0
             tw[:] = 0.0
@@ -388,15 +392,21 @@ class VortexSolver:
         trailing-edge vortices keep the small core, which the Kutta condition
         needs; before the onset nothing changes, to the bit.
         """
+        key = (self.store.clock, self.store.m)
+        if self._soft_cache[0] == key:
+            return self._soft_cache[1]
         shed = any(getattr(site, "onset", None) is not None for site in self.sites if site.soft_core)
         if not shed:
-            return self.store.of_sites(self.soft_sites)
-        others = tuple(i for i in range(len(self.sites)) if i not in self.soft_sites)
-        age = max(2, int(math.ceil(self.r_soft / (self.U * self.dt))))
-        return self.store.of_sites(self.soft_sites, others, self.store.clock - age)
+            idx = self.store.of_sites(self.soft_sites)
+        else:
+            others = tuple(i for i in range(len(self.sites)) if i not in self.soft_sites)
+            age = max(2, int(math.ceil(self.r_soft / (self.U * self.dt))))
+            idx = self.store.of_sites(self.soft_sites, others, self.store.clock - age)
+        self._soft_cache = (key, idx)
+        return idx
 
-    def _soften(self, xt, zt, u, w):
-        """Give the vortices of soft-core sites the wake's core ``r_c`` at body points (in place).
+    def _soften(self, xt, zt, u, w, idx):
+        """The wake's velocity at body points (in place): soft vortices ``idx`` through ``r_soft``, the rest through ``r_b``.
 
         The wake acts on the bodies through the small core ``r_b``; a vortex
         that travels along the surface (a leading-edge vortex) acts through
@@ -411,18 +421,14 @@ class VortexSolver:
         (tests/validation/test_leading_edge.py).  The bound vortices carry
         soft-site vortices with the same core (``VortexStore.velocities``).
         """
-        idx = self._soft_indices()
-        if idx.size == 0:
-            return
         wx, wz, wg = self.store.wake()
-        xs, zs, gs = wx[idx], wz[idx], wg[idx]
+        hard = np.ones(wx.size, bool)
+        hard[idx] = False
+        induced_velocity(xt, zt, wx[hard], wz[hard], wg[hard], self.r_b, u, w)
         du, dw = np.empty_like(xt), np.empty_like(xt)
-        induced_velocity(xt, zt, xs, zs, gs, self.r_soft, du, dw)
+        induced_velocity(xt, zt, wx[idx], wz[idx], wg[idx], self.r_soft, du, dw)
         u += du
         w += dw
-        induced_velocity(xt, zt, xs, zs, gs, self.r_b, du, dw)
-        u -= du
-        w -= dw
 
     def _shed(self, s):
         """Stage 3: each shedding site proposes its vortex and border column."""
@@ -526,8 +532,13 @@ class VortexSolver:
         if idx.size == 0:
             return None
         wx, wz, _ = self.store.wake()
-        xi, dz = self._camber_frame(wx[idx], wz[idx], s.alpha, s.h)
-        return idx, np.sign(dz)
+        # only those within a chord of the pitch axis can reach the camber line in one step
+        reach = abs(self.body.xi_0[0]) + abs(self.body.xi_te) + self.body.chord
+        near = idx[np.abs(wx[idx]) + np.abs(wz[idx] - s.h) < reach]
+        if near.size == 0:
+            return None
+        xi, dz = self._camber_frame(wx[near], wz[near], s.alpha, s.h)
+        return near, np.sign(dz)
 
     def _keep_sides(self, s, idx, side):
         """Mirror back the soft vortices (:meth:`_soft_indices`) that crossed the camber line in this step.
@@ -561,9 +572,9 @@ class VortexSolver:
         dx, dzz = x, z - h
         xi = dx * ca - dzz * sa
         zeta = dx * sa + dzz * ca
-        nodes_xi = np.append(b.xi_0, b.xi_te)
-        nodes_zeta = np.append(b.zeta_0, b.zeta_te)
-        return xi, zeta - np.interp(xi, nodes_xi, nodes_zeta)
+        if self._nodes is None:
+            self._nodes = (np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te))
+        return xi, zeta - np.interp(xi, *self._nodes)
 
     def _far_wake(self, s):
         """Stage 8: lumps drift at U; each site's oldest chord of wake beyond far_wake merges."""

@@ -79,14 +79,17 @@ class VortexStore:
         wx, wz, wg = self.wake()
         u, w = self.vel_u[:m], self.vel_w[:m]
         induced_velocity(wx, wz, wx, wz, wg, r_c, u, w)
-        induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
-        if soft is not None:
-            idx = soft
-            if idx.size:
-                su, sw = np.empty(idx.size), np.empty(idx.size)
-                induced_velocity(wx[idx], wz[idx], self.x[:nb], self.z[:nb], self.g[:nb], r_soft, su, sw)
-                self.bu[idx] = su
-                self.bw[idx] = sw
+        if soft is None or soft.size == 0:
+            induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
+        else:
+            hard = np.ones(m, bool)
+            hard[soft] = False
+            for sel, r in ((hard, r_b), (soft, r_soft)):
+                xt, zt = wx[sel], wz[sel]
+                su, sw = np.empty(xt.size), np.empty(xt.size)
+                induced_velocity(xt, zt, self.x[:nb], self.z[:nb], self.g[:nb], r, su, sw)
+                self.bu[:m][sel] = su
+                self.bw[:m][sel] = sw
         u += self.bu[:m] + U
         w += self.bw[:m]
         if gust is not None:
@@ -99,9 +102,13 @@ class VortexStore:
         """Wake indices of the vortices shed by any of ``sites``, and by any of ``older_sites``
         before step ``before``."""
         site = self.site[:self.m]
-        mask = np.isin(site, sites)
+        mask = np.zeros(site.shape, bool)
+        for k in sites:
+            mask |= site == k
         if older_sites and before is not None:
-            mask |= np.isin(site, older_sites) & (self.born[:self.m] < before)
+            old = self.born[:self.m] < before
+            for k in older_sites:
+                mask |= (site == k) & old
         return np.flatnonzero(mask)
 
     def frozen_velocities(self, U):
