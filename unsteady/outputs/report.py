@@ -11,7 +11,7 @@ import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SWEEP_CAUTION
+from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SHEDDING_CAUTION, SWEEP_CAUTION
 from ..core.errors import UsageError
 from ..core.files import write_text
 from ..core.version import __version__
@@ -768,7 +768,8 @@ def run_page(folder, *, film=True, progress=False, say=None):
                  + "".join(f"<li>{_e(n)}</li>" for n in run.notes) + "</ul></div>")
     words = "<ul>" + "".join(f"<li>{_u(w)}</li>" for w in scenario_words(sc)) + "</ul>" if sc is not None \
         else "<p>The scenario cannot be described (see the notes above).</p>"
-    cautions = [MODEL_CAUTION] + ([GUST_CAUTION] if "n_max" in s else [])
+    cautions = ([SHEDDING_CAUTION] if s.get("lev_onset_t") is not None else [MODEL_CAUTION]) \
+        + ([GUST_CAUTION] if "n_max" in s else [])
     parts = [("scenario", "What was run", words),
              ("numbers", "Headline numbers", headline_html(s, sc) + _cautions(*cautions)),
              ("validity", "Validity and warnings", validity_html(run)),
