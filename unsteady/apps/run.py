@@ -44,6 +44,10 @@ def main(args):
               f"cl {s.get('cl_min', float('nan')):.4f} .. {s.get('cl_max', float('nan')):.4f} "
               f"(max at t = {s.get('t_cl_max', float('nan')):.4g} s)"
               + (f"; load factor {s['n_min']:.3f} .. {s['n_max']:.3f}" if "n_max" in s else ""))
+        if s.get("lev_onset_t") is not None:
+            from ..core.cautions import SHEDDING_CAUTION
+            print(f"leading edge sheds from t = {s['lev_onset_t']:.4g} s (lesp_critical = "
+                  f"{s['lesp_critical']:g}); caution: {SHEDDING_CAUTION}")
         if "lift_max_N" in s:
             print(f"loads: lift up to {s['lift_max_N']:.4g} N"
                   + (f", root bending of a half-wing up to {s['root_bending_max_Nm']:.4g} N m (elliptic "
