@@ -147,7 +147,8 @@ ALWAYS_NUMBERS = ("steps", "cl_max", "t_cl_max", "cl_min", "t_cl_min", "cm_max",
                   "cl_final", "dt", "elements", "far_wake_chords", "chords_travelled", "peaks_from_s",
                   "peak_pitch_rate", "peak_effective_alpha_deg", "t50", "t90", "t50_qs", "t90_qs",
                   "delay90", "delay90_chords", "t_begin", "amplitude_ratio", "phase_lag_deg", "loop_area",
-                  "periods_used", "lev_onset_t", "warnings_count")
+                  "periods_used", "lesp_max", "t_lesp_max", "warnings_count")
+LEV_NUMBERS = ("lev_onset_t", "gamma_lev_final", "lesp_critical")
 GUST_NUMBERS = ("w_gust_max", "w_gust_min", "u_gust_max", "u_gust_min", "alpha_eff_max_deg")
 AIRCRAFT_NUMBERS = ("n_max", "t_n_max", "n_min", "t_n_min", "alpha_trim_deg", "cl_level", "wing_loading_N_m2",
                     "mass_ratio_mu_g", "lift_slope_per_rad", "dn_max", "dn_min", "lift_max_N")
@@ -162,6 +163,8 @@ def possible_numbers(case_sc):
     from .gusts import gust_list
     d = case_sc.data
     out = list(ALWAYS_NUMBERS)
+    if d.get("airfoil", {}).get("lesp_critical") is not None:
+        out += LEV_NUMBERS
     gusts = gust_list(d.get("gust"))
     if gusts:
         out += GUST_NUMBERS
