@@ -25,7 +25,7 @@ from .checks import (_SECTIONS, Problem, ScenarioError, _is_number, choice, inte
 
 def _load_plugins():
     # Importing these modules registers their sections.
-    from . import aircraft, gusts, sweep  # noqa: F401
+    from . import aircraft, ground, gusts, sweep  # noqa: F401
 
 
 CORE_SECTIONS = ("title", "flow", "airfoil", "motion", "run", "output")
@@ -35,6 +35,14 @@ RUN_MODELS = ("vortex", "linear")   # [run] model; unsteady.simulation.models re
 STEPS_PER_PERIOD = 120
 #: Steps across a ramp's smoothing time (see :func:`default_dt`).
 STEPS_PER_SMOOTHING = 32
+
+#: A flap hinge (fraction of chord) must lie strictly inside this range.
+FLAP_HINGE_RANGE = (0.05, 0.95)
+#: Largest flap deflection (deg) accepted, and the one beyond which check warns
+#: (a plain flap's flow separates from its upper side beyond about 15-20 degrees
+#: at the Reynolds numbers of small aircraft: common practice).
+FLAP_MAX_DEG = 60.0
+FLAP_WARN_DEG = 20.0
 
 #: Allowed ranges of the flight condition and the section (physically meaningful
 #: for a low-speed, incompressible section model of a small aircraft or rig).
@@ -164,6 +172,17 @@ class Scenario:
     def section(self):
         from .sections import section_from_shape
         return section_from_shape(self.data["airfoil"]["shape"], self.base_dir)
+
+    @cached_property
+    def flap_law(self):
+        """beta(t) (rad, trailing edge down) of ``[motion] flap``; a zero law with only
+        ``[airfoil] flap_hinge``; None without a flap."""
+        if "flap_hinge" not in self.data["airfoil"]:
+            return None
+        from .motion import build_law
+        spec = self.data["motion"].get("flap", {"law": "constant", "value": 0.0})
+        return build_law(spec, scale=math.pi / 180.0, speed=self.speed, chord=self.chord,
+                         base_dir=self.base_dir)
 
     @cached_property
     def kinematics(self):
@@ -350,6 +369,12 @@ def resolve(raw, base_dir, stem="scenario"):
     allowed = set(CORE_SECTIONS) | set(_SECTIONS)
     errors += unknown_keys(raw, allowed, "")
     not_tables = []
+    if isinstance(raw.get("airfoil"), list):
+        errors.append(InputError("airfoil", "several elements ([[airfoil]], a list) are not supported by this "
+                                            "version: give one [airfoil] table"))
+        raw = {**raw, "airfoil": raw["airfoil"][0] if raw["airfoil"] and isinstance(raw["airfoil"][0], dict)
+               else {}}
+        not_tables.append("airfoil")
     for sec in ("flow", "airfoil", "motion", "run", "output"):
         if sec in raw and not isinstance(raw[sec], dict):
             errors.append(InputError(sec, "must be a table ([" + sec + "])"))
@@ -389,7 +414,7 @@ def resolve(raw, base_dir, stem="scenario"):
         errors.append(InputError("airfoil.panels", "was renamed: write airfoil.elements (vortex elements on "
                                                    "the camber line, 4 to 1000)"))
         af = {k: v for k, v in af.items() if k != "panels"}
-    errors += unknown_keys(af, {"shape", "chord", "elements"}, "airfoil.")
+    errors += unknown_keys(af, {"shape", "chord", "elements", "flap_hinge"}, "airfoil.")
     airfoil = {"shape": af.get("shape", "flat")}
     if "chord" not in af:
         errors.append(InputError("airfoil.chord", "is required (m, > 0)"))
@@ -402,6 +427,9 @@ def resolve(raw, base_dir, stem="scenario"):
             section_from_shape(airfoil["shape"], base_dir)
         except InputError as e:
             errors.append(InputError("airfoil.shape", e.message))
+    if "flap_hinge" in af:
+        airfoil["flap_hinge"] = grab(number, "airfoil.flap_hinge", af["flap_hinge"], gt=FLAP_HINGE_RANGE[0],
+                                     lt=FLAP_HINGE_RANGE[1], unit="(fraction of chord aft of the leading edge)")
     out["airfoil"] = airfoil
 
     speed = flow.get("speed")
@@ -410,11 +438,11 @@ def resolve(raw, base_dir, stem="scenario"):
 
     # [motion]
     mo = raw.get("motion", {})
-    errors += unknown_keys(mo, {"pivot", "pitch", "plunge"}, "motion.")
+    errors += unknown_keys(mo, {"pivot", "pitch", "plunge", "flap"}, "motion.")
     motion = {"pivot": grab(number, "motion.pivot", mo.get("pivot", 0.25), ge=-0.5, le=1.5,
                             unit="(fraction of chord aft of the leading edge)")}
     from .motion import law_problems
-    for q in ("pitch", "plunge"):
+    for q in ("pitch", "plunge", "flap"):
         if q in mo:
             spec = mo[q]
             if not isinstance(spec, (dict, list)):
@@ -424,6 +452,10 @@ def resolve(raw, base_dir, stem="scenario"):
                 k = e.key if e.key.startswith("[") else "." + e.key
                 errors.append(InputError(f"motion.{q}{k}", e.message))
             motion[q] = spec
+    if "flap" in motion and "flap_hinge" not in af:
+        errors.append(InputError("motion.flap", "needs a flap: give airfoil.flap_hinge (fraction of chord, "
+                                                f"{FLAP_HINGE_RANGE[0]:g} to {FLAP_HINGE_RANGE[1]:g}) or remove "
+                                                "motion.flap"))
     out["motion"] = motion
 
     # [run]
@@ -445,9 +477,9 @@ def resolve(raw, base_dir, stem="scenario"):
     if "dt" in ru:
         run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
     elif speed and chord and elements:
-        f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge"))
-        sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge")) if x > 0.0),
-                    default=0.0)
+        f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge", "flap"))
+        sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge", "flap"))
+                     if x > 0.0), default=0.0)
         run["dt"] = default_dt(chord, speed, elements, f_max, sigma)
     run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
     run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
@@ -496,6 +528,9 @@ def resolve(raw, base_dir, stem="scenario"):
             value, errs = checker(raw[name], ctx)
             errors += errs
             out[name] = value
+    if not errors and "flap_hinge" in out["airfoil"]:
+        from .flap import flap_problems
+        errors += flap_problems(out, base_dir, ctx["_warnings"])
     if ctx["_warnings"]:
         out["_warnings"] = ctx["_warnings"]
     return out, one_per_problem(errors, not_tables)

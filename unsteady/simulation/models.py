@@ -11,6 +11,8 @@ from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.solver import SolverDiverged, StepState, VortexSolver, build_body
+from ..vortex.flap import build_flap_body, hinge_nodes
+from ..vortex.ground import Ground
 from .observers import Rows
 
 __all__ = ["Model", "MODELS", "register_model", "get", "VortexModel", "LinearModel",
@@ -249,7 +251,13 @@ class VortexModel(Model):
 
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
-        self.body = build_body(sc)
+        self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
+        gr = sc.data.get("ground")
+        # the ground sits [ground] height below the pitch axis's height at t = 0
+        self.ground = (None if not gr else
+                       Ground(float(sc.kinematics.plunge.value(0.0)) - gr["height"]))
+        self.COLUMNS = (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
+            ("ground_clearance_m",) if self.ground is not None else ())
         self._pressure = None
 
     def steady_cl(self, alpha, alpha_dot):
@@ -259,7 +267,8 @@ class VortexModel(Model):
         obs = _LastCl()
         gust = self.gust if self.gust is not None and self.gust.present_at_start else None
         VortexSolver(self.body, _Fixed(alpha, alpha_dot), speed=sc.speed, density=sc.density,
-                     dt=sc.dt, steps=0, start="steady", gust=gust).run([obs])
+                     dt=sc.dt, steps=0, start="steady", gust=gust,
+                     ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([obs])
         return obs.cl
 
     def _march(self, observers):
@@ -268,18 +277,26 @@ class VortexModel(Model):
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
                               shed_offset=run.get("shed_offset", 0.3),
-                              core_radius=run.get("core_radius"), far_wake=run.get("far_wake"))
+                              core_radius=run.get("core_radius"), far_wake=run.get("far_wake"),
+                              ground=self.ground)
         solver.run([_Relay([self._pressure] + list(observers))])
 
     def summary(self):
         run = self.sc.data["run"]
-        return {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
-                "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+        out = {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
+               "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+        if self.ground is not None:
+            out["impulse_loads"] = ("not computed near the ground: the ground carries a share of the "
+                                    "vortices' impulse")
+        return out
 
     def snapshot_extras(self):
         """``dcp`` (per step and element) and ``x_dcp`` (element mid-points, chord fractions)."""
         p = self._pressure
-        x = camber_elements(self.sc.section, self.sc.elements).x_nodes
+        if self.sc.flap_law is None:
+            x = camber_elements(self.sc.section, self.sc.elements).x_nodes
+        else:                                   # the nodes with one on the hinge
+            x = hinge_nodes(self.sc.elements, self.sc.data["airfoil"]["flap_hinge"])[0]
         dcp = p.dcp[:p.count] if p is not None else np.zeros((0, self.sc.elements), np.float32)
         return {"dcp": dcp, "x_dcp": x[:-1] + 0.5 * np.diff(x)}
 

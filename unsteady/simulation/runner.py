@@ -83,7 +83,7 @@ def simulate(scenario, observers=(), *, progress=False):
     if heave is not None:
         heave.trim(model.steady_cl)
     builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
-    columns = list(cls.COLUMNS)
+    columns = list(model.COLUMNS)
     for o in builtin:
         columns += [k for k in o.columns if k not in columns]
     rec = HistoryRecorder(sc.steps, sc.speed, sc.chord, columns)

@@ -64,16 +64,18 @@ class VortexStore:
         b = self.nb + self.m
         return self.x[:b], self.z[:b], self.g[:b]
 
-    def velocities(self, U, r_c, r_b, gust, t):
+    def velocities(self, U, r_c, r_b, gust, t, ground=None):
         """Velocity (m/s) of the air at the wake vortices: wake, bound vortices, freestream, gust.
 
+        ``ground``: height (m) of a flat ground whose images the sums include.
         Returns views of the store's buffers.
         """
         m, nb = self.m, self.nb
         wx, wz, wg = self.wake()
         u, w = self.vel_u[:m], self.vel_w[:m]
-        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w)
-        induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
+        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground=ground)
+        induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m],
+                         ground=ground)
         u += self.bu[:m] + U
         w += self.bw[:m]
         if gust is not None:
