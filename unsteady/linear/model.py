@@ -225,7 +225,8 @@ def leading_edge_a0(cl_c, alpha_dot, *, speed, chord):
 
 
 def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord, pivot,
-                 alpha_L0=0.0, cm0=0.0, w_le=None, u_le=None, start="steady", gust_start=None):
+                 alpha_L0=0.0, cm0=0.0, w_le=None, u_le=None, start="steady", gust_start=None,
+                 flap=None):
     """Lift, drag and moment histories of the linear model from plain arrays.
 
     Parameters
@@ -250,12 +251,18 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
     start : {"steady", "impulsive"}
     gust_start : {"steady", "impulsive"}, optional
         How the gust input began (default ``start``): see :func:`gust_start`.
+    flap : tuple, optional
+        ``(hinge, beta, beta_dot, beta_ddot, ch0)``: a plain flap hinged at
+        chord fraction ``hinge``, its deflection (rad, trailing edge down)
+        with exact rate and acceleration, and the camber's own hinge moment
+        ``ch0`` (:func:`unsteady.theory.flap.camber_hinge_moment`).  See
+        :func:`flap_loads`.
 
     Returns
     -------
     dict of numpy.ndarray
         cl, cd, cm (quarter chord), cm_pivot, cl_c (circulatory, motion),
-        cl_nc, cl_gust, q34 (rad), a0.
+        cl_nc, cl_gust, q34 (rad), a0; with a flap also ch.
     """
     t = np.asarray(t, dtype=float)
     U, c = float(speed), float(chord)
@@ -263,8 +270,16 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
     alpha = np.asarray(alpha, dtype=float)
     q34 = three_quarter_downwash(alpha, alpha_dot, h_dot, speed=U, chord=c, pivot=pivot,
                                  alpha_L0=alpha_L0)
+    if flap is not None:
+        fl = flap_terms(flap, alpha_dot, alpha_ddot, h_ddot, speed=U, chord=c, pivot=pivot)
+        q34 = q34 + fl["q"]
     out = motion_loads(q34, alpha_dot, alpha_ddot, h_ddot, speed=U, chord=c, pivot=pivot,
                        ds=ds, start=start)
+    if flap is not None:
+        out["cl_nc"] = out["cl_nc"] + fl["cl_nc"]
+        out["cl"] = out["cl"] + fl["cl_nc"]
+        out["cm_pivot"] = out["cm_pivot"] + 0.5 * fl["M_nc"]
+        out["cm"] = out["cm_pivot"] + out["cl"] * (0.25 - float(pivot))
     cl_gust = np.zeros_like(t)
     if w_le is not None:
         cl_gust = gust_lift(w_le, speed=U, ds=ds, start=gust_start or start)
@@ -275,12 +290,46 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
     cm_pivot = out["cm_pivot"] + cl_gust * (float(pivot) - 0.25) + cm0
     cm = out["cm"] + cm0
     a0 = leading_edge_a0(cl_c_total, alpha_dot, speed=U, chord=c)
+    extra = {}
+    if flap is not None:
+        # hinge moment: apparent mass + T12 on the lagged downwash (C(k) Q <-> cl_c / 2 pi; the
+        # gust's lagged lift taken with the same flat-plate factor, its quasi-steady limit)
+        extra["ch"] = (fl["Mh_nc"] + fl["mh_c"] * cl_c_total / (2.0 * np.pi)) * fl["to_ch"] + flap[4]
     # Normal force tilted back by the pitch, less the leading-edge suction
     # 2 pi A0^2 (thin-airfoil theory: zero drag in steady flow); the camber
-    # counts as a shift of the angle by alpha_L0.
-    cd = cl * (alpha - alpha_L0) - 2.0 * np.pi * a0**2
+    # counts as a shift of the angle by alpha_L0, and so does a flap's steady
+    # share, by -T10 beta / pi (its term of Theodorsen's downwash).
+    shift = alpha_L0 if flap is None else alpha_L0 - fl["T10"] * np.asarray(flap[1], dtype=float) / np.pi
+    cd = cl * (alpha - shift) - 2.0 * np.pi * a0**2
     return {"cl": cl, "cd": cd, "cm": cm, "cm_pivot": cm_pivot, "cl_c": out["cl_c"],
-            "cl_nc": out["cl_nc"], "cl_gust": cl_gust, "q34": q34, "a0": a0}
+            "cl_nc": out["cl_nc"], "cl_gust": cl_gust, "q34": q34, "a0": a0, **extra}
+
+
+def flap_terms(flap, alpha_dot, alpha_ddot, h_ddot, *, speed, chord, pivot):
+    """The flap's terms of Theodorsen's theory on sampled arrays (see :func:`unsteady.theory.flap.flap_nc_terms`).
+
+    T. Theodorsen, NACA Report 496 (1935): the flap adds T10 beta/pi + b T11
+    beta'/(2 pi U) to the 3/4-chord downwash Q (so the Wagner sum lags it
+    like the pitch), apparent-mass lift and moment, and the hinge moment
+    M_beta (apparent mass plus -T12 times the lagged downwash).
+
+    Returns a dict: ``q`` (rad), ``cl_nc``, ``M_nc`` (2 cm_nc about the pivot),
+    ``Mh_nc``, ``mh_c`` (hinge moment / (rho U^2 b^2) and the factor of the
+    lagged downwash), ``to_ch`` (from M / (rho U^2 b^2) to ch = M / (q c_f^2)),
+    ``T10``.
+    """
+    from ..theory.flap import flap_nc_terms, hinge_e
+    hinge, beta, beta_dot, beta_ddot = flap[:4]
+    U, b = float(speed), 0.5 * float(chord)
+    a = 2.0 * float(pivot) - 1.0
+    e = hinge_e(hinge)
+    arr = (lambda v: np.asarray(v, dtype=float))
+    q, cl_nc, M_nc, Mh_nc, mh_c = flap_nc_terms(
+        e, a, arr(beta), b * arr(beta_dot) / U, b * b * arr(beta_ddot) / U ** 2,
+        alpha_dot=b * arr(alpha_dot) / U, alpha_ddot=b * b * arr(alpha_ddot) / U ** 2,
+        hT_ddot=-b * arr(h_ddot) / U ** 2)
+    return {"q": q, "cl_nc": cl_nc, "M_nc": M_nc, "Mh_nc": Mh_nc, "mh_c": mh_c,
+            "to_ch": 1.0 / (0.5 * (1.0 - e) ** 2), "T10": math.sqrt(1.0 - e * e) + math.acos(e)}
 
 
 def section_constants(section):

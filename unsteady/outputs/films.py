@@ -56,6 +56,8 @@ TRACES = {
     "n": ("n", "load factor n"),
     "pitch": ("pitch_deg", "pitch angle (deg)"),
     "plunge": ("height_m", "height of the pitch axis (m)"),
+    "ch": ("ch", "hinge moment ch\n(trailing edge down +)"),
+    "flap": ("flap_deg", "flap angle (deg)\n(trailing edge down +)"),
 }
 FORMATS = (".mp4", ".gif")
 
@@ -591,6 +593,13 @@ class FilmRenderer:
                             edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
         ax.add_patch(self.foil)
         self.animated.append(self.foil)
+        # the ground ([ground]): fixed, or moving with the heights when the camera follows
+        self.ground_z = fields.ground_height(f.sc)
+        self.ground = None
+        if self.ground_z is not None:
+            self.ground = ax.axhline(self.ground_z, color=LOOK["ink"], lw=1.6, zorder=4, animated=f.follow)
+            if f.follow:
+                self.animated.append(self.ground)
         self._build_clock()
 
     def _build_clock(self):
@@ -745,7 +754,10 @@ class FilmRenderer:
             self.path.set_ydata(self.path_z - h)
         if self.scat is not None:
             self.scat.set_data(*f.wake(i))
-        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh)
+        if self.ground is not None and f.follow:
+            self.ground.set_ydata([self.ground_z + f.z_shift(i)] * 2)
+        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh,
+                                        flap=fields.flap_at(f.sc, f.hist, t))
         self.foil.set_xy(np.column_stack([xo, zo]))
         values = [t, f.U * t / f.c, math.degrees(alpha)]
         if f.heaves:

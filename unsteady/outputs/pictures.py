@@ -308,17 +308,19 @@ def loop_abscissa(history):
 HISTORY_ROWS = (
     ("cl", "lift coefficient cl", ""),
     ("cm", "moment coefficient cm\n(quarter chord, nose-up +)", ""),
+    ("ch", "hinge moment ch\n(trailing edge down +)", ""),
     ("n", "load factor n", ""),
     ("w_gust", "vertical gust at the\nleading edge (m/s)", " m/s"),
     ("u_gust", "streamwise gust at the\nleading edge (m/s)", " m/s"),
     ("pitch_deg", "pitch angle (deg)", " deg"),
     ("height_m", "height of the pitch axis (m)", " m"),
     ("flap_deg", "flap angle (deg)", " deg"),
+    ("ground_clearance_m", "clearance above\nthe ground (m)", " m"),
 )
 #: Inputs drawn only when they move (the loads are always drawn).
-INPUTS = ("w_gust", "u_gust", "pitch_deg", "height_m", "flap_deg")
+INPUTS = ("w_gust", "u_gust", "pitch_deg", "height_m", "flap_deg", "ground_clearance_m")
 _INPUT_WORDS = {"w_gust": "vertical gust", "u_gust": "streamwise gust", "pitch_deg": "pitch",
-                "height_m": "height", "flap_deg": "flap"}
+                "height_m": "height", "flap_deg": "flap", "ground_clearance_m": "ground clearance"}
 
 
 def plot_histories(result, path):
@@ -387,10 +389,21 @@ def plot_lift_loop(result, path):
                    bottom=0.75 if "\n" in xlabel else 0.6)
 
 
-def _outline(result, alpha, h, x_shift=0.0):
+def _outline(result, alpha, h, x_shift=0.0, t=None):
+    """The airfoil's outline at pitch alpha, height h (and its flap as deflected at time t)."""
     from . import fields
     sc = result.scenario
-    return fields.airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, x_shift=x_shift)
+    flap = None if t is None else fields.flap_at(sc, result.history, t)
+    return fields.airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, x_shift=x_shift, flap=flap)
+
+
+def draw_ground(ax, sc, z_shift=0.0, **kw):
+    """The ground line of a run with ``[ground]`` (a solid rule across the axes), or None."""
+    from . import fields
+    z_g = fields.ground_height(sc)
+    if z_g is None:
+        return None
+    return ax.axhline(z_g + z_shift, color=LOOK["ink"], lw=1.4, zorder=4, **kw)
 
 
 #: Chords of wake behind the trailing edge framed by the near-wake panel of wake.png.
@@ -410,7 +423,7 @@ def plot_wake(result, path, k=-1):
     a, b = int(s["offsets"][k]), int(s["offsets"][k + 1])
     x, z, g = s["x"][a:b], s["z"][a:b], s["gamma"][a:b]
     c, pivot = float(sc.chord), float(sc.pivot)
-    xo, zo = _outline(result, s["alpha"][k], s["h"][k])
+    xo, zo = _outline(result, s["alpha"][k], s["h"][k], t=float(s["t"][k]))
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c
     zc = 0.5 * (float(zo.min()) + float(zo.max()))
@@ -430,9 +443,12 @@ def plot_wake(result, path, k=-1):
         house_style(axis, grid=False)
         axis.scatter(x, z, c=g, s=dots, cmap=VORTEX_MAP, norm=norm, linewidths=0, zorder=2)
         axis.fill(xo, zo, facecolor=LOOK["airfoil"], edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3)
+        draw_ground(axis, sc)
     ax.set_ylabel("height z (m)", fontsize=9)
     handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
                Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
+    if sc.data.get("ground"):
+        handles.append(Line2D([], [], color=LOOK["ink"], lw=1.4, label="ground"))
     house_legend(ax, handles=handles, loc="upper right", ncol=2,
                  title="wake vortices (dot size: strength)", title_fontsize=7)
     near = f"near wake: {NEAR_WAKE_CHORDS:g} chords behind the trailing edge"

@@ -333,6 +333,8 @@ class LinearModel(Model):
 
     def __init__(self, sc, gust, motion, **march_options):
         super().__init__(sc, gust, motion)
+        if sc.flap_law is not None:
+            self.COLUMNS = ("cl_circulatory", "flap_deg", "ch")
         self.alpha_L0, self.cm0 = section_constants(sc.section)
         self.march_options = march_options
         self._trim_model = None
@@ -387,6 +389,9 @@ class LinearModel(Model):
                  "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
                  "gamma_bound_m2_s": gamma_b, "gamma_wake_m2_s": gamma_0 - gamma_b,
                  "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c}
+        for k in ("flap_deg", "ch"):
+            if k in out:
+                loads[k] = out[k]
         self.deliver_rows(Rows(t, alpha, alpha_dot, h, h_dot, loads), observers)
 
     def _prescribed(self):
@@ -401,15 +406,29 @@ class LinearModel(Model):
         if gust is not None:
             # the gust met by the leading edge (its path at zero pitch), m/s
             u_le, w_le = _gust_series(gust, -sc.pivot * sc.chord, t, h)
+        flap = None
+        if sc.flap_law is not None:
+            law, hinge = sc.flap_law, sc.data["airfoil"]["flap_hinge"]
+            flap = (hinge, law.value(t), law.rate(t), law.accel(t), flap_camber_ch(sc.section, hinge))
         out = linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, speed=sc.speed,
                            chord=sc.chord, pivot=sc.pivot, alpha_L0=self.alpha_L0, cm0=self.cm0,
                            w_le=w_le, u_le=u_le if gust is not None and gust.streamwise else None,
                            start=sc.data["run"]["start"],
-                           gust_start=linear.gust_start(sc.data["run"]["start"], gust))
+                           gust_start=linear.gust_start(sc.data["run"]["start"], gust), flap=flap)
+        if flap is not None:
+            out["flap_deg"] = np.degrees(flap[1])
         return t, alpha, alpha_dot, h, h_dot, out
 
     def summary(self):
         return {"dt": self.sc.dt, "start": self.sc.data["run"]["start"], "elements": self.sc.elements}
+
+
+def flap_camber_ch(section, hinge):
+    """The camber's own hinge moment at zero lift (:func:`unsteady.theory.flap.camber_hinge_moment`; 0 for a flat plate)."""
+    from ..theory.flap import camber_hinge_moment
+    p = getattr(section, "p", None)
+    breaks = tuple(x for x in (p, hinge) if x)
+    return camber_hinge_moment(section.slope, hinge, breaks=breaks)
 
 
 def linear_heave_marcher(sc, **options):

@@ -431,6 +431,15 @@ class VortexSolver:
                 du, dw = _point_vortex(s.xv, s.zv, p.x, 2.0 * self.z_g - p.z, -p.gamma, self.r_b)
                 uv += du
                 wv += dw
+        if len(self.system.slices) > 1:           # every other body's bound vortices
+            for sl in self.system.slices:
+                others = np.ones(N, dtype=bool)
+                others[sl] = False
+                iu, iw = np.empty(sl.stop - sl.start), np.empty(sl.stop - sl.start)
+                induced_velocity(s.xv[sl], s.zv[sl], s.xv[others], s.zv[others], s.gamma[others],
+                                 0.0, iu, iw)
+                uv[sl] += iu
+                wv[sl] += iw
         if self.z_g is not None:                  # the bound vortices' own images
             iu, iw = np.empty(N), np.empty(N)
             induced_velocity(s.xv, s.zv, s.xv, s.zv, s.gamma, 0.0, iu, iw, ground=self.z_g,
