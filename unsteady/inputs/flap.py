@@ -8,7 +8,15 @@ import numpy as np
 
 from ..core.errors import InputError
 
-__all__ = ["flap_problems"]
+__all__ = ["flap_problems", "FLAP_HINGE_RANGE", "FLAP_MAX_DEG", "FLAP_WARN_DEG"]
+
+#: A flap hinge (fraction of chord) must lie strictly inside this range.
+FLAP_HINGE_RANGE = (0.05, 0.95)
+#: Largest flap deflection (deg) accepted, and the one beyond which check warns
+#: (a plain flap's flow separates from its upper side beyond about 15-20 degrees
+#: at the Reynolds numbers of small aircraft: common practice).
+FLAP_MAX_DEG = 60.0
+FLAP_WARN_DEG = 20.0
 
 
 def flap_problems(out, base_dir, warnings):
@@ -19,7 +27,6 @@ def flap_problems(out, base_dir, warnings):
     model is refused, beyond ``FLAP_WARN_DEG`` the check warns.
     """
     from .motion import build_law
-    from .scenario import FLAP_MAX_DEG, FLAP_WARN_DEG
     af, mo, run = out.get("airfoil", {}), out.get("motion", {}), out.get("run", {})
     errors = []
     if "flap_hinge" not in af:

@@ -21,6 +21,7 @@ from pathlib import Path
 from ..core.errors import InputError
 from .checks import (_SECTIONS, Problem, ScenarioError, _is_number, choice, integer,  # noqa: F401
                      number, register_section, text, unknown_keys)
+from .flap import FLAP_HINGE_RANGE
 
 
 def _load_plugins():
@@ -35,14 +36,6 @@ RUN_MODELS = ("vortex", "linear")   # [run] model; unsteady.simulation.models re
 STEPS_PER_PERIOD = 120
 #: Steps across a ramp's smoothing time (see :func:`default_dt`).
 STEPS_PER_SMOOTHING = 32
-
-#: A flap hinge (fraction of chord) must lie strictly inside this range.
-FLAP_HINGE_RANGE = (0.05, 0.95)
-#: Largest flap deflection (deg) accepted, and the one beyond which check warns
-#: (a plain flap's flow separates from its upper side beyond about 15-20 degrees
-#: at the Reynolds numbers of small aircraft: common practice).
-FLAP_MAX_DEG = 60.0
-FLAP_WARN_DEG = 20.0
 
 #: Allowed ranges of the flight condition and the section (physically meaningful
 #: for a low-speed, incompressible section model of a small aircraft or rig).
