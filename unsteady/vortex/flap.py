@@ -16,7 +16,12 @@ import numpy as np
 
 from .bodies import Body, BodyPoints, rotate, to_inertial
 
-__all__ = ["hinge_nodes", "HingedFlapCamber", "build_flap_body"]
+__all__ = ["hinge_nodes", "HingedFlapCamber", "build_flap_body", "BETA_TOL"]
+
+#: Changes of the deflection below this (rad) keep the flap's points and the factored matrix
+#: as they are: a smoothed law creeps towards its end values for many steps, and a
+#: refactorization per step for a change of 1e-12 rad would buy nothing.
+BETA_TOL = 1e-9
 
 
 def hinge_nodes(n, hinge):
@@ -48,7 +53,7 @@ class HingedFlapCamber:
     rigidly about the hinge by beta(t) (trailing edge down positive, the same
     sense as a nose-up pitch); the camber line kinks there.  ``points(t)``
     gives the deflected points, ``changed(t)`` is True when beta differs from
-    the one the matrix was built with, ``surface_velocity`` the flap's own
+    the one the matrix was built with (by more than :data:`BETA_TOL`), ``surface_velocity`` the flap's own
     velocity beta' x (r - r_hinge) at its collocation and vortex points, and
     ``geometry`` the deflected :class:`~unsteady.vortex.bodies.Body` (for the
     loads).  ``hinge`` = (xi_h, zeta_h, k, c_f) for the hinge moment.
@@ -80,8 +85,15 @@ class HingedFlapCamber:
         return self.base.n
 
     def deflection(self, t):
-        """beta(t), rad (trailing edge down)."""
+        """beta(t), rad (trailing edge down): the law's value."""
         return float(self.law.value(t))
+
+    def _held(self, t):
+        """The deflection the points use: beta(t), or the one in use while they differ by under BETA_TOL."""
+        beta = self.deflection(t)
+        if self._beta_points is not None and abs(beta - self._beta_points) <= BETA_TOL:
+            return self._beta_points
+        return beta
 
     def _set(self, beta):
         if beta == self._beta_points:
@@ -115,12 +127,12 @@ class HingedFlapCamber:
 
     def points(self, t):
         """Vortex points, collocation points and collocation normals at time ``t`` (deflected)."""
-        self._set(self.deflection(t))
+        self._set(self._held(t))
         return self._points
 
     def changed(self, t):
         """True (once) when beta(t) differs from the deflection of the last factorization."""
-        beta = self.deflection(t)
+        beta = self._held(t)
         if beta == self._beta_matrix:
             return False
         self._beta_matrix = beta
@@ -128,7 +140,7 @@ class HingedFlapCamber:
 
     def trailing_edge(self, t):
         """The deflected trailing edge (xi, zeta) in the body frame."""
-        self._set(self.deflection(t))
+        self._set(self._held(t))
         return self.geometry.xi_te, self.geometry.zeta_te
 
     def surface_velocity(self, t, alpha, h):
