@@ -285,7 +285,8 @@ def _finish(fig, result, what, path, notes=(), **margins):
 def loop_abscissa(history):
     """What the lift is drawn against in a loop: (values, axis label, words).
 
-    The pitch angle when the pitch moves; else the effective angle of attack
+    The pitch angle when the pitch moves; else the flap angle when a flap moves;
+    else the effective angle of attack
     at three-quarter chord (``alpha_eff_deg``: plunge or heave rate and gust
     included) when the run has it; else the vertical gust at the leading edge;
     else the pitch angle (nothing moved).
@@ -293,6 +294,8 @@ def loop_abscissa(history):
     h = history
     if moves(h["pitch_deg"]):
         return h["pitch_deg"], "pitch angle (deg)", "pitch"
+    if "flap_deg" in h and moves(h["flap_deg"]):
+        return h["flap_deg"], "flap angle (deg, trailing edge down +)", "flap angle"
     if "alpha_eff_deg" in h and moves(h["alpha_eff_deg"]):
         return (h["alpha_eff_deg"], "effective angle of attack at 3/4 chord (deg)\n"
                 "(pitch, plunge or heave rate and gust together)", "effective angle")
