@@ -177,15 +177,17 @@ class VortexSolver:
     3. ``changed(t)``: True when its points moved in the body frame since
        the last factorization (a hinged flap when its deflection changed);
        the matrix of all bodies is then rebuilt and refactored, and only
-       then.  A deforming body must also add its own surface velocity in
-       ``_place`` (not yet a hook: rigid bodies have none).
+       then.  A body whose points move must also give their velocity,
+       ``surface_velocity`` (below).
     4. ``trailing_edge(t)`` for its trailing-edge site; ``geometry``: the
-       :class:`~unsteady.vortex.bodies.Body` its loads are computed on.
+       :class:`~unsteady.vortex.bodies.Body` its loads are computed on (a
+       new object when its points moved: the loads then take its normals).
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
-    one wake with site indices), but their loads are not yet combined:
-    ``loads`` is the first body's pressure-route row, its impulse columns
-    count everything; ``body_loads`` lists each body's.
+    one wake with site indices, every body's bound vortices in every other's
+    loads), but their loads are not yet combined: ``loads`` is the first
+    body's pressure-route row, its impulse columns count everything;
+    ``body_loads`` lists each body's.
 
     **A ground** (``ground``, :class:`~unsteady.vortex.ground.Ground`): the
     kernels' image option (:mod:`~unsteady.vortex.kernels`: each source
