@@ -618,6 +618,11 @@ class FilmRenderer:
         if f.gust_w is not None:
             fields_[-1:] = [(fields_[-1][0] + "   gust at leading edge ", "{:+.2f}", [f.gust_max, -f.gust_max]),
                             (" m/s", None, None)]
+        flap = f.hist.get("flap_deg")
+        self.flap_moves = flap is not None and bool(np.ptp(flap) > 0)
+        if self.flap_moves:
+            fields_[-1:] = [(fields_[-1][0] + "   flap ", "{:+.1f}", [np.max(flap), np.min(flap)]),
+                            (" deg", None, None)]
         self.clock_fields = [(pre, fmt, max(len(fmt.format(float(v))) for v in vals) if fmt else 0)
                              for pre, fmt, vals in fields_]
         words = "".join(pre + " " * w for pre, _fmt, w in self.clock_fields)
@@ -764,6 +769,8 @@ class FilmRenderer:
             values.append(h)
         if f.gust_w is not None:
             values.append(float(f.gust_w(np.array([-f.pivot * f.c]), t)[0]))
+        if self.flap_moves:
+            values.append(float(np.interp(t, f.hist["t"], f.hist["flap_deg"])))
         nums, self.clock_line = self._clock_numbers(values)
         self.clock.set_text(nums)
         j = int(np.searchsorted(self.tr_t, t + 1e-12))
