@@ -34,6 +34,9 @@ What is measured (limits marked common practice where no source is named):
    wake vortex of a snapshot lies on the chord (within 2 % of the chord of
    it, between 2 % and 98 % of the chord), where the discrete vortices
    induce unbounded velocities and the loads stop meaning anything.
+8. **Extreme ground effect** (``[ground]``): the camber line closer to the
+   ground than :data:`GROUND_NEAR` (5 %) of the chord, where the section's
+   thickness and the ground's boundary layer set the flow under it.
 """
 
 from __future__ import annotations
@@ -51,6 +54,10 @@ CL_MAX_TYPICAL = 1.5
 ROUTE_TOLERANCE = 0.05
 #: Half-thickness of the band about the chord (fraction of chord) where a wake vortex counts as inside.
 WAKE_BAND = 0.02
+#: Clearance above the ground (fraction of chord) below which the inviscid camber-line model is out of
+#: its depth: the section's thickness and the ground's own boundary layer then set the flow under it
+#: (extreme ground effect; common practice).
+GROUND_NEAR = 0.05
 
 
 def _gust_key(sc):
@@ -147,6 +154,17 @@ def measured_warnings(history, sc, summary, snapshots=None):
                             f"airfoil.elements and compare"))
 
     # 7: the wake through the airfoil
+    # 8: extreme ground effect
+    if "ground_clearance_m" in history and np.isfinite(history["ground_clearance_m"]).any():
+        gap = np.asarray(history["ground_clearance_m"], float)
+        i = int(np.nanargmin(gap))
+        if gap[i] < GROUND_NEAR * sc.chord:
+            out.append(("ground.height",
+                        f"the section came within {gap[i]:.3g} m of the ground ({100 * gap[i] / sc.chord:.2g} % "
+                        f"of the chord) at t = {t[i]:.4g} s, closer than {100 * GROUND_NEAR:g} %: there the "
+                        f"section's thickness and the ground's boundary layer set the flow under it, which "
+                        f"this inviscid camber-line model leaves out"))
+
     if vortex and snapshots is not None:
         hit = wake_through_airfoil(snapshots, sc)
         if hit is not None:
