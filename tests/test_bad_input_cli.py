@@ -172,9 +172,6 @@ CASES = [
                                                                                                  "time": 0.01}}),
     Case("flap-too-far", "motion.flap", "at most 60 are accepted",
          {"airfoil.flap_hinge": 0.75, "motion.flap": {"law": "constant", "value": 70.0}}),
-    Case("flap-linear-aircraft", "motion.flap", "only with prescribed motion",
-         {"airfoil.flap_hinge": 0.75, "motion.flap": {"law": "constant", "value": 5.0}, "run.model": "linear",
-          "aircraft": AIRCRAFT}),
     # --- [ground]
     Case("ground-not-a-table", "ground", "must be a table [ground]", {"ground": 0.1}),
     Case("ground-height-missing", "ground.height", "is required", {"ground": {}}),

@@ -1,4 +1,4 @@
-"""Checks of the flap (``[airfoil] flap_hinge`` with ``[motion] flap``) across the run: deflection bounds and model support."""
+"""Checks of the flap (``[airfoil] flap_hinge`` with ``[motion] flap``) across the run: the deflection's bounds."""
 
 from __future__ import annotations
 
@@ -31,9 +31,6 @@ def flap_problems(out, base_dir, warnings):
     errors = []
     if "flap_hinge" not in af:
         return errors
-    if run.get("model") == "linear" and "aircraft" in out:
-        errors.append(InputError("motion.flap", "the linear model runs a flap only with prescribed motion; with "
-                                                "[aircraft] use run.model = \"vortex\""))
     if "flap" not in mo or not run.get("duration"):
         return errors
     try:

@@ -430,11 +430,15 @@ class LinearMarcher:
         :class:`~unsteady.dynamics.heave.HeaveMotion`: ``pitch``,
         ``heave_constants``, ``take_rows``) and ``accel`` is given; else the
         step-by-step Python march, which also serves any other motion object.
+    flap : dict, optional
+        A prescribed flap's terms at every row (steps + 1 values each): ``q``
+        (added to Q), ``cl_nc``, ``M_nc`` (2 cm_nc about the pivot) and
+        ``shift`` (T10 beta / pi, the drag's angle), from :func:`flap_terms`.
     """
 
     def __init__(self, motion, *, steps, dt, speed, chord, pivot, alpha_L0=0.0, cm0=0.0,
                  w_le=None, u_le=None, accel=None, start="steady", w_series=None, u_series=None,
-                 s_max=None, tail=True, compiled=True, gust_start=None):
+                 s_max=None, tail=True, compiled=True, gust_start=None, flap=None):
         self.motion = motion
         self.N = int(steps) + 1
         self.dt = float(dt)
@@ -456,6 +460,9 @@ class LinearMarcher:
             raise ValueError(f"s_max must be > 0 semichords, got {s_max!r}")
         self.tail = bool(tail)
         self.compiled = bool(compiled)
+        zero = np.zeros(self.N)
+        self.flap = {k: (zero if flap is None else np.ascontiguousarray(flap[k], dtype=float))
+                     for k in ("q", "cl_nc", "M_nc", "shift")}
 
     def _can_compile(self, on_row):
         m = self.motion
@@ -492,7 +499,7 @@ class LinearMarcher:
             w = float(self.w_le(t, h)) if self.w_le is not None else 0.0
             u = float(self.u_le(t, h)) if self.u_le is not None else 0.0
             q = float(three_quarter_downwash(alpha, alpha_dot, h_dot, speed=U, chord=c,
-                                             pivot=pv, alpha_L0=self.alpha_L0))
+                                             pivot=pv, alpha_L0=self.alpha_L0)) + self.flap["q"][n]
             H["q34"][n], H["w_le"][n] = q, w
             if n > 0:
                 dq[n] = q - H["q34"][n - 1]
@@ -506,11 +513,13 @@ class LinearMarcher:
             ad = b * alpha_dot / U
             add = b**2 * alpha_ddot / U**2
             cl_nc, M_nc = theory.apparent_mass(hT_ddot, ad, add, a)
+            cl_nc = cl_nc + self.flap["cl_nc"][n]
+            M_nc = M_nc + self.flap["M_nc"][n]
             cl = (cl_c + cl_nc + cl_g) * (1.0 + 2.0 * u / U)
             cm_pivot = 0.5 * (M_nc + (a + 0.5) * cl_c) + cl_g * (pv - 0.25) + self.cm0
             cm = cm_pivot + (cl_c + cl_nc + cl_g) * (0.25 - pv)
             a0 = (cl_c + cl_g) / (2.0 * np.pi) - 0.5 * b * alpha_dot / U
-            cd = cl * (alpha - self.alpha_L0) - 2.0 * np.pi * a0**2
+            cd = cl * (alpha - self.alpha_L0 + self.flap["shift"][n]) - 2.0 * np.pi * a0**2
             row = {"cl": cl, "cd": cd, "cm": cm, "cm_pivot": cm_pivot, "cl_impulse": cl,
                    "cd_impulse": cd, "cm_impulse": cm}
             for k, v in (("t", t), ("alpha", alpha), ("alpha_dot", alpha_dot), ("h", h),
@@ -553,7 +562,8 @@ class LinearMarcher:
                  "cl_gust", "q34")
         out = {k: np.empty(N) for k in names}
         h_end, h_dot_end = march_heave(
-            alpha, alpha_dot, alpha_ddot, w, u, R_w, R_k, Ww, Wk, cw, dw, ck, dk,
+            alpha, alpha_dot, alpha_ddot, w, u, self.flap["q"], self.flap["cl_nc"], self.flap["M_nc"],
+            self.flap["shift"], R_w, R_k, Ww, Wk, cw, dw, ck, dk,
             float(h_ddot_p[0]), dt, self.U, self.c, self.pivot, self.alpha_L0, self.cm0,
             float(hc["n_per_cl"]), float(hc["g"]), *(out[k] for k in names))
         self.motion.take_rows(out["n"], out["h_ddot"], h_end, h_dot_end)
@@ -594,12 +604,22 @@ def heave_marcher(sc, motion, gust=None, **options):
         # zero pitch meets it at known times, whatever the heave
         t_all = np.arange(steps + 1) * dt
         u_arr, w_arr = _gust_series(gust, -sc.pivot * sc.chord, t_all, np.zeros_like(t_all))
+    flap = None
+    if sc.flap_law is not None:
+        t_all = np.arange(steps + 1) * dt
+        law = sc.flap_law
+        zero = np.zeros_like(t_all)
+        fl = flap_terms((sc.data["airfoil"]["flap_hinge"], law.value(t_all), law.rate(t_all),
+                         law.accel(t_all)), zero, zero, zero, speed=sc.speed, chord=sc.chord,
+                        pivot=sc.pivot)
+        flap = {"q": fl["q"], "cl_nc": fl["cl_nc"], "M_nc": fl["M_nc"],
+                "shift": fl["T10"] * np.asarray(law.value(t_all), dtype=float) / np.pi}
     return LinearMarcher(
         motion, steps=steps, dt=dt, speed=sc.speed, chord=sc.chord, pivot=sc.pivot,
         alpha_L0=alpha_L0, cm0=cm0, w_series=w_arr,
         u_series=u_arr if gust is not None and gust.streamwise else None,
         accel=sc.kinematics.accel, start=sc.data["run"]["start"],
-        gust_start=gust_start(sc.data["run"]["start"], gust), **options)
+        gust_start=gust_start(sc.data["run"]["start"], gust), flap=flap, **options)
 
 
 def _gust_series(gust, x_le, t, h):

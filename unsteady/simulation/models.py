@@ -380,6 +380,8 @@ class LinearModel(Model):
         if isinstance(self.motion, HeaveMotion):
             out = self.marcher().run()
             t, alpha, alpha_dot, h, h_dot = (out[k] for k in ("t", "alpha", "alpha_dot", "h", "h_dot"))
+            if sc.flap_law is not None:
+                out.update(self._heave_flap(out))
         else:
             t, alpha, alpha_dot, h, h_dot, out = self._prescribed()
         cl_c = out["cl_c"] + out["cl_gust"]
@@ -393,6 +395,23 @@ class LinearModel(Model):
             if k in out:
                 loads[k] = out[k]
         self.deliver_rows(Rows(t, alpha, alpha_dot, h, h_dot, loads), observers)
+
+    def _heave_flap(self, out):
+        """``flap_deg`` and ``ch`` of a free-heave march: the hinge moment of
+        :func:`~unsteady.linear.model.flap_terms` on the marched pitch rate, the
+        prescribed pitch acceleration and the heave acceleration of the march."""
+        sc = self.sc
+        t = out["t"]
+        law, hinge = sc.flap_law, sc.data["airfoil"]["flap_hinge"]
+        h_ddot = out.get("h_ddot")
+        if h_ddot is None:            # the Python march: the backward difference it used
+            h_ddot = np.concatenate([[0.0], np.diff(out["h_dot"]) / sc.dt])
+        alpha_ddot = np.broadcast_to(np.asarray(sc.kinematics.accel(t)[0], dtype=float), t.shape)
+        fl = linear.flap_terms((hinge, law.value(t), law.rate(t), law.accel(t)), out["alpha_dot"],
+                               alpha_ddot, h_ddot, speed=sc.speed, chord=sc.chord, pivot=sc.pivot)
+        lagged = (out["cl_c"] + out["cl_gust"]) / (2.0 * np.pi)
+        ch = (fl["Mh_nc"] + fl["mh_c"] * lagged) * fl["to_ch"] + flap_camber_ch(sc.section, hinge)
+        return {"flap_deg": np.degrees(law.value(t)), "ch": ch}
 
     def _prescribed(self):
         """(t, alpha, alpha_dot, h, h_dot, loads) of a prescribed motion, summed in one pass."""
