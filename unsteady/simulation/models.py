@@ -10,9 +10,10 @@ from ..inputs.gusts import build_gust_field
 from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
-from ..vortex.solver import SolverDiverged, StepState, VortexSolver, build_body
 from ..vortex.flap import build_flap_body, hinge_nodes
 from ..vortex.ground import Ground
+from ..vortex.solver import (LeadingEdgeSite, SolverDiverged, StepState, TrailingEdgeSite, VortexSolver,
+                             build_body)
 from .observers import Rows
 
 __all__ = ["Model", "MODELS", "register_model", "get", "VortexModel", "LinearModel",
@@ -249,6 +250,8 @@ class VortexModel(Model):
     that a trimmed aircraft starts at n = 1 to round-off.
     """
 
+    COLUMNS = ("lesp",)
+
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
         self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
@@ -256,7 +259,8 @@ class VortexModel(Model):
         # the ground sits [ground] height below the pitch axis's height at t = 0
         self.ground = (None if not gr else
                        Ground(float(sc.kinematics.plunge.value(0.0)) - gr["height"]))
-        self.COLUMNS = (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
+        self.COLUMNS = (("lesp", "gamma_lev") if sc.data["airfoil"].get("lesp_critical") is not None
+                        else ("lesp",)) + (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
             ("ground_clearance_m",) if self.ground is not None else ())
         self._pressure = None
 
@@ -274,9 +278,14 @@ class VortexModel(Model):
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]
         self._pressure = _PressureRows(sc.steps, sc.elements)
+        offset = run.get("shed_offset", 0.3)
+        critical = sc.data["airfoil"].get("lesp_critical")
+        sites = None
+        if critical is not None:
+            sites = [TrailingEdgeSite(0, offset), LeadingEdgeSite(0, critical, offset)]
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
-                              shed_offset=run.get("shed_offset", 0.3),
+                              shed_offset=offset, sites=sites,
                               core_radius=run.get("core_radius"), far_wake=run.get("far_wake"),
                               ground=self.ground)
         solver.run([_Relay([self._pressure] + list(observers))])
@@ -329,12 +338,12 @@ class LinearModel(Model):
         tests and benchmarks).
     """
 
-    COLUMNS = ("cl_circulatory",)
+    COLUMNS = ("cl_circulatory", "lesp")
 
     def __init__(self, sc, gust, motion, **march_options):
         super().__init__(sc, gust, motion)
         if sc.flap_law is not None:
-            self.COLUMNS = ("cl_circulatory", "flap_deg", "ch")
+            self.COLUMNS = ("cl_circulatory", "lesp", "flap_deg", "ch")
         self.alpha_L0, self.cm0 = section_constants(sc.section)
         self.march_options = march_options
         self._trim_model = None
@@ -390,11 +399,24 @@ class LinearModel(Model):
         loads = {"cl": out["cl"], "cd": out["cd"], "cm": out["cm"], "cm_pivot": out["cm_pivot"],
                  "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
                  "gamma_bound_m2_s": gamma_b, "gamma_wake_m2_s": gamma_0 - gamma_b,
-                 "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c}
+                 "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c,
+                 "lesp": self._lesp(cl_c, alpha_dot)}
         for k in ("flap_deg", "ch"):
             if k in out:
                 loads[k] = out[k]
         self.deliver_rows(Rows(t, alpha, alpha_dot, h, h_dot, loads), observers)
+
+    def _lesp(self, cl_c, alpha_dot):
+        """The linear model's leading-edge suction parameter (A0) per row.
+
+        Quasi-steady thin-airfoil theory (Abbott & von Doenhoff 1959, ch. 4)
+        with the wake's lag carried by the circulatory lift, as for the
+        model's drag (:func:`~unsteady.linear.model.leading_edge_a0`), plus the
+        camber's share of A0: ``alpha_L0 - (1/pi) int dz/dx dtheta``, so that a
+        steady cambered section gives ``alpha - (1/pi) int dz/dx dtheta``.
+        """
+        shift = self.alpha_L0 - _camber_a0_shift(self.sc.section)
+        return linear.leading_edge_a0(cl_c, alpha_dot, speed=self.sc.speed, chord=self.sc.chord) + shift
 
     def _heave_flap(self, out):
         """``flap_deg`` and ``ch`` of a free-heave march: the hinge moment of
@@ -448,6 +470,13 @@ def flap_camber_ch(section, hinge):
     p = getattr(section, "p", None)
     breaks = tuple(x for x in (p, hinge) if x)
     return camber_hinge_moment(section.slope, hinge, breaks=breaks)
+
+
+def _camber_a0_shift(section):
+    """(1/pi) int_0^pi dz/dx dtheta of a section's camber line (0 for a flat plate)."""
+    from .. import theory
+    p = getattr(section, "p", None)
+    return -theory.steady_a0(0.0, section.slope, breaks=(p,) if p else ())
 
 
 def linear_heave_marcher(sc, **options):
