@@ -98,3 +98,13 @@ def test_run_prints_measured_warnings_once(tmp_path):
     assert all(x.startswith(f"warning: {f}: ") for x in lines)
     summary = json.loads((tmp_path / "r" / "summary.json").read_text())
     assert set(lines) <= set(summary["warnings"])
+
+
+def test_extreme_ground_effect_is_measured_and_said():
+    # closer to the ground than 5 % of the chord (GROUND_NEAR, common practice): one line naming
+    # [ground] height; the same section 0.2 chord up is silent
+    near = {"motion": {"pitch": {"law": "constant", "value": 4.0}}, "ground": {"height": 0.0175}}
+    sc, res = _run(near)
+    assert "ground.height" in _keys(res.summary["warnings"])
+    sc, res = _run({**near, "ground": {"height": 0.05}})
+    assert "warnings" not in res.summary

@@ -62,13 +62,19 @@ def add_quasi_steady(history, sc, gust=None):
 
     cl_qs = 2 pi (alpha_eff - alpha_L0): the steady thin-airfoil lift at the
     instantaneous effective angle (Abbott & von Doenhoff, Theory of Wing
-    Sections, 1959, ch. 4), alpha_L0 the section's zero-lift angle.
+    Sections, 1959, ch. 4), alpha_L0 the section's zero-lift angle; with a
+    flap, plus Glauert's steady flap lift dcl/dbeta beta (H. Glauert, 1926;
+    :func:`unsteady.theory.flap.glauert_flap`).
     """
     from ..linear.model import section_constants
     alpha_L0, _cm0 = section_constants(sc.section)
     ae = effective_alpha(history, sc, gust)
     history["alpha_eff_deg"] = np.degrees(ae)
     history["cl_quasi_steady"] = 2.0 * np.pi * (ae - alpha_L0)
+    if "flap_hinge" in sc.data["airfoil"] and "flap_deg" in history:
+        from ..theory.flap import glauert_flap
+        dcl, _dcm = glauert_flap(sc.data["airfoil"]["flap_hinge"])
+        history["cl_quasi_steady"] = history["cl_quasi_steady"] + dcl * np.radians(history["flap_deg"])
     return history
 
 
@@ -116,7 +122,7 @@ def _motion_kind(sc):
     """("periodic", omega) for a sine law, ("transient", t_begin) for a ramp or step, else (None, None)."""
     mo = sc.data.get("motion", {})
     U, c = sc.speed, sc.chord
-    for q in ("pitch", "plunge"):
+    for q in ("pitch", "plunge", "flap"):
         for law in _laws(mo.get(q)):
             if law.get("law") == "sine":
                 if "frequency" in law:
@@ -124,7 +130,7 @@ def _motion_kind(sc):
                 return "periodic", 2.0 * U * float(law["reduced_frequency"]) / c
     begins = []
     leads = [0.0]
-    for q in ("pitch", "plunge"):
+    for q in ("pitch", "plunge", "flap"):
         for law in _laws(mo.get(q)):
             if law.get("law") == "ramp":
                 begins.append(float(law.get("start", 0.0)))
@@ -174,8 +180,10 @@ def lag_summary(history, sc):
 
     Always: ``peak_pitch_rate`` (max |alpha_dot| c / 2U), ``peak_effective_alpha_deg``
     (the effective angle of largest magnitude, signed) and ``validity``.
-    Ramps and steps (from the change's start): ``t50``, ``t90`` (s after the
-    change begins from which cl stays beyond 50 % / 90 % of its final change),
+    Ramps and steps of pitch, plunge or flap (from the change's start): ``t50``,
+    ``t90`` (s after the change begins from which cl stays beyond 50 % / 90 % of
+    its final change; with a flap also ``ch_t50``, ``ch_t90`` of the hinge
+    moment, its final change that to the last row),
     ``t50_qs``, ``t90_qs`` (the same for the quasi-steady cl), ``delay90`` =
     t90 - t90_qs and ``delay90_chords`` = delay90 U / c. The final change is
     that of the quasi-steady cl (the settled value after the motion stops).
@@ -231,6 +239,12 @@ def lag_summary(history, sc):
                            f"({y1 - y0:+.3g}) by the end of the run (t = {t[-1]:.4g} s) "
                            f"or crossed it back; lengthen run.duration to see it settle")
         out["t_begin"] = t_begin
+        if "ch" in history and np.isfinite(history["ch"][-1]):
+            # the hinge moment's lag: its final change taken as that to the run's last row
+            ch = history["ch"]
+            for pct in (50, 90):
+                tc = crossing_time(t[sel], ch[sel], ch[i0], ch[-1], pct / 100.0)
+                out[f"ch_t{pct}"] = max(tc - t_begin, 0.0) if np.isfinite(tc) else None
     elif kind == "periodic" and len(t) > 1:
         omega = par
         T = 2.0 * math.pi / omega

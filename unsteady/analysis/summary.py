@@ -146,6 +146,12 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
     if ok.any():
         s.update(cm_max=float(cm[ok].max()), cm_min=float(cm[ok].min()),
                  cd_mean=float(np.nanmean(history["cd"])), cl_final=float(cl[np.isfinite(cl)][-1]))
+    if "ch" in history:                   # a flap's hinge moment
+        _peaks(s, "ch", np.asarray(history["ch"], dtype=float), t, keep)
+    if "ground_clearance_m" in history and np.isfinite(history["ground_clearance_m"]).any():
+        g = np.asarray(history["ground_clearance_m"], dtype=float)
+        i = int(np.nanargmin(g))
+        s.update(ground_clearance_min_m=float(g[i]), t_ground_clearance_min=float(t[i]))
     if "n" in history and np.isfinite(history["n"]).any():
         n = running_mean(np.asarray(history["n"], dtype=float), k)
         _peaks(s, "n", n, t, keep)

@@ -47,6 +47,9 @@ What is measured (limits marked common practice where no source is named):
    ``lesp_critical`` the model sheds, so 1, 2 and 5 (the attached-flow
    limits) no longer apply and are not given; the caution of such a run
    says that the critical value is a model parameter.
+9. **Extreme ground effect** (``[ground]``): the camber line closer to the
+   ground than :data:`GROUND_NEAR` (5 %) of the chord, where the section's
+   thickness and the ground's boundary layer set the flow under it.
 """
 
 from __future__ import annotations
@@ -65,6 +68,10 @@ CL_MAX_TYPICAL = 1.5
 ROUTE_TOLERANCE = 0.05
 #: Half-thickness of the band about the chord (fraction of chord) where a wake vortex counts as inside.
 WAKE_BAND = 0.02
+#: Clearance above the ground (fraction of chord) below which the inviscid camber-line model is out of
+#: its depth: the section's thickness and the ground's own boundary layer then set the flow under it
+#: (extreme ground effect; common practice).
+GROUND_NEAR = 0.05
 
 
 def _gust_key(sc):
@@ -172,6 +179,17 @@ def measured_warnings(history, sc, summary, snapshots=None):
                             f"({100 * gap[j] / peak:.0f} % of the peak) at t = {t[j]:.4g} s: the step or "
                             f"the elements do not resolve this flow; halve run.dt or raise "
                             f"airfoil.elements and compare"))
+
+    # 9: extreme ground effect
+    if "ground_clearance_m" in history and np.isfinite(history["ground_clearance_m"]).any():
+        gap = np.asarray(history["ground_clearance_m"], float)
+        i = int(np.nanargmin(gap))
+        if gap[i] < GROUND_NEAR * sc.chord:
+            out.append(("ground.height",
+                        f"the section came within {gap[i]:.3g} m of the ground ({100 * gap[i] / sc.chord:.2g} % "
+                        f"of the chord) at t = {t[i]:.4g} s, closer than {100 * GROUND_NEAR:g} %: there the "
+                        f"section's thickness and the ground's boundary layer set the flow under it, which "
+                        f"this inviscid camber-line model leaves out"))
 
     # 7: the wake through the airfoil (not once the leading edge has shed: every vortex near the
     # body then meets it through the soft core and is kept on its side, see the module docstring)

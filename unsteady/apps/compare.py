@@ -17,6 +17,10 @@ TABLE = [
     ("cl_min", "cl_min", "{:.4f}"),
     ("cm_max", "cm_max", "{:.4f}"),
     ("cm_min", "cm_min", "{:.4f}"),
+    ("ch_max", "ch_max", "{:.4f}"),
+    ("ch_min", "ch_min", "{:.4f}"),
+    ("t_ch_min", "t_ch_min", "{:.4g}"),
+    ("ground_clearance_min_m", "clear_min_m", "{:.4g}"),
     ("n_max", "n_max", "{:.4f}"),
     ("t_n_max", "t_n_max", "{:.4g}"),
     ("n_min", "n_min", "{:.4f}"),
@@ -93,6 +97,8 @@ def plot_compare(runs, path, title=""):
     from ..outputs.pictures import LOOK, SERIES, dress, house_legend, house_style, new_figure, save_png
     has_n = any("n" in h for _l, h, _s in runs)
     rows = [("cl", "lift coefficient cl"), ("cm", "moment coefficient cm\n(quarter chord)")]
+    if any("ch" in h for _l, h, _s in runs):
+        rows.append(("ch", "hinge moment ch\n(trailing edge down +)"))
     if has_n:
         rows.append(("n", "load factor n"))
     fig = new_figure(11, 2.3 * len(rows) + 1.4)

@@ -39,12 +39,22 @@ def lift_scale(aspect_ratio):
     return theory.helmbold_lift_slope(aspect_ratio) / (2.0 * math.pi)
 
 
+#: Keys of pitch freedom (a wing with its tail), refused with their reason.
+PITCH_FREEDOM = ("pitch_inertia", "cg")
+
+
 @register_section("aircraft")
 def check_aircraft_section(value, ctx):
     """Check ``[aircraft]``: mass (kg), wing_area (m^2), optional aspect_ratio and span (m); (resolved, [InputError])."""
     if not isinstance(value, dict):
         return value, [InputError("aircraft", "must be a table [aircraft] with mass (kg) and wing_area (m^2)")]
-    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio", "span"}, "aircraft.")
+    errors = unknown_keys({k: v for k, v in value.items() if k not in PITCH_FREEDOM},
+                          {"mass", "wing_area", "aspect_ratio", "span"}, "aircraft.")
+    for key in PITCH_FREEDOM:
+        if key in value:
+            errors.append(InputError(f"aircraft.{key}", "pitch freedom needs a wing and a tail (several elements), "
+                                                        "which this version does not support: the aircraft "
+                                                        "heaves with its pitch prescribed; remove the key"))
     out = {}
     for key, unit in (("mass", "kg"), ("wing_area", "m^2")):
         if key not in value:

@@ -21,11 +21,12 @@ from pathlib import Path
 from ..core.errors import InputError
 from .checks import (_SECTIONS, Problem, ScenarioError, _is_number, choice, integer,  # noqa: F401
                      number, register_section, text, unknown_keys)
+from .flap import FLAP_HINGE_RANGE
 
 
 def _load_plugins():
     # Importing these modules registers their sections.
-    from . import aircraft, gusts, sweep  # noqa: F401
+    from . import aircraft, ground, gusts, sweep  # noqa: F401
 
 
 CORE_SECTIONS = ("title", "flow", "airfoil", "motion", "run", "output")
@@ -158,6 +159,17 @@ class Scenario:
     def section(self):
         from .sections import section_from_shape
         return section_from_shape(self.data["airfoil"]["shape"], self.base_dir)
+
+    @cached_property
+    def flap_law(self):
+        """beta(t) (rad, trailing edge down) of ``[motion] flap``; a zero law with only
+        ``[airfoil] flap_hinge``; None without a flap."""
+        if "flap_hinge" not in self.data["airfoil"]:
+            return None
+        from .motion import build_law
+        spec = self.data["motion"].get("flap", {"law": "constant", "value": 0.0})
+        return build_law(spec, scale=math.pi / 180.0, speed=self.speed, chord=self.chord,
+                         base_dir=self.base_dir)
 
     @cached_property
     def kinematics(self):
@@ -344,6 +356,12 @@ def resolve(raw, base_dir, stem="scenario"):
     allowed = set(CORE_SECTIONS) | set(_SECTIONS)
     errors += unknown_keys(raw, allowed, "")
     not_tables = []
+    if isinstance(raw.get("airfoil"), list):
+        errors.append(InputError("airfoil", "several elements ([[airfoil]], a list) are not supported by this "
+                                            "version: give one [airfoil] table"))
+        raw = {**raw, "airfoil": raw["airfoil"][0] if raw["airfoil"] and isinstance(raw["airfoil"][0], dict)
+               else {}}
+        not_tables.append("airfoil")
     for sec in ("flow", "airfoil", "motion", "run", "output"):
         if sec in raw and not isinstance(raw[sec], dict):
             errors.append(InputError(sec, "must be a table ([" + sec + "])"))
@@ -383,7 +401,7 @@ def resolve(raw, base_dir, stem="scenario"):
         errors.append(InputError("airfoil.panels", "was renamed: write airfoil.elements (vortex elements on "
                                                    "the camber line, 4 to 1000)"))
         af = {k: v for k, v in af.items() if k != "panels"}
-    errors += unknown_keys(af, {"shape", "chord", "elements", "lesp_critical"}, "airfoil.")
+    errors += unknown_keys(af, {"shape", "chord", "elements", "lesp_critical", "flap_hinge"}, "airfoil.")
     airfoil = {"shape": af.get("shape", "flat")}
     if "chord" not in af:
         errors.append(InputError("airfoil.chord", "is required (m, > 0)"))
@@ -401,6 +419,9 @@ def resolve(raw, base_dir, stem="scenario"):
         airfoil["lesp_critical"] = grab(number, "airfoil.lesp_critical", af["lesp_critical"], gt=0.0,
                                         unit="(critical leading-edge suction parameter; about 0.1-0.3 "
                                              "for thin sections at low Reynolds numbers)")
+    if "flap_hinge" in af:
+        airfoil["flap_hinge"] = grab(number, "airfoil.flap_hinge", af["flap_hinge"], gt=FLAP_HINGE_RANGE[0],
+                                     lt=FLAP_HINGE_RANGE[1], unit="(fraction of chord aft of the leading edge)")
     out["airfoil"] = airfoil
 
     speed = flow.get("speed")
@@ -409,11 +430,11 @@ def resolve(raw, base_dir, stem="scenario"):
 
     # [motion]
     mo = raw.get("motion", {})
-    errors += unknown_keys(mo, {"pivot", "pitch", "plunge"}, "motion.")
+    errors += unknown_keys(mo, {"pivot", "pitch", "plunge", "flap"}, "motion.")
     motion = {"pivot": grab(number, "motion.pivot", mo.get("pivot", 0.25), ge=-0.5, le=1.5,
                             unit="(fraction of chord aft of the leading edge)")}
     from .motion import law_problems
-    for q in ("pitch", "plunge"):
+    for q in ("pitch", "plunge", "flap"):
         if q in mo:
             spec = mo[q]
             if not isinstance(spec, (dict, list)):
@@ -423,6 +444,10 @@ def resolve(raw, base_dir, stem="scenario"):
                 k = e.key if e.key.startswith("[") else "." + e.key
                 errors.append(InputError(f"motion.{q}{k}", e.message))
             motion[q] = spec
+    if "flap" in motion and "flap_hinge" not in af:
+        errors.append(InputError("motion.flap", "needs a flap: give airfoil.flap_hinge (fraction of chord, "
+                                                f"{FLAP_HINGE_RANGE[0]:g} to {FLAP_HINGE_RANGE[1]:g}) or remove "
+                                                "motion.flap"))
     out["motion"] = motion
 
     # [run]
@@ -444,9 +469,9 @@ def resolve(raw, base_dir, stem="scenario"):
     if "dt" in ru:
         run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
     elif speed and chord and elements:
-        f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge"))
-        sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge")) if x > 0.0),
-                    default=0.0)
+        f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge", "flap"))
+        sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge", "flap"))
+                     if x > 0.0), default=0.0)
         run["dt"] = default_dt(chord, speed, elements, f_max, sigma)
     run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
     run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
@@ -500,6 +525,9 @@ def resolve(raw, base_dir, stem="scenario"):
             errors += errs
             out[name] = value
             ctx[name] = value          # a later section may depend on an earlier one (gust on aircraft)
+    if not errors and "flap_hinge" in out["airfoil"]:
+        from .flap import flap_problems
+        errors += flap_problems(out, base_dir, ctx["_warnings"])
     if ctx["_warnings"]:
         out["_warnings"] = ctx["_warnings"]
     return out, one_per_problem(errors, not_tables)

@@ -133,7 +133,7 @@ def heave_step(cl, h, h_dot, h_ddot_prev, first, dt, n_per_cl, g):
 
 
 @njit(cache=True, fastmath=True, error_model="numpy")
-def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
+def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, f_q, f_cl, f_m, f_shift, R_w, R_k, W_w, W_k,
                 cw, dw, ck, dk, h_ddot0, dt, U, c, pivot, alpha_L0, cm0, n_per_cl, g,
                 h, h_dot, h_ddot, n_load, cl, cd, cm, cm_pivot, cl_c, cl_nc, cl_gust, q34):
     """March the linear model with free heave over all rows (outputs filled in place).
@@ -149,7 +149,11 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
     * apparent mass (T. Theodorsen, NACA Report 496, 1935;
       :func:`unsteady.theory.apparent_mass`), h'' from a backward difference
       of h' (row 0: ``h_ddot0``);
-    * the heave by :func:`heave_step` (as HeaveMotion.after_step).
+    * the heave by :func:`heave_step` (as HeaveMotion.after_step);
+    * a prescribed flap's terms (:func:`unsteady.linear.model.flap_terms`, zeros
+      without a flap): ``f_q`` added to Q, ``f_cl`` to the apparent-mass lift,
+      ``f_m`` (2 cm about the pivot) to the moment, ``f_shift`` (T10 beta / pi)
+      to the angle of the drag's normal-force tilt.
 
     Inputs are float64 arrays of the N rows (alpha with the trim offset)
     and floats; R_w, R_k are the start responses (1 for a steady start).
@@ -173,7 +177,7 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
     for n in range(N):
         ad_n = alpha_dot[n]
         hdd = h_ddot0 if n == 0 else (hdc - hd_prev) / dt
-        q = alpha[n] - alpha_L0 - hdc / U + b * (0.5 - a) * ad_n / U
+        q = alpha[n] - alpha_L0 - hdc / U + b * (0.5 - a) * ad_n / U + f_q[n]
         w = w_le[n]
         u = u_le[n]
         q34[n] = q
@@ -216,13 +220,15 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, R_w, R_k, W_w, W_k,
         adb = b * ad_n / U
         add = b * b * alpha_ddot[n] / (U * U)
         clnc, M_nc = _apparent_mass(hT_ddot, adb, add, a)
+        clnc = clnc + f_cl[n]
+        M_nc = M_nc + f_m[n]
         cl_n = (clc + clnc + clg) * (1.0 + 2.0 * u / U)
         cmp_n = 0.5 * (M_nc + (a + 0.5) * clc) + clg * (pivot - 0.25) + cm0
         cl[n] = cl_n
         cm_pivot[n] = cmp_n
         cm[n] = cmp_n + (clc + clnc + clg) * (0.25 - pivot)
         a0 = (clc + clg) / two_pi - 0.5 * b * ad_n / U
-        cd[n] = cl_n * (alpha[n] - alpha_L0) - two_pi * a0 * a0
+        cd[n] = cl_n * (alpha[n] - alpha_L0 + f_shift[n]) - two_pi * a0 * a0
         cl_c[n] = clc
         cl_nc[n] = clnc
         cl_gust[n] = clg

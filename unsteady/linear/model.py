@@ -225,7 +225,8 @@ def leading_edge_a0(cl_c, alpha_dot, *, speed, chord):
 
 
 def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord, pivot,
-                 alpha_L0=0.0, cm0=0.0, w_le=None, u_le=None, start="steady", gust_start=None):
+                 alpha_L0=0.0, cm0=0.0, w_le=None, u_le=None, start="steady", gust_start=None,
+                 flap=None):
     """Lift, drag and moment histories of the linear model from plain arrays.
 
     Parameters
@@ -250,12 +251,18 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
     start : {"steady", "impulsive"}
     gust_start : {"steady", "impulsive"}, optional
         How the gust input began (default ``start``): see :func:`gust_start`.
+    flap : tuple, optional
+        ``(hinge, beta, beta_dot, beta_ddot, ch0)``: a plain flap hinged at
+        chord fraction ``hinge``, its deflection (rad, trailing edge down)
+        with exact rate and acceleration, and the camber's own hinge moment
+        ``ch0`` (:func:`unsteady.theory.flap.camber_hinge_moment`).  See
+        :func:`flap_loads`.
 
     Returns
     -------
     dict of numpy.ndarray
         cl, cd, cm (quarter chord), cm_pivot, cl_c (circulatory, motion),
-        cl_nc, cl_gust, q34 (rad), a0.
+        cl_nc, cl_gust, q34 (rad), a0; with a flap also ch.
     """
     t = np.asarray(t, dtype=float)
     U, c = float(speed), float(chord)
@@ -263,8 +270,16 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
     alpha = np.asarray(alpha, dtype=float)
     q34 = three_quarter_downwash(alpha, alpha_dot, h_dot, speed=U, chord=c, pivot=pivot,
                                  alpha_L0=alpha_L0)
+    if flap is not None:
+        fl = flap_terms(flap, alpha_dot, alpha_ddot, h_ddot, speed=U, chord=c, pivot=pivot)
+        q34 = q34 + fl["q"]
     out = motion_loads(q34, alpha_dot, alpha_ddot, h_ddot, speed=U, chord=c, pivot=pivot,
                        ds=ds, start=start)
+    if flap is not None:
+        out["cl_nc"] = out["cl_nc"] + fl["cl_nc"]
+        out["cl"] = out["cl"] + fl["cl_nc"]
+        out["cm_pivot"] = out["cm_pivot"] + 0.5 * fl["M_nc"]
+        out["cm"] = out["cm_pivot"] + out["cl"] * (0.25 - float(pivot))
     cl_gust = np.zeros_like(t)
     if w_le is not None:
         cl_gust = gust_lift(w_le, speed=U, ds=ds, start=gust_start or start)
@@ -275,12 +290,46 @@ def linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, *, speed, chord
     cm_pivot = out["cm_pivot"] + cl_gust * (float(pivot) - 0.25) + cm0
     cm = out["cm"] + cm0
     a0 = leading_edge_a0(cl_c_total, alpha_dot, speed=U, chord=c)
+    extra = {}
+    if flap is not None:
+        # hinge moment: apparent mass + T12 on the lagged downwash (C(k) Q <-> cl_c / 2 pi; the
+        # gust's lagged lift taken with the same flat-plate factor, its quasi-steady limit)
+        extra["ch"] = (fl["Mh_nc"] + fl["mh_c"] * cl_c_total / (2.0 * np.pi)) * fl["to_ch"] + flap[4]
     # Normal force tilted back by the pitch, less the leading-edge suction
     # 2 pi A0^2 (thin-airfoil theory: zero drag in steady flow); the camber
-    # counts as a shift of the angle by alpha_L0.
-    cd = cl * (alpha - alpha_L0) - 2.0 * np.pi * a0**2
+    # counts as a shift of the angle by alpha_L0, and so does a flap's steady
+    # share, by -T10 beta / pi (its term of Theodorsen's downwash).
+    shift = alpha_L0 if flap is None else alpha_L0 - fl["T10"] * np.asarray(flap[1], dtype=float) / np.pi
+    cd = cl * (alpha - shift) - 2.0 * np.pi * a0**2
     return {"cl": cl, "cd": cd, "cm": cm, "cm_pivot": cm_pivot, "cl_c": out["cl_c"],
-            "cl_nc": out["cl_nc"], "cl_gust": cl_gust, "q34": q34, "a0": a0}
+            "cl_nc": out["cl_nc"], "cl_gust": cl_gust, "q34": q34, "a0": a0, **extra}
+
+
+def flap_terms(flap, alpha_dot, alpha_ddot, h_ddot, *, speed, chord, pivot):
+    """The flap's terms of Theodorsen's theory on sampled arrays (see :func:`unsteady.theory.flap.flap_nc_terms`).
+
+    T. Theodorsen, NACA Report 496 (1935): the flap adds T10 beta/pi + b T11
+    beta'/(2 pi U) to the 3/4-chord downwash Q (so the Wagner sum lags it
+    like the pitch), apparent-mass lift and moment, and the hinge moment
+    M_beta (apparent mass plus -T12 times the lagged downwash).
+
+    Returns a dict: ``q`` (rad), ``cl_nc``, ``M_nc`` (2 cm_nc about the pivot),
+    ``Mh_nc``, ``mh_c`` (hinge moment / (rho U^2 b^2) and the factor of the
+    lagged downwash), ``to_ch`` (from M / (rho U^2 b^2) to ch = M / (q c_f^2)),
+    ``T10``.
+    """
+    from ..theory.flap import flap_nc_terms, hinge_e
+    hinge, beta, beta_dot, beta_ddot = flap[:4]
+    U, b = float(speed), 0.5 * float(chord)
+    a = 2.0 * float(pivot) - 1.0
+    e = hinge_e(hinge)
+    arr = (lambda v: np.asarray(v, dtype=float))
+    q, cl_nc, M_nc, Mh_nc, mh_c = flap_nc_terms(
+        e, a, arr(beta), b * arr(beta_dot) / U, b * b * arr(beta_ddot) / U ** 2,
+        alpha_dot=b * arr(alpha_dot) / U, alpha_ddot=b * b * arr(alpha_ddot) / U ** 2,
+        hT_ddot=-b * arr(h_ddot) / U ** 2)
+    return {"q": q, "cl_nc": cl_nc, "M_nc": M_nc, "Mh_nc": Mh_nc, "mh_c": mh_c,
+            "to_ch": 1.0 / (0.5 * (1.0 - e) ** 2), "T10": math.sqrt(1.0 - e * e) + math.acos(e)}
 
 
 def section_constants(section):
@@ -381,11 +430,15 @@ class LinearMarcher:
         :class:`~unsteady.dynamics.heave.HeaveMotion`: ``pitch``,
         ``heave_constants``, ``take_rows``) and ``accel`` is given; else the
         step-by-step Python march, which also serves any other motion object.
+    flap : dict, optional
+        A prescribed flap's terms at every row (steps + 1 values each): ``q``
+        (added to Q), ``cl_nc``, ``M_nc`` (2 cm_nc about the pivot) and
+        ``shift`` (T10 beta / pi, the drag's angle), from :func:`flap_terms`.
     """
 
     def __init__(self, motion, *, steps, dt, speed, chord, pivot, alpha_L0=0.0, cm0=0.0,
                  w_le=None, u_le=None, accel=None, start="steady", w_series=None, u_series=None,
-                 s_max=None, tail=True, compiled=True, gust_start=None):
+                 s_max=None, tail=True, compiled=True, gust_start=None, flap=None):
         self.motion = motion
         self.N = int(steps) + 1
         self.dt = float(dt)
@@ -407,6 +460,9 @@ class LinearMarcher:
             raise ValueError(f"s_max must be > 0 semichords, got {s_max!r}")
         self.tail = bool(tail)
         self.compiled = bool(compiled)
+        zero = np.zeros(self.N)
+        self.flap = {k: (zero if flap is None else np.ascontiguousarray(flap[k], dtype=float))
+                     for k in ("q", "cl_nc", "M_nc", "shift")}
 
     def _can_compile(self, on_row):
         m = self.motion
@@ -443,7 +499,7 @@ class LinearMarcher:
             w = float(self.w_le(t, h)) if self.w_le is not None else 0.0
             u = float(self.u_le(t, h)) if self.u_le is not None else 0.0
             q = float(three_quarter_downwash(alpha, alpha_dot, h_dot, speed=U, chord=c,
-                                             pivot=pv, alpha_L0=self.alpha_L0))
+                                             pivot=pv, alpha_L0=self.alpha_L0)) + self.flap["q"][n]
             H["q34"][n], H["w_le"][n] = q, w
             if n > 0:
                 dq[n] = q - H["q34"][n - 1]
@@ -457,11 +513,13 @@ class LinearMarcher:
             ad = b * alpha_dot / U
             add = b**2 * alpha_ddot / U**2
             cl_nc, M_nc = theory.apparent_mass(hT_ddot, ad, add, a)
+            cl_nc = cl_nc + self.flap["cl_nc"][n]
+            M_nc = M_nc + self.flap["M_nc"][n]
             cl = (cl_c + cl_nc + cl_g) * (1.0 + 2.0 * u / U)
             cm_pivot = 0.5 * (M_nc + (a + 0.5) * cl_c) + cl_g * (pv - 0.25) + self.cm0
             cm = cm_pivot + (cl_c + cl_nc + cl_g) * (0.25 - pv)
             a0 = (cl_c + cl_g) / (2.0 * np.pi) - 0.5 * b * alpha_dot / U
-            cd = cl * (alpha - self.alpha_L0) - 2.0 * np.pi * a0**2
+            cd = cl * (alpha - self.alpha_L0 + self.flap["shift"][n]) - 2.0 * np.pi * a0**2
             row = {"cl": cl, "cd": cd, "cm": cm, "cm_pivot": cm_pivot, "cl_impulse": cl,
                    "cd_impulse": cd, "cm_impulse": cm}
             for k, v in (("t", t), ("alpha", alpha), ("alpha_dot", alpha_dot), ("h", h),
@@ -504,7 +562,8 @@ class LinearMarcher:
                  "cl_gust", "q34")
         out = {k: np.empty(N) for k in names}
         h_end, h_dot_end = march_heave(
-            alpha, alpha_dot, alpha_ddot, w, u, R_w, R_k, Ww, Wk, cw, dw, ck, dk,
+            alpha, alpha_dot, alpha_ddot, w, u, self.flap["q"], self.flap["cl_nc"], self.flap["M_nc"],
+            self.flap["shift"], R_w, R_k, Ww, Wk, cw, dw, ck, dk,
             float(h_ddot_p[0]), dt, self.U, self.c, self.pivot, self.alpha_L0, self.cm0,
             float(hc["n_per_cl"]), float(hc["g"]), *(out[k] for k in names))
         self.motion.take_rows(out["n"], out["h_ddot"], h_end, h_dot_end)
@@ -545,12 +604,22 @@ def heave_marcher(sc, motion, gust=None, **options):
         # zero pitch meets it at known times, whatever the heave
         t_all = np.arange(steps + 1) * dt
         u_arr, w_arr = _gust_series(gust, -sc.pivot * sc.chord, t_all, np.zeros_like(t_all))
+    flap = None
+    if sc.flap_law is not None:
+        t_all = np.arange(steps + 1) * dt
+        law = sc.flap_law
+        zero = np.zeros_like(t_all)
+        fl = flap_terms((sc.data["airfoil"]["flap_hinge"], law.value(t_all), law.rate(t_all),
+                         law.accel(t_all)), zero, zero, zero, speed=sc.speed, chord=sc.chord,
+                        pivot=sc.pivot)
+        flap = {"q": fl["q"], "cl_nc": fl["cl_nc"], "M_nc": fl["M_nc"],
+                "shift": fl["T10"] * np.asarray(law.value(t_all), dtype=float) / np.pi}
     return LinearMarcher(
         motion, steps=steps, dt=dt, speed=sc.speed, chord=sc.chord, pivot=sc.pivot,
         alpha_L0=alpha_L0, cm0=cm0, w_series=w_arr,
         u_series=u_arr if gust is not None and gust.streamwise else None,
         accel=sc.kinematics.accel, start=sc.data["run"]["start"],
-        gust_start=gust_start(sc.data["run"]["start"], gust), **options)
+        gust_start=gust_start(sc.data["run"]["start"], gust), flap=flap, **options)
 
 
 def _gust_series(gust, x_le, t, h):

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -21,6 +22,8 @@ __all__ = [
     "snapshot_count",
     "core_radii",
     "airfoil_outline",
+    "flap_at",
+    "ground_height",
     "chord_line",
 ]
 
@@ -246,17 +249,42 @@ def snapshot_sources(snapshots, k, r_wake, r_body, x_shift=0.0, z_shift=0.0):
     return out
 
 
-def airfoil_outline(section, chord, pivot, alpha, h, n=81, x_shift=0.0):
+def airfoil_outline(section, chord, pivot, alpha, h, n=81, x_shift=0.0, flap=None):
     """Closed outline (x, z) in metres of the section at pitch ``alpha`` (rad), height ``h``.
 
     Body coordinates (xi aft of the pivot, zeta up) go to the solver's frame
     by :func:`unsteady.solver.to_inertial`; ``x_shift`` moves the result along x.
+    ``flap = (hinge, beta)``: the outline aft of the hinge (chord fraction) turned
+    by beta (rad, trailing edge down) about the hinge's point on the camber line.
     """
     xu, zu, xl, zl = section.outline(n)
     xf = np.concatenate([xu, xl[::-1]])
     zf = np.concatenate([zu, zl[::-1]])
+    if flap is not None and flap[1] != 0.0:
+        hinge, beta = float(flap[0]), float(flap[1])
+        z_h = float(np.asarray(section.camber(np.array([hinge])), float)[0])
+        aft = xf > hinge
+        dx, dz = xf[aft] - hinge, zf[aft] - z_h
+        xf, zf = xf.copy(), zf.copy()
+        xf[aft] = hinge + dx * math.cos(beta) + dz * math.sin(beta)
+        zf[aft] = z_h - dx * math.sin(beta) + dz * math.cos(beta)
     x, z = to_inertial((xf - pivot) * chord, zf * chord, float(alpha), float(h))
     return x + x_shift, z
+
+
+def flap_at(sc, history, t):
+    """``(hinge, beta)`` of the run's flap at time t (beta in rad, from the ``flap_deg`` history), or None."""
+    if sc is None or "flap_hinge" not in sc.data.get("airfoil", {}) or "flap_deg" not in history:
+        return None
+    beta = float(np.interp(float(t), history["t"], history["flap_deg"]))
+    return float(sc.data["airfoil"]["flap_hinge"]), math.radians(beta)
+
+
+def ground_height(sc):
+    """Height z (m, the solver's frame) of the run's ground (``[ground]``), or None."""
+    if sc is None or not sc.data.get("ground"):
+        return None
+    return float(sc.kinematics.plunge.value(0.0)) - float(sc.data["ground"]["height"])
 
 
 def chord_line(chord, pivot, alpha, h, n=2, x_shift=0.0):

@@ -57,6 +57,8 @@ TRACES = {
     "n": ("n", "load factor n"),
     "pitch": ("pitch_deg", "pitch angle (deg)"),
     "plunge": ("height_m", "height of the pitch axis (m)"),
+    "ch": ("ch", "hinge moment ch\n(trailing edge down +)"),
+    "flap": ("flap_deg", "flap angle (deg)\n(trailing edge down +)"),
 }
 FORMATS = (".mp4", ".gif")
 
@@ -615,6 +617,13 @@ class FilmRenderer:
                             edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
         ax.add_patch(self.foil)
         self.animated.append(self.foil)
+        # the ground ([ground]): fixed, or moving with the heights when the camera follows
+        self.ground_z = fields.ground_height(f.sc)
+        self.ground = None
+        if self.ground_z is not None:
+            self.ground = ax.axhline(self.ground_z, color=LOOK["ink"], lw=1.6, zorder=4, animated=f.follow)
+            if f.follow:
+                self.animated.append(self.ground)
         self._build_clock()
 
     def _build_clock(self):
@@ -633,6 +642,11 @@ class FilmRenderer:
         if f.gust_w is not None:
             fields_[-1:] = [(fields_[-1][0] + "   gust at leading edge ", "{:+.2f}", [f.gust_max, -f.gust_max]),
                             (" m/s", None, None)]
+        flap = f.hist.get("flap_deg")
+        self.flap_moves = flap is not None and bool(np.ptp(flap) > 0)
+        if self.flap_moves:
+            fields_[-1:] = [(fields_[-1][0] + "   flap ", "{:+.1f}", [np.max(flap), np.min(flap)]),
+                            (" deg", None, None)]
         self.clock_fields = [(pre, fmt, max(len(fmt.format(float(v))) for v in vals) if fmt else 0)
                              for pre, fmt, vals in fields_]
         words = "".join(pre + " " * w for pre, _fmt, w in self.clock_fields)
@@ -782,13 +796,18 @@ class FilmRenderer:
                 self.lev_dots.set_data(x[lev], z[lev], g[lev])
             else:
                 self.scat.set_data(x, z, g)
-        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh)
+        if self.ground is not None and f.follow:
+            self.ground.set_ydata([self.ground_z + f.z_shift(i)] * 2)
+        xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh,
+                                        flap=fields.flap_at(f.sc, f.hist, t))
         self.foil.set_xy(np.column_stack([xo, zo]))
         values = [t, f.U * t / f.c, math.degrees(alpha)]
         if f.heaves:
             values.append(h)
         if f.gust_w is not None:
             values.append(float(f.gust_w(np.array([-f.pivot * f.c]), t)[0]))
+        if self.flap_moves:
+            values.append(float(np.interp(t, f.hist["t"], f.hist["flap_deg"])))
         nums, self.clock_line = self._clock_numbers(values)
         self.clock.set_text(nums)
         j = int(np.searchsorted(self.tr_t, t + 1e-12))

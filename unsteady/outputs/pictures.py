@@ -276,7 +276,8 @@ def _finish(fig, result, what, path, notes=(), **margins):
 def loop_abscissa(history):
     """What the lift is drawn against in a loop: (values, axis label, words).
 
-    The pitch angle when the pitch moves; else the effective angle of attack
+    The pitch angle when the pitch moves; else the flap angle when a flap moves;
+    else the effective angle of attack
     at three-quarter chord (``alpha_eff_deg``: plunge or heave rate and gust
     included) when the run has it; else the vertical gust at the leading edge;
     else the pitch angle (nothing moved).
@@ -284,6 +285,8 @@ def loop_abscissa(history):
     h = history
     if moves(h["pitch_deg"]):
         return h["pitch_deg"], "pitch angle (deg)", "pitch"
+    if "flap_deg" in h and moves(h["flap_deg"]):
+        return h["flap_deg"], "flap angle (deg, trailing edge down +)", "flap angle"
     if "alpha_eff_deg" in h and moves(h["alpha_eff_deg"]):
         return (h["alpha_eff_deg"], "effective angle of attack at 3/4 chord (deg)\n"
                 "(pitch, plunge or heave rate and gust together)", "effective angle")
@@ -299,17 +302,19 @@ def loop_abscissa(history):
 HISTORY_ROWS = (
     ("cl", "lift coefficient cl", ""),
     ("cm", "moment coefficient cm\n(quarter chord, nose-up +)", ""),
+    ("ch", "hinge moment ch\n(trailing edge down +)", ""),
     ("n", "load factor n", ""),
     ("w_gust", "vertical gust at the\nleading edge (m/s)", " m/s"),
     ("u_gust", "streamwise gust at the\nleading edge (m/s)", " m/s"),
     ("pitch_deg", "pitch angle (deg)", " deg"),
     ("height_m", "height of the pitch axis (m)", " m"),
     ("flap_deg", "flap angle (deg)", " deg"),
+    ("ground_clearance_m", "clearance above\nthe ground (m)", " m"),
 )
 #: Inputs drawn only when they move (the loads are always drawn).
-INPUTS = ("w_gust", "u_gust", "pitch_deg", "height_m", "flap_deg")
+INPUTS = ("w_gust", "u_gust", "pitch_deg", "height_m", "flap_deg", "ground_clearance_m")
 _INPUT_WORDS = {"w_gust": "vertical gust", "u_gust": "streamwise gust", "pitch_deg": "pitch",
-                "height_m": "height", "flap_deg": "flap"}
+                "height_m": "height", "flap_deg": "flap", "ground_clearance_m": "ground clearance"}
 
 
 def plot_histories(result, path):
@@ -380,10 +385,21 @@ def plot_lift_loop(result, path):
                    bottom=0.75 if "\n" in xlabel else 0.6)
 
 
-def _outline(result, alpha, h, x_shift=0.0):
+def _outline(result, alpha, h, x_shift=0.0, t=None):
+    """The airfoil's outline at pitch alpha, height h (and its flap as deflected at time t)."""
     from . import fields
     sc = result.scenario
-    return fields.airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, x_shift=x_shift)
+    flap = None if t is None else fields.flap_at(sc, result.history, t)
+    return fields.airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, x_shift=x_shift, flap=flap)
+
+
+def draw_ground(ax, sc, z_shift=0.0, **kw):
+    """The ground line of a run with ``[ground]`` (a solid rule across the axes), or None."""
+    from . import fields
+    z_g = fields.ground_height(sc)
+    if z_g is None:
+        return None
+    return ax.axhline(z_g + z_shift, color=LOOK["ink"], lw=1.4, zorder=4, **kw)
 
 
 #: Chords of wake behind the trailing edge framed by the near-wake panel of wake.png.
@@ -426,7 +442,7 @@ def plot_wake(result, path, k=-1):
     x, z, g = s["x"][a:b], s["z"][a:b], s["gamma"][a:b]
     lev = lev_mask(s, a, b)
     c = float(sc.chord)
-    xo, zo = _outline(result, s["alpha"][k], s["h"][k])
+    xo, zo = _outline(result, s["alpha"][k], s["h"][k], t=float(s["t"][k]))
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c
     zc = 0.5 * (float(zo.min()) + float(zo.max()))
@@ -450,12 +466,15 @@ def plot_wake(result, path, k=-1):
             axis.scatter(x[lev], z[lev], c=g[lev], s=dots[lev] * 1.3, cmap=VORTEX_MAP, norm=norm, marker="D",
                          edgecolors=LOOK["lev"], linewidths=0.5, zorder=2.5)
         axis.fill(xo, zo, facecolor=LOOK["airfoil"], edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3)
+        draw_ground(axis, sc)
     ax.set_ylabel("height z (m)", fontsize=9)
     handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
                Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
     if lev.any():
         handles.append(Line2D([], [], ls="", marker="D", color=LOOK["paper"], mec=LOOK["lev"], mew=1.0,
                               label="from the leading edge"))
+    if sc.data.get("ground"):
+        handles.append(Line2D([], [], color=LOOK["ink"], lw=1.4, label="ground"))
     house_legend(ax, handles=handles, loc="upper right", ncol=len(handles),
                  title="wake vortices (dot size: strength)", title_fontsize=7)
     near = f"near wake: {NEAR_WAKE_CHORDS:g} chords behind the trailing edge"

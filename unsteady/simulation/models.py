@@ -10,6 +10,8 @@ from ..inputs.gusts import build_gust_field
 from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
+from ..vortex.flap import build_flap_body, hinge_nodes
+from ..vortex.ground import Ground
 from ..vortex.solver import (LeadingEdgeSite, SolverDiverged, StepState, TrailingEdgeSite, VortexSolver,
                              build_body)
 from .observers import Rows
@@ -252,10 +254,15 @@ class VortexModel(Model):
 
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
-        self.body = build_body(sc)
+        self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
+        gr = sc.data.get("ground")
+        # the ground sits [ground] height below the pitch axis's height at t = 0
+        self.ground = (None if not gr else
+                       Ground(float(sc.kinematics.plunge.value(0.0)) - gr["height"]))
+        self.COLUMNS = (("lesp", "gamma_lev") if sc.data["airfoil"].get("lesp_critical") is not None
+                        else ("lesp",)) + (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
+            ("ground_clearance_m",) if self.ground is not None else ())
         self._pressure = None
-        if sc.data["airfoil"].get("lesp_critical") is not None:
-            self.COLUMNS = ("lesp", "gamma_lev")
 
     def steady_cl(self, alpha, alpha_dot):
         """cl of the solver's steady start at a fixed attitude (step 0 at t = 0, no wake shed
@@ -264,7 +271,8 @@ class VortexModel(Model):
         obs = _LastCl()
         gust = self.gust if self.gust is not None and self.gust.present_at_start else None
         VortexSolver(self.body, _Fixed(alpha, alpha_dot), speed=sc.speed, density=sc.density,
-                     dt=sc.dt, steps=0, start="steady", gust=gust).run([obs])
+                     dt=sc.dt, steps=0, start="steady", gust=gust,
+                     ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([obs])
         return obs.cl
 
     def _march(self, observers):
@@ -278,18 +286,26 @@ class VortexModel(Model):
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
                               shed_offset=offset, sites=sites,
-                              core_radius=run.get("core_radius"), far_wake=run.get("far_wake"))
+                              core_radius=run.get("core_radius"), far_wake=run.get("far_wake"),
+                              ground=self.ground)
         solver.run([_Relay([self._pressure] + list(observers))])
 
     def summary(self):
         run = self.sc.data["run"]
-        return {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
-                "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+        out = {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
+               "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+        if self.ground is not None:
+            out["impulse_loads"] = ("not computed near the ground: the ground carries a share of the "
+                                    "vortices' impulse")
+        return out
 
     def snapshot_extras(self):
         """``dcp`` (per step and element) and ``x_dcp`` (element mid-points, chord fractions)."""
         p = self._pressure
-        x = camber_elements(self.sc.section, self.sc.elements).x_nodes
+        if self.sc.flap_law is None:
+            x = camber_elements(self.sc.section, self.sc.elements).x_nodes
+        else:                                   # the nodes with one on the hinge
+            x = hinge_nodes(self.sc.elements, self.sc.data["airfoil"]["flap_hinge"])[0]
         dcp = p.dcp[:p.count] if p is not None else np.zeros((0, self.sc.elements), np.float32)
         return {"dcp": dcp, "x_dcp": x[:-1] + 0.5 * np.diff(x)}
 
@@ -326,6 +342,8 @@ class LinearModel(Model):
 
     def __init__(self, sc, gust, motion, **march_options):
         super().__init__(sc, gust, motion)
+        if sc.flap_law is not None:
+            self.COLUMNS = ("cl_circulatory", "lesp", "flap_deg", "ch")
         self.alpha_L0, self.cm0 = section_constants(sc.section)
         self.march_options = march_options
         self._trim_model = None
@@ -371,6 +389,8 @@ class LinearModel(Model):
         if isinstance(self.motion, HeaveMotion):
             out = self.marcher().run()
             t, alpha, alpha_dot, h, h_dot = (out[k] for k in ("t", "alpha", "alpha_dot", "h", "h_dot"))
+            if sc.flap_law is not None:
+                out.update(self._heave_flap(out))
         else:
             t, alpha, alpha_dot, h, h_dot, out = self._prescribed()
         cl_c = out["cl_c"] + out["cl_gust"]
@@ -381,6 +401,9 @@ class LinearModel(Model):
                  "gamma_bound_m2_s": gamma_b, "gamma_wake_m2_s": gamma_0 - gamma_b,
                  "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c,
                  "lesp": self._lesp(cl_c, alpha_dot)}
+        for k in ("flap_deg", "ch"):
+            if k in out:
+                loads[k] = out[k]
         self.deliver_rows(Rows(t, alpha, alpha_dot, h, h_dot, loads), observers)
 
     def _lesp(self, cl_c, alpha_dot):
@@ -395,6 +418,23 @@ class LinearModel(Model):
         shift = self.alpha_L0 - _camber_a0_shift(self.sc.section)
         return linear.leading_edge_a0(cl_c, alpha_dot, speed=self.sc.speed, chord=self.sc.chord) + shift
 
+    def _heave_flap(self, out):
+        """``flap_deg`` and ``ch`` of a free-heave march: the hinge moment of
+        :func:`~unsteady.linear.model.flap_terms` on the marched pitch rate, the
+        prescribed pitch acceleration and the heave acceleration of the march."""
+        sc = self.sc
+        t = out["t"]
+        law, hinge = sc.flap_law, sc.data["airfoil"]["flap_hinge"]
+        h_ddot = out.get("h_ddot")
+        if h_ddot is None:            # the Python march: the backward difference it used
+            h_ddot = np.concatenate([[0.0], np.diff(out["h_dot"]) / sc.dt])
+        alpha_ddot = np.broadcast_to(np.asarray(sc.kinematics.accel(t)[0], dtype=float), t.shape)
+        fl = linear.flap_terms((hinge, law.value(t), law.rate(t), law.accel(t)), out["alpha_dot"],
+                               alpha_ddot, h_ddot, speed=sc.speed, chord=sc.chord, pivot=sc.pivot)
+        lagged = (out["cl_c"] + out["cl_gust"]) / (2.0 * np.pi)
+        ch = (fl["Mh_nc"] + fl["mh_c"] * lagged) * fl["to_ch"] + flap_camber_ch(sc.section, hinge)
+        return {"flap_deg": np.degrees(law.value(t)), "ch": ch}
+
     def _prescribed(self):
         """(t, alpha, alpha_dot, h, h_dot, loads) of a prescribed motion, summed in one pass."""
         sc, gust = self.sc, self.gust
@@ -407,15 +447,29 @@ class LinearModel(Model):
         if gust is not None:
             # the gust met by the leading edge (its path at zero pitch), m/s
             u_le, w_le = _gust_series(gust, -sc.pivot * sc.chord, t, h)
+        flap = None
+        if sc.flap_law is not None:
+            law, hinge = sc.flap_law, sc.data["airfoil"]["flap_hinge"]
+            flap = (hinge, law.value(t), law.rate(t), law.accel(t), flap_camber_ch(sc.section, hinge))
         out = linear_loads(t, alpha, alpha_dot, alpha_ddot, h_dot, h_ddot, speed=sc.speed,
                            chord=sc.chord, pivot=sc.pivot, alpha_L0=self.alpha_L0, cm0=self.cm0,
                            w_le=w_le, u_le=u_le if gust is not None and gust.streamwise else None,
                            start=sc.data["run"]["start"],
-                           gust_start=linear.gust_start(sc.data["run"]["start"], gust))
+                           gust_start=linear.gust_start(sc.data["run"]["start"], gust), flap=flap)
+        if flap is not None:
+            out["flap_deg"] = np.degrees(flap[1])
         return t, alpha, alpha_dot, h, h_dot, out
 
     def summary(self):
         return {"dt": self.sc.dt, "start": self.sc.data["run"]["start"], "elements": self.sc.elements}
+
+
+def flap_camber_ch(section, hinge):
+    """The camber's own hinge moment at zero lift (:func:`unsteady.theory.flap.camber_hinge_moment`; 0 for a flat plate)."""
+    from ..theory.flap import camber_hinge_moment
+    p = getattr(section, "p", None)
+    breaks = tuple(x for x in (p, hinge) if x)
+    return camber_hinge_moment(section.slope, hinge, breaks=breaks)
 
 
 def _camber_a0_shift(section):

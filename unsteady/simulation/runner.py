@@ -38,6 +38,14 @@ class PrescribedMotion:
         pass
 
 
+def singular_times(sc: Scenario):
+    """Instants (s) at which pitch, plunge or the flap change instantly (the summary leaves them out of the peaks)."""
+    times = set(sc.kinematics.singular_times())
+    if sc.flap_law is not None:
+        times |= set(sc.flap_law.singular_times())
+    return sorted(times)
+
+
 def snapshot_interval(sc: Scenario) -> int:
     """Steps between wake snapshots (``output.snapshot_every`` seconds; 0 = ~200 per run)."""
     every_s = sc.data["output"].get("snapshot_every", 0.0) or 0.0
@@ -144,7 +152,7 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
     settle = (startup_interval(sc) if gust is not None and gust.present_at_start
               and sc.data.get("aircraft") else 0.0)
     summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra,
-                           impulse_times=sc.kinematics.singular_times(), dt=sc.dt,
+                           impulse_times=singular_times(sc), dt=sc.dt,
                            chord_time=sc.chord / sc.speed, settle_s=settle,
                            running_mean_s=running_mean_s(history, sc))
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0

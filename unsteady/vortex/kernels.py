@@ -40,7 +40,7 @@ TWO_PI = 2.0 * math.pi
 PARALLEL_PAIRS = 250_000
 
 
-def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
+def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w, ground=None, images_only=False):
     """Velocity induced at targets by regularised point vortices (in place).
 
     Parameters
@@ -53,10 +53,24 @@ def induced_velocity(xt, zt, xs, zs, gamma, r_c, u, w):
         Vatistas core radius (m); 0 gives the singular point vortex.
     u, w : float64 arrays, len(xt)
         Output, overwritten with the induced velocity (m/s).
+    ground : float, optional
+        Height z_g (m) of a flat ground: every source then has its image at
+        (xs, 2 z_g - zs) with circulation -gamma (method of images, L. M.
+        Milne-Thomson, *Theoretical Hydrodynamics*, 5th ed., 1968, sec. 13.6),
+        summed in the same loop.
+    images_only : bool
+        With ``ground``, the images alone (a body's own images on itself).
 
     Large sums go to the threaded kernel, small ones to the one-thread twin
     (the same arithmetic), so short steps do not pay for waking the threads.
     """
+    if ground is not None:
+        real = not images_only
+        if xt.shape[0] * xs.shape[0] * 2 >= PARALLEL_PAIRS:
+            _induced_ground_threads(xt, zt, xs, zs, gamma, r_c, float(ground), real, u, w)
+        else:
+            _induced_ground_rows(xt, zt, xs, zs, gamma, r_c, float(ground), real, u, w, 0, xt.shape[0])
+        return
     if xt.shape[0] * xs.shape[0] >= PARALLEL_PAIRS:
         _induced_velocity_threads(xt, zt, xs, zs, gamma, r_c, u, w)
     else:
@@ -116,6 +130,62 @@ def normal_influence(xt, zt, nx, nz, xs, zs, r_c, a):
             r2 = dx * dx + dz * dz
             f = inv_2pi / math.sqrt(r2 * r2 + r_c4)
             a[i, j] = f * (-dz * nx[i] + dx * nz[i])
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _induced_ground_rows(xt, zt, xs, zs, gamma, r_c, z_g, real, u, w, i0, i1):
+    """The Biot-Savart sum with each source's ground image (targets i0 <= i < i1)."""
+    ns = xs.shape[0]
+    r_c4 = r_c * r_c * r_c * r_c
+    inv_2pi = 1.0 / TWO_PI
+    for i in range(i0, i1):
+        x_i = xt[i]
+        z_i = zt[i]
+        su = 0.0
+        sw = 0.0
+        for j in range(ns):
+            dx = x_i - xs[j]
+            if real:
+                dz = z_i - zs[j]
+                r2 = dx * dx + dz * dz
+                f = gamma[j] / math.sqrt(r2 * r2 + r_c4)
+                su -= f * dz
+                sw += f * dx
+            dz = z_i - (2.0 * z_g - zs[j])
+            r2 = dx * dx + dz * dz
+            f = -gamma[j] / math.sqrt(r2 * r2 + r_c4)
+            su -= f * dz
+            sw += f * dx
+        u[i] = su * inv_2pi
+        w[i] = sw * inv_2pi
+
+
+@njit(parallel=True, cache=True, error_model="numpy")
+def _induced_ground_threads(xt, zt, xs, zs, gamma, r_c, z_g, real, u, w):
+    nt = xt.shape[0]
+    blocks = min(nt, 64)
+    for k in prange(blocks):
+        _induced_ground_rows(xt, zt, xs, zs, gamma, r_c, z_g, real, u, w,
+                             k * nt // blocks, (k + 1) * nt // blocks)
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def normal_influence_ground(xt, zt, nx, nz, xs, zs, r_c, z_g, a):
+    """:func:`normal_influence` with each source's ground image (at 2 z_g - zs, circulation -1)."""
+    nt = xt.shape[0]
+    ns = xs.shape[0]
+    r_c4 = r_c * r_c * r_c * r_c
+    inv_2pi = 1.0 / TWO_PI
+    for i in range(nt):
+        for j in range(ns):
+            dx = xt[i] - xs[j]
+            dz = zt[i] - zs[j]
+            r2 = dx * dx + dz * dz
+            f = inv_2pi / math.sqrt(r2 * r2 + r_c4)
+            dzi = zt[i] - (2.0 * z_g - zs[j])
+            r2i = dx * dx + dzi * dzi
+            fi = inv_2pi / math.sqrt(r2i * r2i + r_c4)
+            a[i, j] = f * (-dz * nx[i] + dx * nz[i]) - fi * (-dzi * nx[i] + dx * nz[i])
 
 
 def velocity(xt, zt, xs, zs, gamma, r_c=0.0):

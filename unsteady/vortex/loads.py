@@ -68,8 +68,10 @@ class LoadHistory:
     quarter chord / (q c^2), q = rho U^2 / 2 with U the mean flight speed.
     """
 
-    def __init__(self, body, speed, density, dt):
+    def __init__(self, body, speed, density, dt, hinge=None):
         self.body = body
+        #: (xi_h, zeta_h, k, c_f): hinge point (body frame, m), first flap element, flap chord (m)
+        self.hinge = hinge
         self.U = speed
         self.rho = density
         self.dt = dt
@@ -87,13 +89,28 @@ class LoadHistory:
         # Nose-up moment arm of a unit normal force at each element's start
         # node about a reference point: m0 = (zeta0 - zeta_ref) n_xi - (xi0 - xi_ref) n_zeta,
         # and the rate along the element: t_zeta n_xi - t_xi n_zeta (= -1).
-        self.arm_ref = self._arm(b.xi_ref, b.zeta_ref)
-        self.arm_piv = self._arm(0.0, 0.0)
-        self.arm_slope = b.t_zeta * b.n_xi - b.t_xi * b.n_zeta
+        self._arms()
         self.gamma_hist = []
         self.phi_hist = []
         self.imp_hist = []
         self.dcp_last = np.zeros(N)
+
+    def _arms(self):
+        b = self.body
+        self.arm_ref = self._arm(b.xi_ref, b.zeta_ref)
+        self.arm_piv = self._arm(0.0, 0.0)
+        self.arm_slope = b.t_zeta * b.n_xi - b.t_xi * b.n_zeta
+        if self.hinge is not None:
+            self.arm_hinge = self._arm(self.hinge[0], self.hinge[1])
+
+    def reshape(self, body):
+        """The body's elements moved in its own frame (a deflected flap): new normals and arms.
+
+        The element lengths are unchanged (the flap turns rigidly), so the
+        potential-jump integrals ``Pm``, ``Qm`` stay.
+        """
+        self.body = body
+        self._arms()
 
     def _arm(self, xi_r, zeta_r):
         b = self.body
@@ -166,6 +183,9 @@ class LoadHistory:
         v_t = u_rel * (b.t_xi * ca + b.t_zeta * sa) + w_rel * (-b.t_xi * sa + b.t_zeta * ca)
         dp = -rho * (v_t * gamma_b / b.ds + dP / b.ds)
         self.dcp_last = dp / q
+        extra = {}
+        if self.hinge is not None:
+            extra["ch"] = self._hinge_moment(ca, sa, h, xv, zv, fx_kj, fz_kj, dP, dQ)
         # -- vortex impulse, in the frame of the air at rest
         S0 = gs.sum()
         S1x = (gs * xs).sum()
@@ -196,4 +216,16 @@ class LoadHistory:
             "cm_impulse": -M_ccw / (q * c * c),
             "gamma_bound_m2_s": float(gamma_b.sum()),
             "gamma_wake_m2_s": float(gs.sum() - gamma_b.sum()),
+            **extra,
         }
+
+    def _hinge_moment(self, ca, sa, h, xv, zv, fx_kj, fz_kj, dP, dQ):
+        """ch = M_hinge / (q c_f^2): the flap elements' loads about the hinge, nose-up sense
+        (positive pushes the trailing edge down), by the same two parts as the moment."""
+        xi_h, zeta_h, k, c_f = self.hinge
+        x_h = xi_h * ca + zeta_h * sa
+        z_h = h - xi_h * sa + zeta_h * ca
+        f = slice(k, None)
+        M_kj = ((zv[f] - z_h) * fx_kj[f] - (xv[f] - x_h) * fz_kj[f]).sum()
+        M_un = (-self.rho) * (self.arm_hinge[f] @ dP[f] + self.arm_slope[f] @ dQ[f])
+        return float((M_kj + M_un) / (self.q * c_f * c_f))

@@ -8,13 +8,14 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .bodies import Body, BodyPoints, RigidCamber, as_body_models, build_body, rotate, to_inertial
-from .kernels import induced_velocity, normal_influence
+from .kernels import induced_velocity, normal_influence, normal_influence_ground
 from .loads import LoadHistory
 from .sites import LeadingEdgeSite, SheddingSite, TrailingEdgeSite
 from .system import BodySystem, solve_bordered
 from .wake import FarWake, VortexStore
 
-__all__ = ["Body", "BodyPoints", "LeadingEdgeSite", "RigidCamber", "SheddingSite", "SolverDiverged", "StepState",
+__all__ = ["Body", "BodyPoints", "GroundContact", "LeadingEdgeSite", "RigidCamber", "SheddingSite",
+           "SolverDiverged", "StepState",
            "TrailingEdgeSite", "VortexSolver", "build_body", "default_core_radii", "rotate",
            "solve_bordered", "to_inertial"]
 
@@ -31,6 +32,17 @@ class SolverDiverged(RuntimeError):
         self.step = step
         self.t = t
         self.cause = cause
+
+
+class GroundContact(SolverDiverged):
+    """A body would touch the ground (``[ground]``): the run stops there, the steps before it kept."""
+
+    def __init__(self, step: int, t: float, gap: float):
+        RuntimeError.__init__(self, f"the airfoil would touch the ground at step {step} (t = {t:.6g} s): "
+                                    f"its lowest point is {gap:.3g} m from it")
+        self.step = step
+        self.t = t
+        self.cause = "ground contact"
 
 
 @dataclass
@@ -186,23 +198,37 @@ class VortexSolver:
     3. ``changed(t)``: True when its points moved in the body frame since
        the last factorization (a hinged flap when its deflection changed);
        the matrix of all bodies is then rebuilt and refactored, and only
-       then.  A deforming body must also add its own surface velocity in
-       ``_place`` (not yet a hook: rigid bodies have none).
+       then.  A body whose points move must also give their velocity,
+       ``surface_velocity`` (below).
     4. ``trailing_edge(t)`` for its trailing-edge site; ``geometry``: the
-       :class:`~unsteady.vortex.bodies.Body` its loads are computed on.
+       :class:`~unsteady.vortex.bodies.Body` its loads are computed on (a
+       new object when its points moved: the loads then take its normals).
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
-    one wake with site indices), but their loads are not yet combined:
-    ``loads`` is the first body's pressure-route row, its impulse columns
-    count everything; ``body_loads`` lists each body's.
+    one wake with site indices, every body's bound vortices in every other's
+    loads), but their loads are not yet combined: ``loads`` is the first
+    body's pressure-route row, its impulse columns count everything;
+    ``body_loads`` lists each body's.
 
-    **A ground image** needs an image option of the kernels
-    (:mod:`~unsteady.vortex.kernels`): each source mirrored about the ground
-    with opposite circulation, in ``induced_velocity`` and
-    ``normal_influence``.  The bodies' own images then make the matrix depend
-    on the height, so it must be refactored when h changes (or the image
-    part carried as a per-step correction), and the far wake and the sites'
-    columns see the images through the same kernels.
+    **A ground** (``ground``, :class:`~unsteady.vortex.ground.Ground`): the
+    kernels' image option (:mod:`~unsteady.vortex.kernels`: each source
+    mirrored about the ground with opposite circulation) in every sum of the
+    wake, the far wake, the sites' columns and the matrix; the bodies' own
+    images make the matrix depend on the attitude and height, so with a
+    ground it is built on the placed points and refactored whenever alpha,
+    h or a body's points change; the loads add the bound vortices' images
+    at the vortex points.  ``_place`` measures the clearance and stops the
+    run with :class:`GroundContact` before a body would touch.  The vortex
+    impulse of the real vortices is no longer the force on the body (the
+    ground carries a share), so the impulse columns are NaN.
+
+    **A body that moves in its own frame** (a hinged flap,
+    :class:`~unsteady.vortex.flap.HingedFlapCamber`) adds
+    ``surface_velocity(t, alpha, h) -> (u_c, w_c, u_v, w_v)`` (or None while
+    still), its points' own velocity at the collocation and vortex points,
+    which the boundary condition and the loads subtract like the rigid
+    motion's; a ``hinge`` attribute gives its loads the hinge moment ``ch``,
+    and ``deflection(t)`` the history's ``flap_deg``.
 
     Parameters
     ----------
@@ -249,6 +275,8 @@ class VortexSolver:
         Time of the first row (s).
     sites : sequence of SheddingSite, optional
         Default: one :class:`~unsteady.vortex.sites.TrailingEdgeSite` per body.
+    ground : Ground, optional
+        A flat fixed ground (see above); None: free air.
     """
 
     STAGES = ("_place", "_air_velocities", "_shed", "_solve", "_loads", "_observe",
@@ -258,7 +286,7 @@ class VortexSolver:
 
     def __init__(self, body, motion, *, speed, density, dt, steps, wake="free",
                  start="steady", gust=None, shed_offset=0.3, core_radius=None,
-                 body_core_radius=None, far_wake=None, t0=0.0, sites=None):
+                 body_core_radius=None, far_wake=None, t0=0.0, sites=None, ground=None):
         self.models = as_body_models(body)
         self.body = self.models[0].geometry
         self.motion = motion
@@ -282,6 +310,8 @@ class VortexSolver:
         # assembly's rigid motion): factored once, refactored only when a body
         # reports that it moved in that frame
         self.system = BodySystem(self.models, self.t0)
+        self.ground = ground
+        self.z_g = None if ground is None else float(ground.z)
 
     # ------------------------------------------------------------------
     def run(self, observers=()):
@@ -313,7 +343,8 @@ class VortexSolver:
         N = self.system.n
         self.store = VortexStore(N, len(self.sites) * (self.steps + 1) + 2, single_site=len(self.sites) == 1)
         self.far = FarWake()
-        self.load_histories = [LoadHistory(m.geometry, self.U, self.rho, self.dt) for m in self.models]
+        self.load_histories = [LoadHistory(m.geometry, self.U, self.rho, self.dt, hinge=getattr(m, "hinge", None))
+                               for m in self.models]
         self.bound_sum = [0.0] * len(self.models)     # each body's bound circulation, last step
         self.gamma_start = 0.0                        # starting vortex at infinity (steady start)
         self.lump_n = max(1, int(round(self.body.chord / (self.U * self.dt))))
@@ -334,7 +365,10 @@ class VortexSolver:
     def _place(self, s):
         """Stage 1: motion state, refactor if a body moved, bodies placed, sites located."""
         s.alpha, s.alpha_dot, s.h, s.h_dot = self.motion.state(s.t)
-        self.system.refactor_if_changed(s.t)
+        if self.ground is None:
+            self.system.refactor_if_changed(s.t)
+        else:
+            moved = any([m.changed(s.t) for m in self.models])
         placed = []
         for model in self.models:
             p = model.points(s.t)
@@ -345,6 +379,10 @@ class VortexSolver:
         s.xc, s.zc, s.xv, s.zv, s.nx, s.nz = columns
         s.tx = np.concatenate((s.xc, s.xv))       # the targets of stage 2
         s.tz = np.concatenate((s.zc, s.zv))
+        s.own = _own_velocities(self.models, s)
+        if self.ground is not None:
+            s.clearance = self.ground.clearance(self.models, s)
+            self.system.refactor_placed(s, self.z_g, moved)
         for site in self.sites:
             site.locate(s)
 
@@ -354,14 +392,14 @@ class VortexSolver:
         if self.store.m > 0:
             soft = self._soft_indices() if self.soft_sites else None
             if soft is None or soft.size == 0:
-                induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw)
-            else:
+                induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw, ground=self.z_g)
+            else:                                  # (no ground with leading-edge shedding: check refuses it)
                 self._soften(s.tx, s.tz, tu, tw, soft)
         else:
             tu[:] = 0.0
             tw[:] = 0.0
         if self.far.n > 0:
-            induced_velocity(s.tx, s.tz, *self.far.views(), self.r_c, self._fu, self._fw)
+            induced_velocity(s.tx, s.tz, *self.far.views(), self.r_c, self._fu, self._fw, ground=self.z_g)
             tu += self._fu
             tw += self._fw
         tu += self.U
@@ -373,6 +411,9 @@ class VortexSolver:
         N = self.system.n
         ub_c = s.alpha_dot * (s.zc - s.h)          # body velocity at the collocation points
         wb_c = s.h_dot - s.alpha_dot * s.xc
+        if s.own is not None:                      # a body's own motion in its frame (a moving flap)
+            ub_c = ub_c + s.own[0]
+            wb_c = wb_c + s.own[1]
         # right-hand side of the no-penetration rows (the shed stage's trial solves use it)
         s.rhs = -((s.u_air[:N] - ub_c) * s.nx + (s.w_air[:N] - wb_c) * s.nz)
 
@@ -437,8 +478,12 @@ class VortexSolver:
             if site.sheds(s):
                 x, z = site.propose(s)
                 col = np.empty((self.system.n, 1))
-                normal_influence(s.xc, s.zc, s.nx, s.nz, np.array([x]), np.array([z]),
-                                 self.r_soft if site.index in self.soft_sites else self.r_b, col)
+                r_core = self.r_soft if site.index in self.soft_sites else self.r_b
+                if self.z_g is None:
+                    normal_influence(s.xc, s.zc, s.nx, s.nz, np.array([x]), np.array([z]), r_core, col)
+                else:
+                    normal_influence_ground(s.xc, s.zc, s.nx, s.nz, np.array([x]), np.array([z]),
+                                            r_core, self.z_g, col)
                 s.proposals.append(Proposal(site, x, z, col[:, 0]))
 
     def _solve(self, s):
@@ -477,15 +522,41 @@ class VortexSolver:
                                    self.r_soft if p.site.index in self.soft_sites else self.r_b)
             uv += du
             wv += dw
+            if self.z_g is not None:              # and its ground image
+                du, dw = _point_vortex(s.xv, s.zv, p.x, 2.0 * self.z_g - p.z, -p.gamma, self.r_b)
+                uv += du
+                wv += dw
+        if len(self.system.slices) > 1:           # every other body's bound vortices
+            for sl in self.system.slices:
+                others = np.ones(N, dtype=bool)
+                others[sl] = False
+                iu, iw = np.empty(sl.stop - sl.start), np.empty(sl.stop - sl.start)
+                induced_velocity(s.xv[sl], s.zv[sl], s.xv[others], s.zv[others], s.gamma[others],
+                                 0.0, iu, iw)
+                uv[sl] += iu
+                wv[sl] += iw
+        if self.z_g is not None:                  # the bound vortices' own images
+            iu, iw = np.empty(N), np.empty(N)
+            induced_velocity(s.xv, s.zv, s.xv, s.zv, s.gamma, 0.0, iu, iw, ground=self.z_g,
+                             images_only=True)
+            uv += iu
+            wv += iw
         uv -= s.alpha_dot * (s.zv - s.h)
         wv -= s.h_dot - s.alpha_dot * s.xv
+        if s.own is not None:
+            uv -= s.own[2]
+            wv -= s.own[3]
         xs, zs, gs = self.store.sources()
         s.far_total = far = self.far.total()
         s.loads = []
-        for b, (hist, sl) in enumerate(zip(self.load_histories, self.system.slices)):
+        for b, (hist, sl, model) in enumerate(zip(self.load_histories, self.system.slices, self.models)):
+            if hist.body is not model.geometry:   # a deflected flap: new normals and arms
+                hist.reshape(model.geometry)
             row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
                            self.gamma_start + far, phi_le=self._phi_le.get(b))
             row["gamma_wake_m2_s"] += far
+            if self.z_g is not None:              # the ground carries a share of the impulse
+                row["cl_impulse"] = row["cd_impulse"] = row["cm_impulse"] = math.nan
             row["lesp"] = s.lesp[len(s.loads)]
             s.loads.append(row)
         for site in self.sites:
@@ -497,12 +568,17 @@ class VortexSolver:
         """Stage 6: the observers see the step; the motion takes the loads."""
         st, far, te = self.store, self.far, self.sites[0]
         wx, wz, wg = st.wake()
+        extra = {"gamma_start": self.gamma_start, "gamma_far": s.far_total, "x_te": te.x, "z_te": te.z,
+                 "leading_edge_sites": self._le_sites}
+        if hasattr(self.models[0], "deflection"):
+            extra["flap_deg"] = math.degrees(self.models[0].deflection(s.t))
+        if self.ground is not None:
+            extra["ground_clearance_m"] = s.clearance
         state = StepState(n=s.n, t=s.t, alpha=s.alpha, alpha_dot=s.alpha_dot, h=s.h, h_dot=s.h_dot,
                           gamma_bound=s.gamma, x_wake=wx, z_wake=wz, gamma_wake=wg,
                           x_body=s.xv, z_body=s.zv, loads=s.loads[0],
                           dcp=self.load_histories[0].dcp_last,
-                          extra={"gamma_start": self.gamma_start, "gamma_far": s.far_total,
-                                 "x_te": te.x, "z_te": te.z, "leading_edge_sites": self._le_sites},
+                          extra=extra,
                           wake_site=st.site[:st.m], far_x=far.x[:far.n], far_z=far.z[:far.n],
                           far_gamma=far.g[:far.n], far_site=far.site[:far.n], body_loads=s.loads)
         for obs in self.observers:
@@ -516,7 +592,8 @@ class VortexSolver:
             return
         if self.free_wake:
             u, w = st.velocities(self.U, self.r_c, self.r_b, self.gust, s.t,
-                                 self._soft_indices() if self.soft_sites else None, self.r_soft)
+                                 self._soft_indices() if self.soft_sites else None, self.r_soft,
+                                 ground=self.z_g)
         else:
             u, w = st.frozen_velocities(self.U)
         if not np.isfinite(u).all() or not np.isfinite(w).all():
@@ -611,6 +688,16 @@ def _check_sites(sites, n_bodies):
         if kelvin != 1:
             raise ValueError(f"body {b} has {kelvin} Kelvin sites; each body needs exactly one "
                              "(its trailing edge), whose row keeps the body's circulation")
+
+
+def _own_velocities(models, s):
+    """The bodies' own velocities in their frame (``surface_velocity``), concatenated; None if none moves."""
+    parts = [m.surface_velocity(s.t, s.alpha, s.h) if hasattr(m, "surface_velocity") else None
+             for m in models]
+    if all(p is None for p in parts):
+        return None
+    return tuple(np.concatenate([p[i] if p is not None else np.zeros(m.n) for p, m in zip(parts, models)])
+                 for i in range(4))
 
 
 def _point_vortex(x, z, xs, zs, gamma, r_c):

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .kernels import normal_influence
+from .kernels import normal_influence, normal_influence_ground
 
 
 def solve_bordered(a_inv, reduced_rows, columns, d, r, e):
@@ -105,6 +105,30 @@ class BodySystem:
                 self._factor(t)
                 return True
         return False
+
+    def refactor_placed(self, step, z_ground, moved):
+        """With a ground: rebuild the matrix on the placed points (with the bound vortices' images).
+
+        The images break the invariance under the assembly's motion, so the
+        matrix is refactored whenever pitch or height changed since the last
+        factorization, or a body's points ``moved``; True if it was.
+        """
+        key = (step.alpha, step.h)
+        if not moved and key == getattr(self, "_placed_key", None):
+            return False
+        a = np.empty((self.n, self.n))
+        normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
+                                float(z_ground), a)
+        self.a_inv = np.linalg.inv(a)
+        self.version += 1
+        self._kelvin = {}
+        self._placed_key = key
+        # the suction parameter reads the bodies' own (free-air) influence on themselves
+        free = np.empty((self.n, self.n))
+        normal_influence(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0, free)
+        self._a, self._t = free, step.t
+        self._suction = {}
+        return True
 
     def kelvin_row(self, body):
         """``c A^-1`` for the row that sums the bound circulation of one body (cached)."""

@@ -68,26 +68,28 @@ class VortexStore:
         b = self.nb + self.m
         return self.x[:b], self.z[:b], self.g[:b]
 
-    def velocities(self, U, r_c, r_b, gust, t, soft=None, r_soft=None):
+    def velocities(self, U, r_c, r_b, gust, t, soft=None, r_soft=None, ground=None):
         """Velocity (m/s) of the air at the wake vortices: wake, bound vortices, freestream, gust.
 
         The bound vortices act through the core ``r_b``, on the wake vortices
-        ``soft`` (indices) through ``r_soft``.  Returns views of the store's
+        ``soft`` (indices) through ``r_soft``; ``ground``: height (m) of a flat
+        ground whose images the sums include.  Returns views of the store's
         buffers.
         """
         m, nb = self.m, self.nb
         wx, wz, wg = self.wake()
         u, w = self.vel_u[:m], self.vel_w[:m]
-        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w)
+        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground=ground)
         if soft is None or soft.size == 0:
-            induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
+            induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m],
+                             ground=ground)
         else:
             hard = np.ones(m, bool)
             hard[soft] = False
             for sel, r in ((hard, r_b), (soft, r_soft)):
                 xt, zt = wx[sel], wz[sel]
                 su, sw = np.empty(xt.size), np.empty(xt.size)
-                induced_velocity(xt, zt, self.x[:nb], self.z[:nb], self.g[:nb], r, su, sw)
+                induced_velocity(xt, zt, self.x[:nb], self.z[:nb], self.g[:nb], r, su, sw, ground=ground)
                 self.bu[:m][sel] = su
                 self.bw[:m][sel] = sw
         u += self.bu[:m] + U
