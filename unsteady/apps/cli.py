@@ -79,9 +79,28 @@ def build_parser(argv=None):
 _RECEIVED = []
 
 
+#: Seconds between repeats of an interrupt that has not yet unwound the program (see _on_signal).
+_REPEAT_S = 0.05
+
+
 def _on_signal(signum, frame):
+    """Turn Ctrl-C and SIGTERM into an exception, and repeat it until the program unwinds.
+
+    An exception raised while a C library calls back into Python (numba's
+    cache notification while it compiles a kernel, say) is printed as
+    "Exception ignored" and dropped, and the program would run on as if no
+    signal had come; so the first signal also starts a timer that raises the
+    same interrupt again every :data:`_REPEAT_S` s until :func:`_settle` stops it.
+    """
+    if not _RECEIVED and hasattr(signal, "setitimer"):
+        signal.signal(signal.SIGALRM, _again)
+        signal.setitimer(signal.ITIMER_REAL, _REPEAT_S, _REPEAT_S)
     _RECEIVED.append(signum)
-    if signum == signal.SIGTERM:
+    _again(signum, frame)
+
+
+def _again(signum, frame):
+    if signal.SIGTERM in _RECEIVED:
         raise Interrupted()
     raise KeyboardInterrupt()
 
@@ -95,7 +114,9 @@ def _received():
 
 def _settle():
     """Ignore further Ctrl-C and SIGTERM while the process winds down (no second traceback)."""
-    for sig in (signal.SIGINT, signal.SIGTERM):
+    if hasattr(signal, "setitimer"):
+        signal.setitimer(signal.ITIMER_REAL, 0)
+    for sig in (signal.SIGINT, signal.SIGTERM, getattr(signal, "SIGALRM", signal.SIGTERM)):
         try:
             signal.signal(sig, signal.SIG_IGN)
         except (ValueError, OSError):
