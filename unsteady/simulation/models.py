@@ -10,6 +10,7 @@ from ..inputs.gusts import build_gust_field
 from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
+from ..vortex.panels import build_surface
 from ..vortex.solver import SolverDiverged, StepState, VortexSolver, build_body
 from .observers import Rows
 
@@ -239,6 +240,30 @@ class _PressureRows:
         self.count = s.n + 1
 
 
+class _SurfaceRows:
+    """Outside Cp per step and panel of a thick section (``snapshots["cp"]``) and the lower-minus-upper
+    difference at the lower surface's chord stations (``dcp``, as for a camber line)."""
+
+    def __init__(self, steps, model):
+        self.model = model
+        g = model.geometry
+        self.half = g.n // 2
+        self.cp = np.full((steps + 1, g.n), np.nan, dtype=np.float32)
+        self.dcp = np.full((steps + 1, self.half), np.nan, dtype=np.float32)
+        self.count = 0
+
+    def on_step(self, s):
+        loads = self.model.loads
+        self.cp[s.n] = loads.cp_last
+        self.dcp[s.n] = loads.dcp_last
+        self.count = s.n + 1
+
+    def extras(self):
+        g = self.model.geometry
+        return {"cp": self.cp[:self.count], "x_surface": g.x_surface, "z_surface": g.z_surface,
+                "dcp": self.dcp[:self.count], "x_dcp": g.x_surface[:self.half][::-1].copy()}
+
+
 @register_model("vortex")
 class VortexModel(Model):
     """The time-marching discrete-vortex model (:mod:`unsteady.vortex.solver`), row by row (rule 4a).
@@ -249,7 +274,8 @@ class VortexModel(Model):
 
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
-        self.body = build_body(sc)
+        self.thick = bool(sc.data["airfoil"].get("thick"))
+        self.body = build_surface(sc) if self.thick else build_body(sc)
         self._pressure = None
 
     def steady_cl(self, alpha, alpha_dot):
@@ -264,7 +290,8 @@ class VortexModel(Model):
 
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]
-        self._pressure = _PressureRows(sc.steps, sc.elements)
+        self._pressure = (_SurfaceRows(sc.steps, self.body) if self.thick
+                          else _PressureRows(sc.steps, sc.elements))
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
                               shed_offset=run.get("shed_offset", 0.3),
@@ -273,12 +300,17 @@ class VortexModel(Model):
 
     def summary(self):
         run = self.sc.data["run"]
-        return {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
-                "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+        out = {"dt": self.sc.dt, "wake": run["wake"], "start": run["start"],
+               "elements": self.sc.elements, "far_wake_chords": run.get("far_wake")}
+        if self.thick:
+            out["section_model"] = "surface panels (thick)"
+        return out
 
     def snapshot_extras(self):
         """``dcp`` (per step and element) and ``x_dcp`` (element mid-points, chord fractions)."""
         p = self._pressure
+        if self.thick:
+            return p.extras()
         x = camber_elements(self.sc.section, self.sc.elements).x_nodes
         dcp = p.dcp[:p.count] if p is not None else np.zeros((0, self.sc.elements), np.float32)
         return {"dcp": dcp, "x_dcp": x[:-1] + 0.5 * np.diff(x)}

@@ -170,6 +170,10 @@ class VortexSolver:
        ``_place`` (not yet a hook: rigid bodies have none).
     4. ``trailing_edge(t)`` for its trailing-edge site; ``geometry``: the
        :class:`~unsteady.vortex.bodies.Body` its loads are computed on.
+    5. Optionally (a thick section, :mod:`~unsteady.vortex.panels`):
+       ``influence_matrix()``, its own block of the body matrix (then it must
+       be the only body), and ``load_history(U, rho, dt)``, its own loads
+       object, whose ``add_step(solver, step, slice)`` returns the loads dict.
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
     one wake with site indices), but their loads are not yet combined:
@@ -293,7 +297,8 @@ class VortexSolver:
         N = self.system.n
         self.store = VortexStore(N, len(self.sites) * (self.steps + 1) + 2, single_site=len(self.sites) == 1)
         self.far = FarWake()
-        self.load_histories = [LoadHistory(m.geometry, self.U, self.rho, self.dt) for m in self.models]
+        self.load_histories = [m.load_history(self.U, self.rho, self.dt) if hasattr(m, "load_history")
+                               else LoadHistory(m.geometry, self.U, self.rho, self.dt) for m in self.models]
         self.bound_sum = [0.0] * len(self.models)     # each body's bound circulation, last step
         self.gamma_start = 0.0                        # starting vortex at infinity (steady start)
         self.lump_n = max(1, int(round(self.body.chord / (self.U * self.dt))))
@@ -391,8 +396,11 @@ class VortexSolver:
         s.far_total = far = self.far.total()
         s.loads = []
         for hist, sl in zip(self.load_histories, self.system.slices):
-            row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
-                           self.gamma_start + far)
+            if hasattr(hist, "add_step"):          # a body with its own loads (surface panels)
+                row = hist.add_step(self, s, sl)
+            else:
+                row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
+                               self.gamma_start + far)
             row["gamma_wake_m2_s"] += far
             s.loads.append(row)
         if not (np.isfinite(s.gamma).all() and all(math.isfinite(r["cl"]) for r in s.loads)):
