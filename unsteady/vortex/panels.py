@@ -130,6 +130,15 @@ class SurfaceGeometry:
     def from_section(cls, section, n_panels, chord, pivot):
         """Panel the section's outline (see :func:`surface_nodes`)."""
         x, z = surface_nodes(section, n_panels)
+        z_ref = float(np.asarray(section.camber(np.array([0.25])), float)[0])
+        return cls.from_nodes(x, z, chord, pivot, z_ref)
+
+    @classmethod
+    def from_nodes(cls, x, z, chord, pivot, z_ref=0.0):
+        """From outline nodes in chord fractions (lower trailing edge -> leading edge -> upper
+        trailing edge, first and last the same point); ``z_ref``: height of the moment reference
+        at the quarter chord (chord fraction)."""
+        x, z = np.asarray(x, float), np.asarray(z, float)
         xi = (x - pivot) * chord
         zeta = z * chord
         dx, dz = np.diff(xi), np.diff(zeta)
@@ -140,7 +149,7 @@ class SurfaceGeometry:
         w[1:] += 0.5 * ds
         area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))   # clockwise: shoelace sign
         xm, zm = 0.5 * (x[:-1] + x[1:]), 0.5 * (z[:-1] + z[1:])
-        z_ref = float(np.asarray(section.camber(np.array([0.25])), float)[0]) * chord
+        z_ref = float(z_ref) * chord
         return cls(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
                    t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w,
                    x_surface=xm, z_surface=zm, xi_ref=(0.25 - pivot) * chord, zeta_ref=z_ref,
