@@ -262,6 +262,17 @@ class SurfaceLoads:
         self._index = np.arange(N)
         self._coarse = np.unique(np.append(np.arange(0, N, COARSE), N - 1))
         self._none = -np.ones(self._coarse.shape[0], dtype=np.int64)
+        self._none_all = -np.ones(N, dtype=np.int64)
+        # potential at the mid-points per unit doublet strength on each of the body's segments
+        # (the panels), on the outside of a point's own panel: rigid, so computed once
+        self._angles = np.empty((N, N))
+        unit = np.zeros(N)
+        col = np.empty(N)
+        for j in range(N):
+            unit[j] = 1.0
+            chain_potential(g.xi_c, g.zeta_c, self._own, g.xi_n, g.zeta_n, unit, 0.0, col)
+            self._angles[:, j] = col
+            unit[j] = 0.0
         self._phi = np.empty(N)
 
     def retire(self, xs, zs, gs):
@@ -281,17 +292,22 @@ class SurfaceLoads:
         total = -np.cumsum(gam)
         mu = np.ascontiguousarray(total[:-1])
         tail = float(total[-1])
-        # the body and the newest NEAR_WAKE_CHORDS of wake at every mid-point; the older wake, whose
-        # potential is smooth over the body, at every COARSE-th mid-point and interpolated
+        # the body's own segments: angles fixed in the body frame (self._angles); the newest
+        # NEAR_WAKE_CHORDS of wake at every mid-point; the older wake, whose potential is smooth
+        # over the body, at every COARSE-th mid-point and interpolated
+        phi = self._angles @ mu[:N]
         cut = N + 1 + min(wx.shape[0], NEAR_WAKE_CHORDS * solver.lump_n)
-        if cut >= xc.shape[0] - 1:
-            chain_potential(s.xc[:N], s.zc[:N], self._own, xc, zc, mu, tail, self._phi)
-            return self._phi.copy(), mu[:N]
-        chain_potential(s.xc[:N], s.zc[:N], self._own, xc[:cut + 1], zc[:cut + 1], mu[:cut], 0.0, self._phi)
-        far = np.empty(self._coarse.shape[0])
-        chain_potential(s.xc[self._coarse], s.zc[self._coarse], self._none, np.ascontiguousarray(xc[cut:]),
-                        np.ascontiguousarray(zc[cut:]), np.ascontiguousarray(mu[cut:]), tail, far)
-        return self._phi + np.interp(self._index, self._coarse, far), mu[:N]
+        whole = cut >= xc.shape[0] - 1
+        end = xc.shape[0] if whole else cut + 1
+        chain_potential(s.xc[:N], s.zc[:N], self._none_all, xc[N:end], zc[N:end], mu[N:end - 1],
+                        tail if whole else 0.0, self._phi)
+        phi += self._phi
+        if not whole:
+            far = np.empty(self._coarse.shape[0])
+            chain_potential(s.xc[self._coarse], s.zc[self._coarse], self._none, np.ascontiguousarray(xc[cut:]),
+                            np.ascontiguousarray(zc[cut:]), np.ascontiguousarray(mu[cut:]), tail, far)
+            phi += np.interp(self._index, self._coarse, far)
+        return phi, mu[:N]
 
     def add_step(self, solver, s, sl):
         """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""
