@@ -126,3 +126,34 @@ def test_thick_section_on_camber_line_is_warned():
     thin = scenario(airfoil__thick=False, airfoil__elements=40, airfoil__shape="naca0003")
     assert not any("thick = true" in w for w in thin.warnings)
     assert not any("thick = true" in w for w in scenario().warnings)
+
+
+def test_film_draws_the_surface_pressure_line_and_refuses_it_without_panels(tmp_path, capsys):
+    from unsteady.apps.cli import main
+    from unsteady.outputs.films import PRESSURE_OFFSET, Film, FilmOptions, FilmRenderer
+    thick = scenario(output__snapshot_every=0.01)
+    res = simulate(thick)
+    d = tmp_path / "thick"
+    res.save(d, plots=False)
+    from unsteady.outputs.films import load_run
+    film = Film(load_run(d), FilmOptions(width=320, height=180, frames=3, surface_pressure=True))
+    r = FilmRenderer(film)
+    t, k, alpha, h = film.frame_state(2)
+    x, z = r._pressure_line(t, alpha, h, 0.0)
+    # at the suction peak of the upper surface the line stands -Cp * offset chords off the outline
+    row = int(np.argmin(np.abs(res.history["t"] - t)))
+    cp = res.snapshots["cp"][row]
+    i = int(np.argmin(cp))
+    xi = (res.snapshots["x_surface"][i] - thick.pivot) * thick.chord
+    zeta = res.snapshots["z_surface"][i] * thick.chord
+    x0 = xi * math.cos(alpha) + zeta * math.sin(alpha)
+    z0 = h - xi * math.sin(alpha) + zeta * math.cos(alpha)
+    assert math.hypot(x[i] - x0, z[i] - z0) == pytest.approx(-cp[i] * PRESSURE_OFFSET * thick.chord, rel=1e-4)
+    assert r.frame(2).shape == (180, 320, 3)
+    thin = tmp_path / "thin"
+    simulate(scenario(airfoil__thick=False, airfoil__elements=40)).save(thin, plots=False)
+    out = tmp_path / "f.gif"
+    assert main(["animate", str(thin), "--out", str(out), "--quiet", "--surface-pressure"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--surface-pressure" in err[0] and "thick = true" in err[0]
+    assert not out.exists()
