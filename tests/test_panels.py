@@ -8,7 +8,7 @@ import pytest
 from unsteady import load_scenario, simulate
 from unsteady.inputs.sections import section_from_shape
 from unsteady.vortex.panel_kernels import chain_potential, panel_velocity_matrices
-from unsteady.vortex.panels import SurfaceGeometry, SurfacePanels, surface_nodes
+from unsteady.vortex.panels import surface_nodes
 
 
 def twin_panel_velocity(xt, zt, xn, zn, n_gauss=400):
@@ -46,7 +46,7 @@ def test_panel_kernel_matches_quadrature_off_the_panels():
 
 def test_panel_kernel_principal_value_on_its_own_panel():
     # on a straight sheet of constant strength the velocity just above is -gamma/2 along it and the
-    # principal value is 0 (a vortex sheet's tangential jump; Katz & Plotkin 2001 sec. 3.x, common practice)
+    # principal value is 0 (the tangential jump across a vortex sheet; common practice)
     xn, zn = np.array([0.0, 1.0]), np.array([0.0, 0.0])
     mu_u, mu_w = np.empty((1, 2)), np.empty((1, 2))
     panel_velocity_matrices(np.array([0.5]), np.array([0.0]), xn, zn, np.array([0], np.int64), mu_u, mu_w)

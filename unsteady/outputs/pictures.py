@@ -670,6 +670,3 @@ def plot_gust_loads(result, path):
     house_legend(ax2)
     return finish_figure(fig, path, _title(result, "gust loads"), _warning_notes(result), caution=GUST_CAUTION,
                          left=0.8, bottom=0.6, gap=0.18, rows=2)
-
-
-from . import pictures_surface  # noqa: E402,F401  (registers surface-pressure.png of thick sections)

@@ -403,7 +403,7 @@ def data_uri(blob, mime):
 def collect_pictures(run, tmp, say=None):
     """[(name, PNG bytes)]: every PNG of the run folder, and the registered pictures it lacks,
     drawn into the temporary folder ``tmp`` (never into the run folder)."""
-    from .pictures import PICTURES
+    from .picture_set import PICTURES
     folder, res = run.folder, run.result
     have = {p.name: p for p in sorted(folder.glob("*.png"))}
     missing = [n for n in PICTURES if n not in have]
