@@ -198,6 +198,12 @@ def lag_summary(history, sc):
         j = int(np.nanargmax(np.abs(ae)))
         out["peak_effective_alpha_deg"] = float(ae[j])
     out["validity"] = validity(ae, rate)
+    crit = sc.data.get("airfoil", {}).get("lesp_critical")
+    if crit is not None and not out["validity"]["attached_flow_ok"]:
+        # the leading edge sheds (LESP criterion): separation there is modelled, not left out
+        out["validity"]["reasons"] = [
+            f"beyond attached flow: the leading edge sheds vortices past LESP = {crit:g} (a model "
+            "parameter), but trailing-edge stall and viscous effects are not modelled"]
     kind, par = _motion_kind(sc)
     out["motion"] = kind or "other"
     if kind == "transient" and len(t) > 1:

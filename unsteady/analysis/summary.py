@@ -67,8 +67,21 @@ def _peaks(s, name, y, t, keep):
               f"{name}_min": float(y[i_min]), f"t_{name}_min": float(t[i_min])})
 
 
+def running_mean(y, k):
+    """Centred running mean of ``y`` over ``k`` rows (ends: over the rows there are)."""
+    y = np.asarray(y, dtype=float)
+    k = int(k)
+    if k <= 1 or y.size == 0:
+        return y
+    c = np.concatenate(([0.0], np.cumsum(y)))
+    i = np.arange(y.size)
+    lo = np.maximum(i - (k - 1) // 2, 0)
+    hi = np.minimum(i + k // 2 + 1, y.size)
+    return (c[hi] - c[lo]) / (hi - lo)
+
+
 def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None, chord_time=0.0,
-                 settle_s=0.0):
+                 settle_s=0.0, running_mean_s=None):
     """Headline numbers of a history (keys as in the public interface).
 
     Parameters
@@ -91,6 +104,11 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
         t = 0, not in the flow its past would have left; see
         :func:`unsteady.analysis.turbulence.startup_interval`).  Ignored, and
         said so, when no row would remain.
+    running_mean_s : float, optional
+        The peaks of cl, cm and n are those of a centred running mean over
+        this many seconds (needs ``dt``; a run that sheds from the leading
+        edge ripples from step to step, :mod:`unsteady.analysis.shedding`);
+        ``cl_max_steps`` keeps the largest single row.
     """
     cl = np.asarray(history["cl"], dtype=float)
     t = np.asarray(history["t"], dtype=float)
@@ -110,14 +128,26 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
         else:
             s["peaks_note"] = (f"the record is shorter than the start-up ({settle_s:.3g} s): the peaks "
                                "include it and describe the start as much as the turbulence")
-    _peaks(s, "cl", cl, t, keep)
     cm = np.asarray(history["cm"], dtype=float)
+    k = 1
+    if running_mean_s and dt:
+        k = max(1, int(round(running_mean_s / dt)))
+        ok = keep & np.isfinite(cl)
+        if ok.any():
+            s["cl_max_steps"] = float(cl[ok].max())
+        cl, cm = running_mean(cl, k), running_mean(cm, k)
+        s["peaks_running_mean_s"] = float(k * dt)
+        s["peaks_running_mean_note"] = (f"the peaks of cl, cm and n are those of a centred running mean "
+                                        f"over {k} steps ({k * dt:.3g} s): each new leading-edge vortex "
+                                        f"makes the loads ripple from step to step; cl_max_steps is the "
+                                        f"largest single row")
+    _peaks(s, "cl", cl, t, keep)
     ok = keep & np.isfinite(cm)
     if ok.any():
         s.update(cm_max=float(cm[ok].max()), cm_min=float(cm[ok].min()),
                  cd_mean=float(np.nanmean(history["cd"])), cl_final=float(cl[np.isfinite(cl)][-1]))
     if "n" in history and np.isfinite(history["n"]).any():
-        n = np.asarray(history["n"], dtype=float)
+        n = running_mean(np.asarray(history["n"], dtype=float), k)
         _peaks(s, "n", n, t, keep)
     if times:
         s["impulses"] = apparent_mass_impulses(history, times, dt)

@@ -29,11 +29,24 @@ What is measured (limits marked common practice where no source is named):
    integration and the vortex impulse are two exact routes to the same
    force, so a gap beyond :data:`ROUTE_TOLERANCE` of the peak |cl|, away
    from instantaneous changes of the motion, means the step or the elements
-   do not resolve the flow.
+   do not resolve the flow (with leading-edge shedding: on the running mean
+   of the headline peaks).
 7. **The wake passes through the airfoil** (vortex model, free wake): a
    wake vortex of a snapshot lies on the chord (within 2 % of the chord of
    it, between 2 % and 98 % of the chord), where the discrete vortices
    induce unbounded velocities and the loads stop meaning anything.
+   Leading-edge vortices are left out, and once the leading edge has shed
+   the check is not made: in separated flow vortices travel along the
+   suction side by nature, and the model then lets every vortex but the
+   newest trailing-edge ones meet the body through a soft core and keeps
+   them on their side of it (``VortexSolver._soft_indices``).
+8. **Leading-edge suction** (run without ``[airfoil] lesp_critical``):
+   |LESP| beyond :data:`unsteady.analysis.shedding.LESP_TYPICAL` (0.18, a
+   typical critical value of Ramesh et al. 2014, from memory): the leading
+   edge would shed a vortex; the warning suggests ``lesp_critical``.  With
+   ``lesp_critical`` the model sheds, so 1, 2 and 5 (the attached-flow
+   limits) no longer apply and are not given; the caution of such a run
+   says that the critical value is a model parameter.
 """
 
 from __future__ import annotations
@@ -43,7 +56,8 @@ import math
 import numpy as np
 
 from ..inputs.estimates import angle_text, motion_key
-from .summary import impulse_mask
+from .shedding import critical_value, lesp_warning
+from .summary import impulse_mask, running_mean
 
 #: |cl| beyond which a real section would have stalled (common practice, see module docstring).
 CL_MAX_TYPICAL = 1.5
@@ -85,22 +99,29 @@ def measured_warnings(history, sc, summary, snapshots=None):
     mkey = motion_key(sc.data.get("motion", {}))
     vortex = sc.data["run"].get("model", "vortex") == "vortex"
 
-    # 1-2: the attached-flow verdict, as the lag block found it
+    # 1-2: the attached-flow verdict, as the lag block found it (a run that may shed from
+    # the leading edge has left attached flow on purpose: the LESP verdict, 8, replaces it)
     lag = summary["lag"]
     v = lag["validity"]
+    sheds = critical_value(sc) is not None
     a_max = abs(lag.get("peak_effective_alpha_deg", 0.0))
-    if a_max > v["alpha_eff_limit_deg"]:
+    if not sheds and a_max > v["alpha_eff_limit_deg"]:
         i = int(np.nanargmax(np.abs(history["alpha_eff_deg"])))
         out.append((gust_key or mkey,
                     f"the effective angle of attack reached {angle_text(a_max)} at t = {t[i]:.4g} s, "
                     f"beyond the {v['alpha_eff_limit_deg']:g} degrees of attached flow: a real section "
                     f"would separate or stall there, and these attached-flow loads overstate it"))
     k_max = lag.get("peak_pitch_rate", 0.0)
-    if k_max > v["pitch_rate_limit"]:
+    if not sheds and k_max > v["pitch_rate_limit"]:
         out.append(("motion.pitch",
                     f"the reduced pitch rate alpha_dot c/(2U) reached {k_max:.3f}, beyond "
                     f"{v['pitch_rate_limit']:g}: the leading edge would shed a vortex, which an "
                     f"attached-flow run leaves out"))
+
+    # 8: the leading-edge suction parameter past a typical critical value, without shedding
+    lesp = lesp_warning(history, sc)
+    if lesp is not None:
+        out.append((gust_key or mkey, lesp))
 
     times = [T for T in sc.kinematics.singular_times() if t[0] <= T <= t[-1]]
 
@@ -122,7 +143,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
         keep &= t >= summary["peaks_from_s"]
     if keep.any() and np.isfinite(cl[keep]).any():
         i = np.nonzero(keep)[0][int(np.nanargmax(np.abs(cl[keep])))]
-        if abs(cl[i]) > CL_MAX_TYPICAL:
+        if abs(cl[i]) > CL_MAX_TYPICAL and not sheds:
             msg = (f"the section lift coefficient reached {cl[i]:.3g} at t = {t[i]:.4g} s, beyond the "
                    f"about {CL_MAX_TYPICAL:g} a real section carries before it stalls (common practice)")
             if "n" in history and np.isfinite(history["n"][i]) and cl[i] != cl[0]:
@@ -135,7 +156,13 @@ def measured_warnings(history, sc, summary, snapshots=None):
 
     # 6: the two load routes
     if vortex and "cl_impulse" in history and keep.any():
-        gap = np.abs(cl - np.asarray(history["cl_impulse"], float))
+        cl_p, cl_i = cl, np.asarray(history["cl_impulse"], float)
+        if summary.get("peaks_running_mean_s"):
+            # a run that sheds from the leading edge: the routes compared as its peaks are, on the
+            # running mean (each new vortex ripples both from step to step)
+            k = int(round(summary["peaks_running_mean_s"] / sc.dt))
+            cl_p, cl_i = running_mean(cl_p, k), running_mean(cl_i, k)
+        gap = np.abs(cl_p - cl_i)
         peak = float(np.nanmax(np.abs(cl[keep])))
         if peak > 0.0 and np.isfinite(gap[keep]).any():
             j = np.nonzero(keep)[0][int(np.nanargmax(gap[keep]))]
@@ -146,8 +173,9 @@ def measured_warnings(history, sc, summary, snapshots=None):
                             f"the elements do not resolve this flow; halve run.dt or raise "
                             f"airfoil.elements and compare"))
 
-    # 7: the wake through the airfoil
-    if vortex and snapshots is not None:
+    # 7: the wake through the airfoil (not once the leading edge has shed: every vortex near the
+    # body then meets it through the soft core and is kept on its side, see the module docstring)
+    if vortex and snapshots is not None and summary.get("lev_onset_t") is None:
         hit = wake_through_airfoil(snapshots, sc)
         if hit is not None:
             out.append((mkey,
@@ -170,6 +198,8 @@ def wake_through_airfoil(snapshots, sc):
     x, z = np.asarray(snapshots["x"], float), np.asarray(snapshots["z"], float)
     c, p = sc.chord, sc.pivot
     lo, hi = (0.02 - p) * c, (0.98 - p) * c
+    lev = snapshots.get("lev")
+    lev = np.asarray(lev, bool) if lev is not None and len(lev) == len(snapshots["x"]) else None
     for k in range(t.size):
         a, b = off[k], off[k + 1]
         if b <= a:
@@ -178,7 +208,10 @@ def wake_through_airfoil(snapshots, sc):
         dx, dz = x[a:b], z[a:b] - h
         xi = dx * math.cos(al) - dz * math.sin(al)
         zeta = dx * math.sin(al) + dz * math.cos(al)
-        if np.any((np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)):
+        inside = (np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)
+        if lev is not None:
+            inside &= ~lev[a:b]
+        if np.any(inside):
             return float(t[k])
     return None
 

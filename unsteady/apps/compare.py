@@ -29,6 +29,8 @@ TABLE = [
     ("lag.loop_area", "loop_area", "{:.4g}"),
     ("lag.peak_effective_alpha_deg", "alpha_eff_pk", "{:.2f}"),
     ("lag.validity.attached_flow_ok", "attached", "{}"),
+    ("lesp_max", "lesp_max", "{:.3f}"),
+    ("lev_onset_t", "lev_onset", "{:.4g}"),
 ]
 
 #: File name of the picture when --out names a folder (or is not given).
@@ -134,7 +136,11 @@ def plot_compare(runs, path, title=""):
     if what != "pitch":
         notes.insert(0, f"the pitch is held: the loops are drawn against the {what}")
     left, right, gap_w = 0.9, 0.25, 0.9
-    dress(fig, title or "comparison of runs", notes, caution=GUST_CAUTION if has_n else PICTURE_CAUTION,
+    caution = PICTURE_CAUTION
+    if any(s.get("lev_onset_t") is not None for _l, _h, s in runs):
+        from ..core.cautions import PICTURE_SHEDDING_CAUTION
+        caution = PICTURE_CAUTION + " " + PICTURE_SHEDDING_CAUTION
+    dress(fig, title or "comparison of runs", notes, caution=GUST_CAUTION if has_n else caution,
           left=left, right=right, bottom=0.75 if "\n" in xlabel else 0.6, gap=0.2, rows=len(rows), cols=2)
     # the loop panel keeps a wider gap from the time panels than the rows from each other
     fig.subplots_adjust(wspace=gap_w / ((fig.get_size_inches()[0] - left - right - gap_w) / 2))
@@ -203,6 +209,9 @@ def main(args):
         print(table_text(runs))
         print(f"picture: {out}")
         print(f"note: {MODEL_CAUTION}")
+        if any(s.get("lev_onset_t") is not None for _l, _h, s in runs):
+            from ..core.cautions import SHEDDING_CAUTION
+            print(f"note: runs that shed from the leading edge: {SHEDDING_CAUTION}")
         if any("n" in h for _l, h, _s in runs):
             from ..core.cautions import GUST_CAUTION
             print(f"caution: {GUST_CAUTION}")

@@ -44,6 +44,10 @@ def main(args):
               f"cl {s.get('cl_min', float('nan')):.4f} .. {s.get('cl_max', float('nan')):.4f} "
               f"(max at t = {s.get('t_cl_max', float('nan')):.4g} s)"
               + (f"; load factor {s['n_min']:.3f} .. {s['n_max']:.3f}" if "n_max" in s else ""))
+        if s.get("lev_onset_t") is not None:
+            from ..core.cautions import SHEDDING_CAUTION
+            print(f"leading edge sheds from t = {s['lev_onset_t']:.4g} s (lesp_critical = "
+                  f"{s['lesp_critical']:g}); caution: {SHEDDING_CAUTION}")
         if "n_max" in s:
             from ..core.cautions import GUST_CAUTION
             print(f"caution: {GUST_CAUTION}")

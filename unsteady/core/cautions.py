@@ -1,4 +1,4 @@
-"""The caution texts, one per context (console, summary, pictures, sweeps, gust loads).
+"""The caution texts, one per context (console, summary, pictures, sweeps, gust loads, leading-edge shedding).
 
 Every place that shows a number a user could size a structure or fly an
 aircraft with takes its caution from here, so the wording is one copy.
@@ -31,4 +31,20 @@ SWEEP_CAUTION = (
 PICTURE_CAUTION = (
     "Inviscid attached-flow model (no stall or separation): estimates only; design loads "
     "follow the applicable airworthiness rules."
+)
+
+#: Caution of a run that sheds from the leading edge (summary.json, compare, reports).
+SHEDDING_CAUTION = (
+    "Inviscid section model with leading-edge vortex shedding past a critical suction "
+    "parameter (lesp_critical, a model parameter chosen by the user, not a property the "
+    "model predicts); trailing-edge stall, viscous and three-dimensional effects are left "
+    "out, and a 2-D section over-predicts the lift of a finite wing. Treat results as "
+    "estimates with margins; design loads follow the applicable airworthiness rules and "
+    "are signed off by qualified engineers."
+)
+
+#: Short form for pictures and films of a run that sheds from the leading edge.
+PICTURE_SHEDDING_CAUTION = (
+    "Inviscid model, leading-edge shedding by a chosen critical LESP (no trailing-edge stall): "
+    "estimates only; design loads follow the applicable airworthiness rules."
 )

@@ -9,7 +9,9 @@ alone; the run measures the same things on its history
 1. The prescribed motion alone (no gust: the gust checker makes its own
    estimate with the motion included) raises the three-quarter-chord
    effective angle beyond :data:`unsteady.inputs.gusts.EFFECTIVE_ANGLE_LIMIT_DEG`
-   (:func:`unsteady.theory.effective_angle` on the laws sampled over the run).
+   (:func:`unsteady.theory.effective_angle` on the laws sampled over the run);
+   the message points to ``[airfoil] lesp_critical``, or, when it is set,
+   says that the leading edge sheds but trailing-edge stall is not modelled.
 2. The motion changes instantly (a step, a ramp with sharp corners): its
    apparent-mass force is an impulse.
 3. A streamwise gust that can blow against the stream (a sine, turbulence
@@ -49,11 +51,17 @@ def estimate_warnings(sc):
     gusts = gust_list(data.get("gust"))
     if not gusts and mo:
         angle = math.degrees(_motion_angle_peak(data, 0.0))
-        if angle > EFFECTIVE_ANGLE_LIMIT_DEG:
+        if angle > EFFECTIVE_ANGLE_LIMIT_DEG and data["airfoil"].get("lesp_critical") is None:
             out.append(InputError(motion_key(mo),
                                   f"the motion raises the effective angle of attack to {angle_text(angle)}, "
                                   f"beyond {EFFECTIVE_ANGLE_LIMIT_DEG:.0f}: the attached-flow model "
-                                  f"is far outside its range there (real sections stall near 10-15 degrees)"))
+                                  f"is far outside its range there (real sections stall near 10-15 degrees; "
+                                  f"airfoil.lesp_critical lets the leading edge shed vortices)"))
+        elif angle > EFFECTIVE_ANGLE_LIMIT_DEG:
+            out.append(InputError(motion_key(mo),
+                                  f"the motion raises the effective angle of attack to {angle_text(angle)}, "
+                                  f"beyond {EFFECTIVE_ANGLE_LIMIT_DEG:.0f}: the leading edge sheds "
+                                  f"(airfoil.lesp_critical), but trailing-edge stall is not modelled"))
     times = [T for T in sc.kinematics.singular_times() if 0.0 <= T <= data["run"]["duration"]]
     if times:
         shown = ", ".join(f"{T:.4g}" for T in times[:4]) + (" ..." if len(times) > 4 else "")

@@ -389,7 +389,7 @@ def resolve(raw, base_dir, stem="scenario"):
         errors.append(InputError("airfoil.panels", "was renamed: write airfoil.elements (vortex elements on "
                                                    "the camber line, 4 to 1000)"))
         af = {k: v for k, v in af.items() if k != "panels"}
-    errors += unknown_keys(af, {"shape", "chord", "elements", "thick"}, "airfoil.")
+    errors += unknown_keys(af, {"shape", "chord", "elements", "lesp_critical", "thick"}, "airfoil.")
     airfoil = {"shape": af.get("shape", "flat")}
     if "chord" not in af:
         errors.append(InputError("airfoil.chord", "is required (m, > 0)"))
@@ -403,6 +403,11 @@ def resolve(raw, base_dir, stem="scenario"):
             section = section_from_shape(airfoil["shape"], base_dir)
         except InputError as e:
             errors.append(InputError("airfoil.shape", e.message))
+    if "lesp_critical" in af:
+        # the critical leading-edge suction parameter (Ramesh et al., J. Fluid Mech. 751, 2014)
+        airfoil["lesp_critical"] = grab(number, "airfoil.lesp_critical", af["lesp_critical"], gt=0.0,
+                                        unit="(critical leading-edge suction parameter; about 0.1-0.3 "
+                                             "for thin sections at low Reynolds numbers)")
     if "thick" in af:                      # surface panels (inputs.thick); absent: as before
         from .thick import check_thick
         thick, errs = check_thick(af, airfoil, raw.get("run", {}), section)
@@ -459,6 +464,10 @@ def resolve(raw, base_dir, stem="scenario"):
     run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
     run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
     run["model"] = grab(choice, "run.model", ru.get("model", "vortex"), RUN_MODELS)
+    if "lesp_critical" in af and run["model"] == "linear":
+        errors.append(InputError("airfoil.lesp_critical", "needs run.model = \"vortex\": the linear model "
+                                 "keeps the flow attached and cannot shed from the leading edge; remove "
+                                 "airfoil.lesp_critical or run the vortex model"))
     run["shed_offset"] = grab(number, "run.shed_offset", ru.get("shed_offset", 0.3), ge=0.05, le=1.0)
     if "core_radius" in ru:
         run["core_radius"] = grab(number, "run.core_radius", ru["core_radius"], gt=0.0, unit="m")

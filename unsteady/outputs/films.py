@@ -23,7 +23,8 @@ from matplotlib.transforms import Affine2D, IdentityTransform  # noqa: E402
 from . import fields, rundir  # noqa: E402
 from ..core.errors import UsageError  # noqa: E402
 from ..core.files import append_mark, atomic_path  # noqa: E402
-from .pictures import CAUTION, GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP, run_warnings, wrap_to_width  # noqa: E402
+from .pictures import (GUST_MAP, LOOK, SPEED_MAP, SPIN_MAP, VORTEX_MAP, lev_mask, run_caution,  # noqa: E402
+                       run_warnings, wrap_to_width)
 
 __all__ = ["FilmOptions", "Film", "FilmRenderer", "write_film", "load_run", "LOOK",
            "FLOW_STYLES", "VIEWS", "TRACES", "CAMERAS"]
@@ -285,6 +286,17 @@ class Film:
         return (self.snap["x"][a:b] + self.x_shift(t), self.snap["z"][a:b] + self.z_shift(i),
                 self.snap["gamma"][a:b])
 
+    def lev(self, i):
+        """Which wake vortices of frame i the leading edge shed (boolean, the order of :meth:`wake`)."""
+        k = int(self.snap_index[i])
+        o = self.snap["offsets"]
+        return lev_mask(self.snap, int(o[k]), int(o[k + 1]))
+
+    def lev_onset(self):
+        """Time (s) the leading edge first shed, or None."""
+        t0 = (self.res.summary or {}).get("lev_onset_t")
+        return None if t0 is None else float(t0)
+
     def trace_peak(self):
         """(t, value, word) of the traced quantity's extreme, or None when outside the film.
 
@@ -328,7 +340,7 @@ class WakeDots(Artist):
     four times slower for 2,000 vortices, and the film's largest cost.
     """
 
-    def __init__(self, ax, g_lim, cmap, r_min_px, r_max_px, alpha=1.0, levels=32, phases=2):
+    def __init__(self, ax, g_lim, cmap, r_min_px, r_max_px, alpha=1.0, levels=32, phases=2, shape="circle"):
         super().__init__()
         self.axes = ax
         self.set_figure(ax.figure)
@@ -343,7 +355,9 @@ class WakeDots(Artist):
         self.rank = np.empty(levels, dtype=np.int64)
         self.rank[np.argsort(a, kind="stable")] = np.arange(levels)
         self.by_rank = np.argsort(a, kind="stable")
-        circle = MplPath.unit_circle()
+        # a circle, or a diamond (leading-edge vortices) of the same area
+        circle = MplPath.unit_circle() if shape == "circle" else \
+            MplPath.unit_regular_polygon(4).transformed(Affine2D().scale(1.25))
         self.stamps = [[circle.transformed(Affine2D().scale(r).translate((i + 0.5) / p, (j + 0.5) / p))
                         for i in range(p) for j in range(p)] for r in self.radii]
         self.xy = np.zeros((0, 2))
@@ -405,7 +419,7 @@ class FilmRenderer:
         right = 0.905 if field_mode else 0.975
         # a quiet banner of the run's warnings takes a strip above the flow panel
         self.flow_top = 0.855 if f.warnings else 0.895
-        self.ax = ax = fig.add_axes([0.075, 0.365, right - 0.075, self.flow_top - 0.365], facecolor=LOOK["paper"])
+        self.ax = fig.add_axes([0.075, 0.365, right - 0.075, self.flow_top - 0.365], facecolor=LOOK["paper"])
         self.ax_tr = fig.add_axes([0.075, 0.1, 0.9, 0.185], facecolor=LOOK["paper"])
         self._limits()
         self.animated = []
@@ -467,7 +481,8 @@ class FilmRenderer:
         fig.text(0.075, 0.965, title, fontsize=fs * 1.25, color=LOOK["ink"], weight="bold", va="top")
         fig.text(0.075, 0.925, self._subtitle(0.9 * self.W / self.DPI, fs * 0.85),
                  fontsize=fs * 0.85, color=LOOK["muted"], va="top")
-        fig.text(0.975, 0.012, CAUTION, fontsize=fs * 0.7, color=LOOK["muted"], ha="right", va="bottom")
+        fig.text(0.975, 0.012, run_caution(f.res), fontsize=fs * 0.7, color=LOOK["muted"], ha="right",
+                 va="bottom")
         ax = self.ax
         for a in (ax, self.ax_tr):
             a.tick_params(labelsize=fs * 0.8, colors=LOOK["ink"], length=3)
@@ -502,7 +517,7 @@ class FilmRenderer:
         return text
 
     def _banner(self):
-        """The run's warnings (:func:`unsteady.outputs.pictures.run_warnings`) in one quiet line."""
+        """The run's warnings (:func:`unsteady.outputs.notices.run_warnings`) in one quiet line."""
         f, fs = self.film, self.fs
         self.banner = None
         if not f.warnings:
@@ -525,6 +540,7 @@ class FilmRenderer:
         self.img = None
         self.contours = None
         self.scat = None
+        self.lev_dots = None
         self.legend = None
         self.gust_img = None
         self.quiv = None
@@ -592,11 +608,19 @@ class FilmRenderer:
             # dot diameters 1.6 to 7.5 points at 720 lines
             self.scat = WakeDots(ax, self.g_lim, VORTEX_MAP, 0.8 * s * px, 3.75 * s * px, alpha=alpha)
             self.animated.append(self.scat)
+            if f.lev_onset() is not None:
+                # leading-edge vortices: diamonds of the same colours, drawn over the trailing edge's dots
+                self.lev_dots = WakeDots(ax, self.g_lim, VORTEX_MAP, 0.8 * s * px, 3.75 * s * px,
+                                         alpha=alpha, shape="diamond")
+                self.animated.append(self.lev_dots)
             if o.flow == "vortices":
                 handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
                            Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
+                if self.lev_dots is not None:
+                    handles.append(Line2D([], [], ls="", marker="D", color=LOOK["muted"],
+                                          label="from the leading edge"))
                 leg = ax.legend(handles=handles, loc="lower right", fontsize=fs * 0.75, frameon=False,
-                                handletextpad=0.2, ncol=2, columnspacing=1.0)
+                                handletextpad=0.2, ncol=len(handles), columnspacing=1.0)
                 self.legend = leg
                 self.stickers.append(leg)     # pasted over the dots, not drawn under them
         # airfoil
@@ -713,6 +737,13 @@ class FilmRenderer:
         ax.set_xlabel("time t (s)", fontsize=fs * 0.85, color=LOOK["ink"], labelpad=1)
         ax.set_ylabel(f.trace_label, fontsize=fs * 0.8, color=LOOK["ink"])
         ax.grid(color=LOOK["rule"], lw=0.5, alpha=0.8)
+        onset = f.lev_onset()
+        if onset is not None and f.t0 <= onset <= f.t1:
+            # where the leading edge first sheds: drawn once, with the static background
+            ax.axvline(onset, color=LOOK["lev"], lw=1.0, ls=(0, (4, 2)))
+            ax.annotate(f"leading edge sheds ({onset:.4g} s)", xy=(onset, 1.0), xycoords=("data", "axes fraction"),
+                        xytext=(3, -2), textcoords="offset points", ha="left", va="top", fontsize=fs * 0.7,
+                        color=LOOK["lev"], annotation_clip=False)
         self.tr_line, = ax.plot([], [], color=LOOK["trace"], lw=1.6, animated=True)
         self.tr_dot, = ax.plot([], [], "o", color=LOOK["marker"], ms=5.5 * self.H / 720.0, clip_on=False, animated=True)
         self.animated += [self.tr_line, self.tr_dot]
@@ -764,7 +795,13 @@ class FilmRenderer:
         if self.path is not None and f.follow:
             self.path.set_ydata(self.path_z - h)
         if self.scat is not None:
-            self.scat.set_data(*f.wake(i))
+            x, z, g = f.wake(i)
+            if self.lev_dots is not None:
+                lev = f.lev(i)
+                self.scat.set_data(x[~lev], z[~lev], g[~lev])
+                self.lev_dots.set_data(x[lev], z[lev], g[lev])
+            else:
+                self.scat.set_data(x, z, g)
         xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh)
         self.foil.set_xy(np.column_stack([xo, zo]))
         if self.cp_line is not None:

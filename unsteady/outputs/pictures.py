@@ -21,9 +21,10 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Rectangle
 
 from ..analysis.lag import ALPHA_EFF_LIMIT_DEG
-from ..core.cautions import GUST_CAUTION, PICTURE_CAUTION
+from ..core.cautions import GUST_CAUTION, PICTURE_CAUTION, PICTURE_SHEDDING_CAUTION
 from ..core.files import atomic_path
 from ..core.version import __version__
+from .notices import run_warnings
 
 __all__ = ["LOOK", "SERIES", "SPIN_MAP", "VORTEX_MAP", "SPEED_MAP", "GUST_MAP", "CAUTION", "PNG_MARK",
            "new_figure", "save_png", "fixed_margins", "house_style", "house_legend", "dress", "finish_figure",
@@ -52,6 +53,7 @@ LOOK = {
     "band": "#f1e3c8",      # fill of a range where the model is out of its depth
     "warn": "#a8432a",      # text of warnings on pictures and films
     "note_bg": "#f6eee9",   # quiet background behind a warning line
+    "lev": "#4f5d1c",       # leading-edge vortices (edge of their diamonds) and the onset of shedding
 }
 #: Colours of several lines of one kind in one picture (runs compared, cases of a sweep), in order.
 SERIES = (LOOK["trace"], LOOK["cw"], LOOK["ccw"], LOOK["second"], LOOK["gust_up"], "#5b6b3a", LOOK["muted"])
@@ -242,32 +244,6 @@ def moves(y, rel=1e-9):
     return y.size > 1 and float(np.ptp(y)) > rel * max(1.0, float(np.max(np.abs(y))))
 
 
-def _short(line):
-    """A scenario warning without its ``warning: <file>:`` prefix."""
-    parts = str(line).split(": ", 2)
-    return parts[2] if len(parts) == 3 and parts[0] == "warning" else str(line)
-
-
-def run_warnings(result):
-    """Where the model is out of its depth in this run, one line each, for pictures and films.
-
-    The attached-flow verdict (``lag.validity``, when not ok), the scenario's
-    warnings (``Scenario.warnings``, without the file prefix) and the
-    summary's ``warnings`` list; duplicates dropped.
-    """
-    s = result.summary or {}
-    out = []
-    val = (s.get("lag") or {}).get("validity") or {}
-    if isinstance(val, dict) and val.get("attached_flow_ok") is False:
-        out.append("outside the model's attached-flow range: " + "; ".join(val.get("reasons", [])))
-    sc = result.scenario
-    out += [_short(w) for w in (sc.warnings if sc is not None else ())]
-    extra = s.get("warnings") or []
-    out += [extra] if isinstance(extra, str) else [str(w) for w in extra]
-    seen = set()
-    return [w for w in out if not (w in seen or seen.add(w))]
-
-
 def _warning_notes(result):
     return [(w, LOOK["warn"]) for w in run_warnings(result)]
 
@@ -277,9 +253,18 @@ def _title(result, what):
     return f"{t}: {what}"
 
 
+def run_caution(result):
+    """The short caution of a run's pictures and films (its own for a run that sheds from the leading edge)."""
+    sc = result.scenario
+    if sc is not None and sc.data.get("airfoil", {}).get("lesp_critical") is not None:
+        return PICTURE_SHEDDING_CAUTION
+    return CAUTION
+
+
 def _finish(fig, result, what, path, notes=(), **margins):
     """Title, the run's warnings, margins and caution of a run picture; then write it."""
-    return finish_figure(fig, path, _title(result, what), list(notes) + _warning_notes(result), **margins)
+    return finish_figure(fig, path, _title(result, what), list(notes) + _warning_notes(result),
+                         caution=run_caution(result), **margins)
 
 
 def loop_abscissa(history):
@@ -348,6 +333,8 @@ def plot_histories(result, path):
             house_legend(ax)
         if k == "n":
             ax.axhline(1.0, color=LOOK["muted"], lw=0.7, ls=":")
+        if k == "cl":
+            mark_onset(ax, result)
         ax.set_ylabel(label, fontsize=8)
     axes[-1].set_xlabel("time t (s)", fontsize=9)
     notes = [("held constant: " + ", ".join(held))] if held else []
@@ -399,6 +386,28 @@ NEAR_WAKE_CHORDS = 4.0
 NEAR_WAKE_AHEAD = 0.75
 
 
+def mark_onset(ax, result, y="cl"):
+    """Mark where the leading edge first sheds on a trace against time (a line and a diamond); False if never."""
+    t0 = (result.summary or {}).get("lev_onset_t")
+    h = result.history
+    if t0 is None or y not in h or not len(h["t"]):
+        return False
+    i = int(np.argmin(np.abs(np.asarray(h["t"]) - t0)))
+    ax.axvline(t0, color=LOOK["lev"], lw=0.8, ls=(0, (4, 2)), zorder=1)
+    ax.plot([t0], [h[y][i]], "D", color=LOOK["paper"], mec=LOOK["lev"], mew=1.3, ms=5, zorder=5,
+            label=f"leading edge sheds ({t0:.4g} s)")
+    house_legend(ax)
+    return True
+
+
+def lev_mask(snapshots, a, b):
+    """Which wake vortices of snapshot rows a:b the leading edge shed (all False without that record)."""
+    lev = snapshots.get("lev")
+    if lev is None or len(lev) != len(snapshots["x"]):
+        return np.zeros(b - a, bool)
+    return np.asarray(lev[a:b], bool)
+
+
 def plot_wake(result, path, k=-1):
     """wake.png: the near wake (a few chords behind the airfoil, true proportions) at snapshot ``k``
     (default the last), and below it the whole wake with the near-wake frame marked."""
@@ -409,7 +418,8 @@ def plot_wake(result, path, k=-1):
     k = k % len(s["t"])
     a, b = int(s["offsets"][k]), int(s["offsets"][k + 1])
     x, z, g = s["x"][a:b], s["z"][a:b], s["gamma"][a:b]
-    c, pivot = float(sc.chord), float(sc.pivot)
+    lev = lev_mask(s, a, b)
+    c = float(sc.chord)
     xo, zo = _outline(result, s["alpha"][k], s["h"][k])
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c
@@ -428,12 +438,19 @@ def plot_wake(result, path, k=-1):
         if axis is None:
             continue
         house_style(axis, grid=False)
-        axis.scatter(x, z, c=g, s=dots, cmap=VORTEX_MAP, norm=norm, linewidths=0, zorder=2)
+        te = ~lev
+        axis.scatter(x[te], z[te], c=g[te], s=dots[te], cmap=VORTEX_MAP, norm=norm, linewidths=0, zorder=2)
+        if lev.any():
+            axis.scatter(x[lev], z[lev], c=g[lev], s=dots[lev] * 1.3, cmap=VORTEX_MAP, norm=norm, marker="D",
+                         edgecolors=LOOK["lev"], linewidths=0.5, zorder=2.5)
         axis.fill(xo, zo, facecolor=LOOK["airfoil"], edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3)
     ax.set_ylabel("height z (m)", fontsize=9)
     handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),
                Line2D([], [], ls="", marker="o", color=LOOK["cw"], label="clockwise")]
-    house_legend(ax, handles=handles, loc="upper right", ncol=2,
+    if lev.any():
+        handles.append(Line2D([], [], ls="", marker="D", color=LOOK["paper"], mec=LOOK["lev"], mew=1.0,
+                              label="from the leading edge"))
+    house_legend(ax, handles=handles, loc="upper right", ncol=len(handles),
                  title="wake vortices (dot size: strength)", title_fontsize=7)
     near = f"near wake: {NEAR_WAKE_CHORDS:g} chords behind the trailing edge"
     if whole:
@@ -447,7 +464,7 @@ def plot_wake(result, path, k=-1):
         ax.set_xlabel("x, downstream of the pitch axis (m)", fontsize=9)
     t = float(s["t"][k])
     dress(fig, _title(result, f"wake at t = {t:.4g} s ({b - a} vortices)"), _warning_notes(result),
-          left=0.8, bottom=0.6, gap=0.55, rows=2 if whole else 1)
+          run_caution(result), left=0.8, bottom=0.6, gap=0.55, rows=2 if whole else 1)
     # the near frame in true proportions: z range from the panel's shape
     bb = ax.get_position()
     w_in, h_in = fig.get_size_inches()

@@ -11,10 +11,11 @@ import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SWEEP_CAUTION
+from ..core.cautions import GUST_CAUTION, MODEL_CAUTION, SHEDDING_CAUTION, SWEEP_CAUTION
 from ..core.errors import UsageError
 from ..core.files import write_text
 from ..core.version import __version__
+from .notices import run_warnings
 from ..theory import G
 
 __all__ = ["write_report", "folder_kind", "check_report_path", "run_page", "sweep_page",
@@ -684,18 +685,6 @@ def headline_html(summary, sc):
     return "\n".join(parts)
 
 
-def run_warnings(run):
-    """Every warning of a run: the scenario checks, the summary's, a run stopped early."""
-    s, sc = run.result.summary, run.result.scenario
-    out = list(sc.warnings) if sc is not None else []
-    extra = s.get("warnings") or []
-    out += [extra] if isinstance(extra, str) else [str(w) for w in extra]
-    if s.get("error"):
-        out.append(f"the run stopped early: {s['error']}")
-    seen = set()
-    return [w for w in out if not (w in seen or seen.add(w))]
-
-
 def validity_html(run):
     """The attached-flow verdict (``lag.validity``) and the list of warnings."""
     v = (run.result.summary.get("lag") or {}).get("validity")
@@ -710,7 +699,7 @@ def validity_html(run):
         box = (f"<div class=\"box bad\"><strong>Outside the model's attached-flow range:</strong> the "
                f"numbers describe a flow that a real section would not keep.<ul>{reasons}</ul>"
                f"Basis: {_e(v.get('basis', ''))}.</div>")
-    warns = run_warnings(run)
+    warns = run_warnings(run.result, verdict=False, short=False)
     listing = ("<ul>" + "".join(f"<li><code>{_e(w)}</code></li>" for w in warns) + "</ul>") if warns \
         else "<p>No warnings: the checks of the scenario found nothing out of the model's depth.</p>"
     return box + f"<h3>Warnings ({len(warns)})</h3>" + listing
@@ -779,7 +768,8 @@ def run_page(folder, *, film=True, progress=False, say=None):
                  + "".join(f"<li>{_e(n)}</li>" for n in run.notes) + "</ul></div>")
     words = "<ul>" + "".join(f"<li>{_u(w)}</li>" for w in scenario_words(sc)) + "</ul>" if sc is not None \
         else "<p>The scenario cannot be described (see the notes above).</p>"
-    cautions = [MODEL_CAUTION] + ([GUST_CAUTION] if "n_max" in s else [])
+    cautions = ([SHEDDING_CAUTION] if s.get("lev_onset_t") is not None else [MODEL_CAUTION]) \
+        + ([GUST_CAUTION] if "n_max" in s else [])
     parts = [("scenario", "What was run", words),
              ("numbers", "Headline numbers", headline_html(s, sc) + _cautions(*cautions)),
              ("validity", "Validity and warnings", validity_html(run)),

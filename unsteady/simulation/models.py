@@ -11,7 +11,8 @@ from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.panels import build_surface
-from ..vortex.solver import SolverDiverged, StepState, VortexSolver, build_body
+from ..vortex.solver import (LeadingEdgeSite, SolverDiverged, StepState, TrailingEdgeSite, VortexSolver,
+                             build_body)
 from .observers import Rows
 
 __all__ = ["Model", "MODELS", "register_model", "get", "VortexModel", "LinearModel",
@@ -272,11 +273,15 @@ class VortexModel(Model):
     that a trimmed aircraft starts at n = 1 to round-off.
     """
 
+    COLUMNS = ("lesp",)
+
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
         self.thick = bool(sc.data["airfoil"].get("thick"))
         self.body = build_surface(sc) if self.thick else build_body(sc)
         self._pressure = None
+        if sc.data["airfoil"].get("lesp_critical") is not None:
+            self.COLUMNS = ("lesp", "gamma_lev")
 
     def steady_cl(self, alpha, alpha_dot):
         """cl of the solver's steady start at a fixed attitude (step 0 at t = 0, no wake shed
@@ -292,9 +297,14 @@ class VortexModel(Model):
         sc, run = self.sc, self.sc.data["run"]
         self._pressure = (_SurfaceRows(sc.steps, self.body) if self.thick
                           else _PressureRows(sc.steps, sc.elements))
+        offset = run.get("shed_offset", 0.3)
+        critical = sc.data["airfoil"].get("lesp_critical")
+        sites = None
+        if critical is not None:
+            sites = [TrailingEdgeSite(0, offset), LeadingEdgeSite(0, critical, offset)]
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
-                              shed_offset=run.get("shed_offset", 0.3),
+                              shed_offset=offset, sites=sites,
                               core_radius=run.get("core_radius"), far_wake=run.get("far_wake"))
         solver.run([_Relay([self._pressure] + list(observers))])
 
@@ -344,7 +354,7 @@ class LinearModel(Model):
         tests and benchmarks).
     """
 
-    COLUMNS = ("cl_circulatory",)
+    COLUMNS = ("cl_circulatory", "lesp")
 
     def __init__(self, sc, gust, motion, **march_options):
         super().__init__(sc, gust, motion)
@@ -401,8 +411,21 @@ class LinearModel(Model):
         loads = {"cl": out["cl"], "cd": out["cd"], "cm": out["cm"], "cm_pivot": out["cm_pivot"],
                  "cl_impulse": out["cl"], "cd_impulse": out["cd"], "cm_impulse": out["cm"],
                  "gamma_bound_m2_s": gamma_b, "gamma_wake_m2_s": gamma_0 - gamma_b,
-                 "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c}
+                 "wake_vortices": np.zeros_like(t), "cl_circulatory": cl_c,
+                 "lesp": self._lesp(cl_c, alpha_dot)}
         self.deliver_rows(Rows(t, alpha, alpha_dot, h, h_dot, loads), observers)
+
+    def _lesp(self, cl_c, alpha_dot):
+        """The linear model's leading-edge suction parameter (A0) per row.
+
+        Quasi-steady thin-airfoil theory (Abbott & von Doenhoff 1959, ch. 4)
+        with the wake's lag carried by the circulatory lift, as for the
+        model's drag (:func:`~unsteady.linear.model.leading_edge_a0`), plus the
+        camber's share of A0: ``alpha_L0 - (1/pi) int dz/dx dtheta``, so that a
+        steady cambered section gives ``alpha - (1/pi) int dz/dx dtheta``.
+        """
+        shift = self.alpha_L0 - _camber_a0_shift(self.sc.section)
+        return linear.leading_edge_a0(cl_c, alpha_dot, speed=self.sc.speed, chord=self.sc.chord) + shift
 
     def _prescribed(self):
         """(t, alpha, alpha_dot, h, h_dot, loads) of a prescribed motion, summed in one pass."""
@@ -425,6 +448,13 @@ class LinearModel(Model):
 
     def summary(self):
         return {"dt": self.sc.dt, "start": self.sc.data["run"]["start"], "elements": self.sc.elements}
+
+
+def _camber_a0_shift(section):
+    """(1/pi) int_0^pi dz/dx dtheta of a section's camber line (0 for a flat plate)."""
+    from .. import theory
+    p = getattr(section, "p", None)
+    return -theory.steady_a0(0.0, section.slope, breaks=(p,) if p else ())
 
 
 def linear_heave_marcher(sc, **options):

@@ -109,6 +109,7 @@ class SnapshotRecorder:
         self.x_te = []
         self.xb, self.zb, self.gb = [], [], []  # bound vortices (for flow pictures)
         self.bodyless = False                    # rows from a model without body points
+        self.lev = []                            # per wake vortex: shed by a leading edge (1) or not
 
     def on_step(self, s):
         if s.n % self.every and s.n != self.last:
@@ -120,6 +121,9 @@ class SnapshotRecorder:
         self.z.append(s.z_wake.astype(np.float32))
         self.g.append(s.gamma_wake.astype(np.float32))
         self.offsets.append(self.offsets[-1] + s.x_wake.shape[0])
+        le_sites = s.extra.get("leading_edge_sites") if s.extra else None
+        if le_sites:
+            self.lev.append(np.isin(s.wake_site, le_sites).astype(np.uint8))
         self.xb.append(np.asarray(s.x_body, np.float32).copy())
         self.zb.append(np.asarray(s.z_body, np.float32).copy())
         self.gb.append(np.asarray(s.gamma_bound, np.float32).copy())
@@ -141,6 +145,8 @@ class SnapshotRecorder:
         out = {"t": np.array(self.t), "alpha": np.array(self.alpha), "h": np.array(self.h),
                "offsets": np.array(self.offsets, dtype=np.int64),
                "x": cat(self.x), "z": cat(self.z), "gamma": cat(self.g)}
+        if self.lev:
+            out["lev"] = np.concatenate(self.lev)        # 1: a leading-edge vortex (same order as x)
         if not self.bodyless:
             out.update(x_body=np.array(self.xb, np.float32), z_body=np.array(self.zb, np.float32),
                        gamma_body=np.array(self.gb, np.float32))

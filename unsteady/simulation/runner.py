@@ -6,6 +6,7 @@ import time
 
 from ..analysis.lag import add_quasi_steady, lag_summary
 from ..analysis.loads import add_dimensional_loads
+from ..analysis.shedding import running_mean_s, shedding_summary
 from ..analysis.summary import make_summary
 from ..analysis.turbulence import startup_interval, turbulence_summary
 from ..analysis.verdict import measured_warnings, warning_lines
@@ -83,7 +84,7 @@ def simulate(scenario, observers=(), *, progress=False):
     if heave is not None:
         heave.trim(model.steady_cl)
     builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
-    columns = list(cls.COLUMNS)
+    columns = list(model.COLUMNS)                # a model may add columns for its scenario
     for o in builtin:
         columns += [k for k in o.columns if k not in columns]
     rec = HistoryRecorder(sc.steps, sc.speed, sc.chord, columns)
@@ -121,12 +122,14 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
     sc = model.sc
     extra.update(add_dimensional_loads(history, sc))      # lift_N, cl_wing, root_bending_Nm
     extra.update(turbulence_summary(history, sc))         # n_rms, A_bar, N0 in turbulence
+    extra.update(shedding_summary(history, sc))           # lesp_max; lev_onset_t with lesp_critical
     gust = model.gust
     settle = (startup_interval(sc) if gust is not None and gust.present_at_start
               and sc.data.get("aircraft") else 0.0)
     summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra,
                            impulse_times=sc.kinematics.singular_times(), dt=sc.dt,
-                           chord_time=sc.chord / sc.speed, settle_s=settle)
+                           chord_time=sc.chord / sc.speed, settle_s=settle,
+                           running_mean_s=running_mean_s(history, sc))
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
     summary.update(model=model.name, **model.summary(), chords_travelled=travelled)
     if error:

@@ -9,6 +9,7 @@ import numpy as np
 
 __all__ = [
     "GUST_CAUTION",
+    "steady_a0",
     "theodorsen",
     "theodorsen_loads",
     "apparent_mass",
@@ -914,6 +915,27 @@ def zero_lift_angle(slope_fn, n=200, breaks=()):
     theta, w = _theta_nodes(int(n), breaks)
     dzdx = np.asarray(slope_fn(0.5 * (1.0 - np.cos(theta))), dtype=float)
     return float(-np.sum(w * dzdx * (np.cos(theta) - 1.0)) / np.pi)
+
+
+def steady_a0(alpha, slope_fn=None, n=200, breaks=()):
+    """A0 of steady thin-airfoil theory: the leading-edge suction parameter of a steady section.
+
+    A0 = alpha - (1/pi) int_0^pi (dz/dx) dtheta (Abbott & von Doenhoff,
+    Theory of Wing Sections, 1959, ch. 4; the LESP of K. Ramesh et al.,
+    J. Fluid Mech. 751, 2014).  A flat plate (``slope_fn`` None) gives alpha.
+
+    Parameters
+    ----------
+    alpha : float
+        Angle of attack, rad.
+    slope_fn, n, breaks
+        As :func:`zero_lift_angle`.
+    """
+    if slope_fn is None:
+        return float(alpha)
+    theta, w = _theta_nodes(int(n), breaks)
+    dzdx = np.asarray(slope_fn(0.5 * (1.0 - np.cos(theta))), dtype=float)
+    return float(alpha - np.sum(w * dzdx) / np.pi)
 
 
 def cm_quarter_chord(slope_fn, n=200, breaks=()):

@@ -13,7 +13,12 @@ where ``V_j`` is the velocity of the air relative to the element (freestream,
 gust and wake, less the body's own motion), ``tau_j`` the element tangent and
 ``Phi_j`` the jump of velocity potential across the element, which with
 lumped vortices is ``sum_{k<j} Gamma_k`` over the element's first quarter and
-``sum_{k<=j} Gamma_k`` behind the vortex.  The quasi-steady part is applied as
+``sum_{k<=j} Gamma_k`` behind the vortex, each plus the jump at the
+leading edge: zero in attached flow, and once the leading edge sheds the
+circulation it has shed so far (its vortices' branch cuts run to the
+leading edge, so that the jump at the trailing edge stays minus the
+trailing-edge wake's circulation and the Kutta condition keeps the
+pressure jump there zero).  The quasi-steady part is applied as
 the Kutta-Joukowski force ``rho Gamma_j (w_j, -u_j)`` on each vortex, which
 also carries the leading-edge suction of attached flow, so the drag of a
 steady flat plate is zero (d'Alembert); the unsteady part is integrated
@@ -86,6 +91,7 @@ class LoadHistory:
         self.arm_piv = self._arm(0.0, 0.0)
         self.arm_slope = b.t_zeta * b.n_xi - b.t_xi * b.n_zeta
         self.gamma_hist = []
+        self.phi_hist = []
         self.imp_hist = []
         self.dcp_last = np.zeros(N)
 
@@ -105,8 +111,12 @@ class LoadHistory:
         """
         self.imp_hist = retire_impulse(self.imp_hist, self.U, self.dt, xs, zs, gs)
 
-    def add(self, n, t, alpha, h, gamma_b, u_rel, w_rel, xs, zs, gs, gamma_start):
-        """Loads at step n; returns a dict of coefficients for this step."""
+    def add(self, n, t, alpha, h, gamma_b, u_rel, w_rel, xs, zs, gs, gamma_start, phi_le=None):
+        """Loads at step n; returns a dict of coefficients for this step.
+
+        ``phi_le`` (m^2/s): the potential jump at the leading edge, the
+        circulation the leading edge has shed so far (None: it never sheds).
+        """
         b, rho, U, dt, q = self.body, self.rho, self.U, self.dt, self.q
         c = b.chord
         self.gamma_hist.append(gamma_b.copy())
@@ -115,6 +125,15 @@ class LoadHistory:
         dgamma = backward_derivative(self.gamma_hist, dt)
         dP = self.Pm @ dgamma                    # d/dt of the potential-jump integral
         dQ = self.Qm @ dgamma
+        if phi_le is not None:
+            self.phi_hist.append(float(phi_le))
+            if len(self.phi_hist) > 3:
+                self.phi_hist.pop(0)
+            if any(self.phi_hist):
+                # the jump starts at phi_le instead of 0 at the leading edge
+                dphi = backward_derivative(self.phi_hist, dt)
+                dP = dP + b.ds * dphi
+                dQ = dQ + 0.5 * b.ds ** 2 * dphi
         # Kutta-Joukowski force on each lumped vortex (steady part)
         fx_kj = rho * gamma_b * w_rel
         fz_kj = -rho * gamma_b * u_rel

@@ -183,6 +183,11 @@ class SurfacePanels:
     geometry : SurfaceGeometry
     """
 
+    #: The leading-edge suction parameter (A0 of thin-airfoil theory) belongs to a camber line's
+    #: square-root singularity at its leading edge, which a closed outline does not have: the
+    #: ``lesp`` column of a thick section is NaN (and leading-edge shedding is refused by check).
+    leading_edge_suction = False
+
     def __init__(self, geometry):
         self.geometry = g = geometry
         N = g.n

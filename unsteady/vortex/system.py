@@ -100,6 +100,8 @@ class BodySystem:
         self.a_inv = np.linalg.inv(a)
         self.version += 1
         self._kelvin = {}
+        self._a, self._t = a, t
+        self._suction = {}
 
     def refactor_if_changed(self, t):
         """Rebuild and refactor the matrix if any body's points moved; True if it did."""
@@ -116,6 +118,54 @@ class BodySystem:
             row = self._kelvin[body] = self.a_inv[self.slices[body]].sum(axis=0)
         return row
 
+    def suction_row(self, body, speed):
+        """The leading-edge suction parameter of one body as a row over all bound circulations.
+
+        Returns ``(q, q A^-1)`` (cached until the next factorization):
+        ``LESP = q . gamma``.  LESP is A0 of the body's bound vorticity
+        (K. Ramesh, A. Gopalarathnam, K. Granlund, M. V. Ol & J. R. Edwards,
+        J. Fluid Mech. 751, 2014, eq. 2.3): in thin-airfoil theory
+        ``A0 = (1/pi) int_0^pi W(theta) / U dtheta`` with ``W`` the normal
+        velocity of the air relative to the camber line that the bound
+        vorticity cancels, ``x = c (1 - cos theta) / 2``.  Here ``W`` at the
+        collocation points is minus the normal velocity the body's own bound
+        vortices induce there (``-(A_bb gamma_b)_k``, exact where the
+        no-penetration rows hold), and the integral is the rule of
+        :func:`suction_weights` over the collocation points.  A steady flat
+        plate gives ``sin alpha``; positive in nose-up attached flow.
+        """
+        row = self._suction.get(body)
+        if row is None and not getattr(self.models[body], "leading_edge_suction", True):
+            # a body without a camber line's leading-edge singularity (surface panels): no LESP
+            row = self._suction[body] = (np.full(self.n, np.nan), np.full(self.n, np.nan))
+        if row is None:
+            sl = self.slices[body]
+            model = self.models[body]
+            w = suction_weights(model.points(self._t), model.geometry, model.trailing_edge(self._t))
+            q = np.zeros(self.n)
+            q[sl] = -(w @ self._a[sl, sl]) / (np.pi * float(speed))
+            row = self._suction[body] = (q, q @ self.a_inv)
+        return row
+
     def reduce(self, c):
         """``c A^-1`` for any border row ``c`` over the bound circulations."""
         return np.asarray(c, float) @ self.a_inv
+
+
+def suction_weights(points, geometry, trailing_edge):
+    """Weights of ``int_0^pi f(theta) dtheta`` over a body's collocation points.
+
+    Each collocation point is given its chord fraction x (projection on the
+    line from the leading-edge node to the trailing edge) and its angle
+    ``theta = arccos(1 - 2 x)``; point k stands for f on the cell between
+    the mid-angles to its neighbours, the first cell starting at 0 and the
+    last ending at pi (a midpoint rule in theta; the weights sum to pi, so
+    a constant integrates exactly).
+    """
+    x0, z0 = float(geometry.xi_0[0]), float(geometry.zeta_0[0])
+    xt, zt = trailing_edge
+    ex, ez = xt - x0, zt - z0
+    frac = ((points.xi_c - x0) * ex + (points.zeta_c - z0) * ez) / (ex * ex + ez * ez)
+    theta = np.arccos(np.clip(1.0 - 2.0 * frac, -1.0, 1.0))
+    edges = np.concatenate(([0.0], 0.5 * (theta[1:] + theta[:-1]), [np.pi]))
+    return np.diff(edges)

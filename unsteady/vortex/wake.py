@@ -34,6 +34,8 @@ class VortexStore:
         self.z = np.zeros(nb + capacity)
         self.g = np.zeros(nb + capacity)
         self.site = np.zeros(capacity, dtype=np.int64)
+        self.born = np.zeros(capacity, dtype=np.int64)      # step at which each was shed
+        self.clock = -1                                     # steps so far (set_bound counts them)
         self.vel_u, self.vel_w = np.zeros(capacity), np.zeros(capacity)
         self.prev_u, self.prev_w = np.zeros(capacity), np.zeros(capacity)
         self.bu, self.bw = np.zeros(capacity), np.zeros(capacity)
@@ -45,12 +47,14 @@ class VortexStore:
         self.z[:nb] = z
         self.g[:nb] = gamma
         self.new = 0
+        self.clock += 1
 
     def shed(self, x, z, gamma, site):
         """Append one new wake vortex."""
         i = self.nb + self.m
         self.x[i], self.z[i], self.g[i] = x, z, gamma
         self.site[self.m] = site
+        self.born[self.m] = self.clock
         self.m += 1
         self.new += 1
 
@@ -64,16 +68,28 @@ class VortexStore:
         b = self.nb + self.m
         return self.x[:b], self.z[:b], self.g[:b]
 
-    def velocities(self, U, r_c, r_b, gust, t):
+    def velocities(self, U, r_c, r_b, gust, t, soft=None, r_soft=None):
         """Velocity (m/s) of the air at the wake vortices: wake, bound vortices, freestream, gust.
 
-        Returns views of the store's buffers.
+        The bound vortices act through the core ``r_b``, on the wake vortices
+        ``soft`` (indices) through ``r_soft``.  Returns views of the store's
+        buffers.
         """
         m, nb = self.m, self.nb
         wx, wz, wg = self.wake()
         u, w = self.vel_u[:m], self.vel_w[:m]
         induced_velocity(wx, wz, wx, wz, wg, r_c, u, w)
-        induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
+        if soft is None or soft.size == 0:
+            induced_velocity(wx, wz, self.x[:nb], self.z[:nb], self.g[:nb], r_b, self.bu[:m], self.bw[:m])
+        else:
+            hard = np.ones(m, bool)
+            hard[soft] = False
+            for sel, r in ((hard, r_b), (soft, r_soft)):
+                xt, zt = wx[sel], wz[sel]
+                su, sw = np.empty(xt.size), np.empty(xt.size)
+                induced_velocity(xt, zt, self.x[:nb], self.z[:nb], self.g[:nb], r, su, sw)
+                self.bu[:m][sel] = su
+                self.bw[:m][sel] = sw
         u += self.bu[:m] + U
         w += self.bw[:m]
         if gust is not None:
@@ -81,6 +97,19 @@ class VortexStore:
             u += gu
             w += gw
         return u, w
+
+    def of_sites(self, sites, older_sites=(), before=None):
+        """Wake indices of the vortices shed by any of ``sites``, and by any of ``older_sites``
+        before step ``before``."""
+        site = self.site[:self.m]
+        mask = np.zeros(site.shape, bool)
+        for k in sites:
+            mask |= site == k
+        if older_sites and before is not None:
+            old = self.born[:self.m] < before
+            for k in older_sites:
+                mask |= (site == k) & old
+        return np.flatnonzero(mask)
 
     def frozen_velocities(self, U):
         """The wake moving with the freestream U (m/s): views of the store's buffers."""
@@ -131,7 +160,7 @@ class VortexStore:
         gone = ~keep
         wx, wz, wg = self.wake()
         out = (wx[gone], wz[gone], wg[gone])
-        for arr in (wx, wz, wg, self.site[:m], self.prev_u[:m], self.prev_w[:m]):
+        for arr in (wx, wz, wg, self.site[:m], self.born[:m], self.prev_u[:m], self.prev_w[:m]):
             arr[:keep.sum()] = arr[keep]
         self.m = int(keep.sum())
         return out
@@ -144,6 +173,8 @@ class FarWake:
         self.n = 0
         self.x, self.z, self.g = np.zeros(capacity), np.zeros(capacity), np.zeros(capacity)
         self.site = np.zeros(capacity, dtype=np.int64)
+        self.born = np.zeros(capacity, dtype=np.int64)      # step at which each was shed
+        self.clock = -1                                     # steps so far (set_bound counts them)
 
     def views(self):
         """Views ``(x, z, gamma)`` of the lumps."""
