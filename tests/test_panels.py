@@ -8,7 +8,7 @@ import pytest
 from unsteady import load_scenario, simulate
 from unsteady.inputs.sections import section_from_shape
 from unsteady.vortex.panel_kernels import chain_potential, panel_velocity_matrices
-from unsteady.vortex.panels import surface_nodes
+from unsteady.vortex.panels import SurfaceGeometry, SurfacePanels, surface_nodes
 
 
 def twin_panel_velocity(xt, zt, xn, zn, n_gauss=400):
@@ -157,3 +157,18 @@ def test_film_draws_the_surface_pressure_line_and_refuses_it_without_panels(tmp_
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "--surface-pressure" in err[0] and "thick = true" in err[0]
     assert not out.exists()
+
+
+def test_open_trailing_edge_of_a_coordinates_file_is_closed(tmp_path):
+    # NACA 0012 with the published (open) trailing edge, a4 = -0.1015 (NACA Rep. 460)
+    from unsteady.inputs.sections import naca4_half_thickness
+    x = 0.5 * (1 - np.cos(np.linspace(0, math.pi, 41)))
+    yt = naca4_half_thickness(x, 0.12, closed=False)
+    pts = [(xi, yi) for xi, yi in zip(x[::-1], yt[::-1])] + [(xi, -yi) for xi, yi in zip(x[1:], yt[1:])]
+    f = tmp_path / "open.dat"
+    f.write_text("".join(f"{a:.6f} {b:.6f}\n" for a, b in pts))
+    assert yt[-1] > 1e-3                       # the file's trailing edge is open
+    xn, zn = surface_nodes(section_from_shape(str(f), tmp_path), 80)
+    assert xn[0] == xn[-1] and zn[0] == zn[-1]
+    model = SurfacePanels(SurfaceGeometry.from_nodes(xn, zn, 1.0, 0.25))
+    assert np.isfinite(np.linalg.cond(model.influence_matrix()))

@@ -483,7 +483,9 @@ def resolve(raw, base_dir, stem="scenario"):
         elif steps < 1:
             errors.append(InputError("run.dt", "is longer than the run itself: lower run.dt or lengthen run.duration"))
     if not errors and run.get("duration") and run.get("dt") and elements:
-        need = memory_estimate(int(math.ceil(run["duration"] / run["dt"])), elements)
+        # thick sections keep Cp per panel and the lower-minus-upper difference per station
+        need = memory_estimate(int(math.ceil(run["duration"] / run["dt"])),
+                               elements * 5 // 2 if airfoil.get("thick") else elements)
         have = available_memory()
         if have and need > 0.5 * have:
             errors.append(InputError("run.dt", f"the run would need about {need / 2**30:.3g} GiB of memory "

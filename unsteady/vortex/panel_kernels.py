@@ -1,7 +1,7 @@
 """Numba kernels of the surface-panel body: linear-strength vortex panels and the potential of a doublet chain.
 
 **Linear-strength vortex panel** (J. Katz & A. Plotkin, *Low-Speed
-Aerodynamics*, 2nd ed., 2001, ch. 10-11, the linear-strength vortex
+Aerodynamics*, 2nd ed., 2001, ch. 10 and 11, the linear-strength vortex
 element, written here in our own symbols).  A straight panel from node A to
 node B, length l, local axes x along A -> B and z to its left, carries the
 counter-clockwise vortex sheet gamma(xi) = gamma_a + (gamma_b - gamma_a) xi / l.

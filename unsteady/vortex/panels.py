@@ -30,7 +30,7 @@ built in the body frame and factored once (the body is rigid).
 
 **Loads** (:class:`SurfaceLoads`).  Pressure on the outside of each panel
 mid-point from the unsteady Bernoulli equation in the frame of the air at
-rest, following a point of the body (Katz & Plotkin, sec. 13.2)::
+rest, following a point of the body (Katz & Plotkin, ch. 13)::
 
     Cp = (|V_b|^2 - |q|^2 - 2 dphi/dt) / U^2
 
