@@ -172,3 +172,24 @@ def test_open_trailing_edge_of_a_coordinates_file_is_closed(tmp_path):
     assert xn[0] == xn[-1] and zn[0] == zn[-1]
     model = SurfacePanels(SurfaceGeometry.from_nodes(xn, zn, 1.0, 0.25))
     assert np.isfinite(np.linalg.cond(model.influence_matrix()))
+
+
+def test_surface_pressure_picture_at_chosen_instants(tmp_path, capsys):
+    from unsteady.apps.cli import main
+    d = tmp_path / "thick"
+    res = simulate(scenario())
+    res.save(d, plots=True)
+    assert (d / "surface-pressure.png").is_file()
+    before = (d / "surface-pressure.png").read_bytes()
+    assert main(["pictures", str(d), "--quiet", "--surface-pressure-at", "0.01,0.03"]) == 0
+    assert (d / "surface-pressure.png").read_bytes() != before        # other instants drawn
+    for bad, words in (("9", "outside the run"), ("a,b", "not a list of times"),
+                       (",".join(["0.01"] * 7), "allowed: 1 to 6")):
+        assert main(["pictures", str(d), "--quiet", "--surface-pressure-at", bad]) == 2
+        err = capsys.readouterr().err.strip().splitlines()
+        assert len(err) == 1 and words in err[0], err
+    thin = tmp_path / "thin"
+    simulate(scenario(airfoil__thick=False, airfoil__elements=40)).save(thin, plots=False)
+    assert main(["pictures", str(thin), "--quiet", "--surface-pressure-at", "0.01"]) == 2
+    assert "thick = true" in capsys.readouterr().err
+    assert not (thin / "surface-pressure.png").exists()

@@ -7,23 +7,41 @@ import numpy as np
 from .pictures import LOOK, finish_figure, house_legend, house_style, new_figure, picture, pressure_instants, run_warnings
 
 
+#: Most instants one surface-pressure picture shows.
+MAX_INSTANTS = 6
+
+
+def has_surface_pressure(result):
+    """Whether the run holds surface pressures (a thick section)."""
+    s = result.snapshots
+    return "cp" in s and "x_surface" in s and len(s["cp"]) > 0
+
+
+def rows_at(result, times):
+    """History rows nearest to each time (s), in the given order."""
+    t = np.asarray(result.history["t"], dtype=float)[:len(result.snapshots["cp"])]
+    return [int(np.argmin(np.abs(t - float(x)))) for x in times]
+
+
 @picture("surface-pressure.png")
-def plot_surface_pressure(result, path):
+def plot_surface_pressure(result, path, times=None):
     """Cp on the upper (solid) and lower (dashed) surface along the chord at a few instants.
 
     Drawn with negative Cp upwards, as the trade draws it (the axis says so);
-    the instants are those of the pressure-jump picture (start, highest and
-    lowest lift, end).  Only runs with ``[airfoil] thick = true`` have it.
+    the instants are ``times`` (s, the nearest steps; ``unsteady pictures
+    --surface-pressure-at``) or those of the pressure-jump picture (start,
+    highest and lowest lift, end).  Only runs with ``[airfoil] thick = true``
+    have it.
     """
     s = result.snapshots
-    if "cp" not in s or "x_surface" not in s or len(s["cp"]) == 0:
+    if not has_surface_pressure(result):
         return False
     cp = np.asarray(s["cp"], dtype=float)
     x = np.asarray(s["x_surface"], dtype=float)
     half = x.shape[0] // 2
     lower, upper = slice(0, half), slice(half, x.shape[0])
     h = result.history
-    rows = [i for i in pressure_instants(h) if i < len(cp)]
+    rows = rows_at(result, times) if times else [i for i in pressure_instants(h) if i < len(cp)]
     fig = new_figure(7.0, 4.6)
     ax = house_style(fig.add_subplot(111))
     colors = [LOOK["trace"], LOOK["ccw"], LOOK["cw"], LOOK["second"], LOOK["gust_up"], LOOK["muted"]]
