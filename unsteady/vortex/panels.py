@@ -35,9 +35,18 @@ rest, following a point of the body (Katz & Plotkin, ch. 13)::
     Cp = (|V_b|^2 - |q|^2 - 2 dphi/dt) / U^2
 
 with V_b the point's velocity relative to the undisturbed air (flight,
-motion, gust), q the outside velocity relative to the point (tangential:
-the air's and the wake's velocity plus the sheet's own, -gamma / 2 on the
-outside) and phi the disturbance potential there.  phi is the potential of
+motion, gust), q the outside velocity relative to the point and phi the
+disturbance potential there.  q is tangential and equals the inside
+velocity less the sheet strength gamma; the enclosed air is irrotational,
+so relative to the body it rests when the body translates and has a fixed
+pattern per unit pitch rate, computed once (``inner_rotation``).  (The sum
+of the velocities on the surface, principal value - gamma / 2, gives the
+same q in the limit but converges only at first order in the panel length
+on flat panels: the lift 0.6 % low at 160 panels against 0.05 %.  Where
+the outline is thinner than two panel lengths, next to the trailing edge,
+the enclosed air is not resolved and the surface sum is blended in, which
+keeps a cusped trailing edge right.  A gust that is not a potential flow
+over the body is treated like one here.)  phi is the potential of
 a chain of constant-strength doublet segments through the nodes, the wake
 (newest first) and the far wake, the same vortices as the point vortices
 (:func:`~unsteady.vortex.panel_kernels.chain_potential`), so its only cut
@@ -202,7 +211,28 @@ class SurfacePanels:
         #: normal and tangential velocity at the mid-points per unit node gamma
         self.normal_gamma = mu_u * g.n_xi[:, None] + mu_w * g.n_zeta[:, None]
         self.tangent_gamma = mu_u * g.t_xi[:, None] + mu_w * g.t_zeta[:, None]
+        self.inner_rotation = self._inner_rotation()
+        # where the outline is thinner than about two panels (next to a trailing edge, most of a
+        # cusped one) the enclosed air is not resolved: there q is the sum of the velocities on
+        # the surface, blended in over thicknesses from two panel lengths down to one
+        across = np.hypot(g.xi_c - g.xi_c[::-1], g.zeta_c - g.zeta_c[::-1])
+        self.resolved = np.clip(across / g.ds - 1.0, 0.0, 1.0)
         self.loads = None
+
+    def _inner_rotation(self):
+        """Tangential velocity of the enclosed air relative to the body per unit pitch rate (m/s per rad/s).
+
+        The enclosed air is irrotational: for a translating body it moves with
+        the body (zero here), for a pitching one it cannot turn with it.  From
+        one solve of the panel system with the rigid rotation alone (inside
+        limit: principal value + gamma / 2, less the body's own velocity).
+        """
+        g = self.geometry
+        ub, wb = g.zeta_c, -g.xi_c                    # unit pitch rate about the pivot, zero pitch
+        rhs = np.append(ub * g.n_xi + wb * g.n_zeta, 0.0)
+        gamma = np.linalg.solve(self.influence_matrix(), rhs) / g.w
+        inside = self.tangent_gamma @ gamma + 0.25 * (gamma[:-1] + gamma[1:])
+        return inside - (ub * g.t_xi + wb * g.t_zeta)
 
     @property
     def n(self) -> int:
@@ -323,19 +353,25 @@ class SurfaceLoads:
         G = s.gamma[sl]
         gamma = G / g.w
         xc, zc = s.xc[:N], s.zc[:N]
-        u = s.u_air[:N].copy()                     # freestream, gust, wake, far wake
-        w = s.w_air[:N].copy()
-        for p in s.proposals:                      # this step's new vortices
-            dx, dz = xc - p.x, zc - p.z
-            r2 = dx * dx + dz * dz
-            f = p.gamma / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
-            u -= f * dz
-            w += f * dx
         ub = s.alpha_dot * (zc - s.h)              # the body's own velocity
         wb = s.h_dot - s.alpha_dot * xc
-        tx, tz = rotate(g.t_xi, g.t_zeta, s.alpha)
         nx, nz = rotate(g.n_xi, g.n_zeta, s.alpha)
-        q_t = (u - ub) * tx + (w - wb) * tz + m.tangent_gamma @ gamma - 0.25 * (gamma[:-1] + gamma[1:])
+        # outside = inside - gamma; inside, relative to the body: the enclosed air's own motion
+        gamma_mid = 0.5 * (gamma[:-1] + gamma[1:])
+        q_t = s.alpha_dot * m.inner_rotation - gamma_mid
+        f = m.resolved
+        if f.min() < 1.0:                          # too thin to resolve: the velocities on the surface
+            u = s.u_air[:N].copy()                 # freestream, gust, wake, far wake
+            w = s.w_air[:N].copy()
+            for p in s.proposals:                  # this step's new vortices
+                dx, dz = xc - p.x, zc - p.z
+                r2 = dx * dx + dz * dz
+                k = p.gamma / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
+                u -= k * dz
+                w += k * dx
+            tx, tz = rotate(g.t_xi, g.t_zeta, s.alpha)
+            q_s = (u - ub) * tx + (w - wb) * tz + m.tangent_gamma @ gamma - 0.5 * gamma_mid
+            q_t = f * q_t + (1.0 - f) * q_s
         ua, wa = U, 0.0                            # the undisturbed air
         if solver.gust is not None:
             gu, gw = solver.gust.velocity(xc, zc, s.t)
