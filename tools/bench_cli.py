@@ -88,7 +88,7 @@ def time_commands(repeats, tmp):
 def time_pictures(tmp, repeats=3):
     """{(scenario, picture): (first draw s, median wall s, median CPU s)} over the two runs."""
     import unsteady
-    from unsteady.outputs.pictures import PICTURES
+    from unsteady.outputs.gallery import PICTURES
     out = {}
     for path in (PITCH_UP, GUST):
         res = unsteady.simulate(unsteady.load_scenario(path))

@@ -25,7 +25,7 @@ import math
 
 import numpy as np
 
-from ..core.cautions import GUST_CAUTION
+from ..core.cautions import DIMENSIONAL_CAUTION
 from ..theory import G
 
 
@@ -56,5 +56,5 @@ def add_dimensional_loads(history, sc):
             out["root_bending_max_Nm"] = float(np.nanmax(history["root_bending_Nm"]))
         out["root_bending_note"] = ("aerodynamic bending of one half-wing at the root, elliptic spanwise "
                                     "loading (half-wing lift at 4 s / (3 pi) from the root), no inertia relief")
-    out["dimensional_load_caution"] = GUST_CAUTION
+    out["dimensional_load_caution"] = DIMENSIONAL_CAUTION
     return out

@@ -16,7 +16,7 @@ def add_arguments(p):
 def main(args):
     from ..core.errors import UsageError
     from ..core.files import owned_file, probe_writable
-    from ..outputs.picture_set import PICTURES, write_run_plots
+    from ..outputs.gallery import PICTURES, write_run_plots
     from ..outputs.rundir import load_run
     run_dir = Path(args.run_dir)
     res = load_run(run_dir)

@@ -48,7 +48,22 @@ def main(args):
             from ..core.cautions import SHEDDING_CAUTION
             print(f"leading edge sheds from t = {s['lev_onset_t']:.4g} s (lesp_critical = "
                   f"{s['lesp_critical']:g}); caution: {SHEDDING_CAUTION}")
+        if "lift_max_N" in s:
+            print(f"loads: lift up to {s['lift_max_N']:.4g} N"
+                  + (f", root bending of a half-wing up to {s['root_bending_max_Nm']:.4g} N m (elliptic "
+                     f"loading, no inertia relief)" if "root_bending_max_Nm" in s else ""))
+        if "N0" in s:
+            reals = (s.get("turbulence") or {}).get("realisations")
+            print(f"turbulence: n_rms {s['n_rms']:.4g}, A_bar {s['A_bar']:.4g} per m/s, N0 {s['N0']:.4g} Hz "
+                  f"(n low-passed at {s['N0_cut_off_Hz']:.4g} Hz, the first "
+                  f"{s['turbulence']['startup_discarded_s']:.3g} s left out)"
+                  + (f"; means of {reals['count']} realisations, spread n_rms {s['n_rms_std']:.2g}, "
+                     f"N0 {s['N0_std']:.2g} Hz" if reals else ""))
         if "n_max" in s:
-            from ..core.cautions import GUST_CAUTION
+            from ..core.cautions import DIMENSIONAL_CAUTION, GUST_CAUTION, STATISTICS_CAUTION
             print(f"caution: {GUST_CAUTION}")
+            if "lift_max_N" in s:
+                print(f"caution: {DIMENSIONAL_CAUTION}")
+            if "N0" in s:
+                print(f"caution: {STATISTICS_CAUTION}")
     return 0

@@ -22,7 +22,16 @@ Every case is re-resolved from the raw input with its overrides applied, so
 derived defaults (time step, density from altitude) follow the case.  Results
 go to ``sweep.csv`` (rewritten atomically after every finished case), keyed by
 a hash of the fully resolved case scenario and the package version: running
-the same sweep again skips the finished cases.
+the same sweep again skips the finished cases.  The headers carry the units
+(``t_cl_max (s)``, ``flow.speed (m/s)``; coefficients, load factors and
+counts have none).  Each row also gives the case's verdict (``ok``, or where
+the attached-flow model is out of its depth), the number of warnings, the lag
+metrics, and for gust cases with ``[aircraft]`` the gust-formula estimate and
+ratio, ``lift_max_N`` and ``root_bending_max_Nm``.  The base scenario (with its
+``[sweep]``) is saved beside the table as ``sweep-scenario.toml``; a table of
+another definition of the sweep (base, grid or version changed) is refused,
+never mixed.  A grid with an invalid case is refused as a whole, before
+anything runs.
 """
 
 from __future__ import annotations
@@ -39,18 +48,22 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..core.cautions import SWEEP_CAUTION
+from ..core.errors import UsageError
 from ..core.files import claim_out_dir, write_text
 from ..core.version import __version__
 from ..inputs.scenario import ScenarioError, load_scenario
+from ..outputs.report import column_header, column_key
 from ..inputs.sweep import _fmt_value, expand  # noqa: F401
 from ..inputs.sweep_cases import build_cases, case_key, case_warnings, check_cases  # noqa: F401
 
 TABLE_NAME = "sweep.csv"
 PICTURE_NAME = "envelope.png"
+BASE_NAME = "sweep-scenario.toml"
 
 # headline numbers first, in this order, when a case's summary has them
-HEADLINE = ("cl_max", "t_cl_max", "cl_min", "t_cl_min", "cm_max", "cm_min",
-            "n_max", "t_n_max", "n_min")
+HEADLINE = ("verdict", "warnings_count", "cl_max", "t_cl_max", "cl_min", "t_cl_min", "cm_max", "cm_min",
+            "n_max", "t_n_max", "n_min", "t_n_min", "dn_max", "dn_formula", "dn_ratio", "lift_max_N",
+            "root_bending_max_Nm", "n_rms", "A_bar", "N0", "N0_cut_off_Hz")
 # summary numbers that describe the run rather than the result
 NOT_RESULTS = {"wall_time_s", "version", "caution"}
 
@@ -85,7 +98,9 @@ def run_case(payload):
         from ..simulation.runner import simulate
         sc = load_scenario(payload["raw"], source_name=payload.get("source"), base_dir=payload.get("base_dir"))
         res = simulate(sc)
-        out["summary"] = _numbers(res.summary)
+        out["summary"] = dict(_numbers(res.summary), **_numbers(res.summary.get("lag") or {}))
+        out["summary"]["warnings_count"] = len(res.summary.get("warnings") or [])
+        out["verdict"] = verdict_of(res.summary)
         if res.error:
             out["status"], out["message"] = "failed", f"run stopped early: {res.error}"
         if payload.get("save_dir"):
@@ -98,8 +113,20 @@ def run_case(payload):
     return out
 
 
+def verdict_of(summary):
+    """``ok``, or in a few words where the attached-flow model is out of its depth for the case
+    (the lag block's validity reasons, then the run's warnings without their file prefix)."""
+    val = (summary.get("lag") or {}).get("validity") or {}
+    reasons = list(val.get("reasons") or []) if val.get("attached_flow_ok") is False else []
+    for w in summary.get("warnings") or []:
+        parts = str(w).split(": ", 3)
+        reasons.append(": ".join(parts[2:]) if len(parts) >= 3 else str(w))
+    return "ok" if not reasons else "out of range: " + "; ".join(dict.fromkeys(reasons))
+
+
 # --------------------------------------------------------------------------
 # the results table
+
 
 class SweepTable:
     """``sweep.csv``: one row per case, rewritten atomically (temp file, rename) on every record."""
@@ -112,10 +139,9 @@ class SweepTable:
         self.rows = {}          # case_key -> dict of column -> text
         self.order = []         # case keys of this sweep, in case order
         if self.path.exists():
-            with open(self.path, newline="") as f:
-                for r in csv.DictReader(f):
-                    if r.get("case_key"):
-                        self.rows[r["case_key"]] = r
+            for r in read_table(self.path):
+                if r.get("case_key"):
+                    self.rows[r["case_key"]] = r
 
     def done(self, key, retry_failed=False):
         r = self.rows.get(key)
@@ -128,6 +154,8 @@ class SweepTable:
                 row[k] = _fmt_value(case.overrides[k])
         row["status"] = result["status"]
         row["message"] = " ".join(str(result.get("message", "")).split())
+        if "verdict" in result:
+            row["verdict"] = " ".join(str(result["verdict"]).split())
         for k, v in result.get("summary", {}).items():
             row[k] = repr(float(v)) if isinstance(v, float) else str(v)
         if "wall_time_s" in result:
@@ -163,16 +191,16 @@ class SweepTable:
         rows = self.ordered_rows()
         cols = self.columns(rows)
         buf = io.StringIO()
-        w = csv.DictWriter(buf, fieldnames=cols, restval="", lineterminator="\n")
-        w.writeheader()
-        w.writerows(rows)
+        w = csv.writer(buf, lineterminator="\n")
+        w.writerow([column_header(k) for k in cols])
+        w.writerows([[r.get(k, "") for k in cols] for r in rows])
         write_text(self.path, buf.getvalue())
 
 
 def read_table(path):
-    """Read a ``sweep.csv``: a list of dicts of column -> text."""
+    """Read a ``sweep.csv``: a list of dicts of key (the header less its unit) -> text."""
     with open(path, newline="") as f:
-        return list(csv.DictReader(f))
+        return [{column_key(k): v for k, v in r.items() if k is not None} for r in csv.DictReader(f)]
 
 
 # --------------------------------------------------------------------------
@@ -275,28 +303,31 @@ def run_sweep(sc, out_dir, *, workers=None, scheduler=None, client=None, progres
     Raises
     ------
     ScenarioError
-        When no case at all is valid (nothing is written then).
+        When any case is invalid, or the envelope asks for a number no case gives (one problem a
+        line; nothing is run or written then).
+    UsageError
+        When ``out_dir`` holds a table of another definition of the sweep.
     """
     case_fn = case_fn or run_case
-    cases = build_cases(sc)
-    if warnings_to is not None:
-        for line in case_warnings(sc, cases):
-            print(line, file=warnings_to)
-    valid = [c for c in cases if not c.problems]
-    if not valid:
-        raise ScenarioError([p for c in cases for p in c.problems])
+    cases = check_cases(sc, stream=warnings_to if warnings_to is not None else io.StringIO())
+    valid = cases
     out_dir = Path(out_dir)
     save_runs = sc.data["sweep"].get("save_runs", False)
     keys = swept_keys(sc.data["sweep"])
     claim_out_dir(out_dir, "sweep", create=True, folders=("runs",))   # ours, or refused: before running
     table = SweepTable(out_dir / TABLE_NAME, keys)
     table.order = [c.key for c in cases]
+    foreign = [k for k in table.rows if k not in set(table.order)]
+    if foreign:
+        base = out_dir / BASE_NAME
+        raise UsageError(
+            f"error: {sc.source}: sweep: {table.path} holds {len(foreign)} case(s) of another definition of "
+            f"this sweep (its base scenario, grid or cases, or the program's version changed"
+            + (f"; that definition is in {base}" if base.is_file() else "")
+            + f"): give another folder with --out, or remove {out_dir} to start a fresh table")
+    write_text(out_dir / BASE_NAME, "# The base scenario of this sweep (with its [sweep]), as resolved when it "
+                                    "last ran; sweep.csv holds its cases.\n" + sc.to_toml())
     rep = SweepReport(out_dir=out_dir, total=len(cases))
-    for c in cases:
-        if c.problems and not table.done(c.key, retry_failed):
-            msg = "; ".join(f"{p.key.split('.', 1)[1] if '.' in p.key else p.key}: {p.message}" for p in c.problems)
-            table.record(c, {"status": "failed", "message": f"invalid: {msg}", "summary": {}})
-            rep.invalid += 1
     todo = []
     for c in valid:
         if table.done(c.key, retry_failed):
@@ -406,7 +437,11 @@ def envelope_choice(sc, rows):
 
 
 def write_envelope(sc, out_dir, rows):
-    """Plot a headline number against a swept key, one line per value of another.
+    """Plot a headline number against a swept key, one line per value of another, in the house
+    style (:mod:`unsteady.outputs.pictures`): units on the axes, the gust-formula estimate as a
+    dashed line where the cases have one (``dn_formula``: 1 + dn for ``n_max``, dn for ``dn_max``,
+    1 for ``dn_ratio``), cases out of the model's range (verdict not ``ok``) marked, and the
+    sweep caution.
 
     Writes ``envelope.png`` (atomically) and returns its path, or None when
     the chosen key is not numeric or no case has finished.
@@ -418,27 +453,52 @@ def write_envelope(sc, out_dir, rows):
     xs = [_as_float(r.get(across)) for r in ok]
     if not any(math.isfinite(x) for x in xs):
         return None
-    import textwrap
-    from ..outputs.pictures import new_figure, save_png
+    from ..outputs.pictures import LOOK, SERIES, finish_figure, house_legend, house_style, new_figure
+    from ..outputs.report import unit_of
+
+    def label(key):
+        u = unit_of(key)
+        return f"{key} ({u})" if u else key
     groups = {}
     for r, x in zip(ok, xs):
-        groups.setdefault(r.get(lines, "") if lines else "", []).append((x, _as_float(r.get(value))))
-    fig = new_figure(7.0, 4.6, paper=False, layout="constrained")
-    ax = fig.add_subplot()
-    for g, pts in groups.items():
+        groups.setdefault(r.get(lines, "") if lines else "", []).append(
+            (x, _as_float(r.get(value)), _as_float(r.get("dn_formula")), r.get("verdict", "ok") != "ok"))
+    fig = new_figure(7.6, 5.0)
+    ax = house_style(fig.add_subplot())
+    formula_shift = {"n_max": 1.0, "dn_max": 0.0}
+    drew_formula = drew_out = False
+    for i, (g, pts) in enumerate(groups.items()):
+        colour = SERIES[i % len(SERIES)]
         pts = sorted(p for p in pts if math.isfinite(p[0]) and math.isfinite(p[1]))
-        if pts:
-            ax.plot([p[0] for p in pts], [p[1] for p in pts], marker="o", label=f"{lines} = {g}" if lines else None)
-    ax.set_xlabel(across)
-    ax.set_ylabel(value)
-    ax.set_title(sc.title or "sweep envelope")
-    ax.grid(True, alpha=0.3)
-    if lines:
-        ax.legend(fontsize=8)
-    fig.text(0.01, 0.0, "\n".join(textwrap.wrap(SWEEP_CAUTION, 120)), fontsize=6, va="bottom", color="0.3")
-    fig.get_layout_engine().set(rect=(0, 0.06, 1, 0.94))
+        if not pts:
+            continue
+        ax.plot([p[0] for p in pts], [p[1] for p in pts], marker="o", ms=4.5, color=colour, lw=1.4,
+                mfc=colour, label=f"{label(lines)} = {g}" if lines else value)
+        bad = [p for p in pts if p[3]]
+        if bad:
+            ax.plot([p[0] for p in bad], [p[1] for p in bad], "o", ms=10, mfc="none", mec=LOOK["warn"], mew=1.4)
+            drew_out = True
+        est = [p for p in pts if math.isfinite(p[2])]
+        if est and (value in formula_shift or value == "dn_ratio"):
+            y = [1.0 if value == "dn_ratio" else formula_shift[value] + p[2] for p in est]
+            ax.plot([p[0] for p in est], y, ls="--", lw=1.0, color=colour, alpha=0.85)
+            drew_formula = True
+    if drew_formula:
+        ax.plot([], [], ls="--", lw=1.0, color=LOOK["muted"],
+                label="gust formula (Pratt-Walker)" if value != "dn_ratio" else "equal to the gust formula")
+    if drew_out:
+        ax.plot([], [], "o", ms=10, mfc="none", mec=LOOK["warn"], mew=1.4,
+                label="outside the attached-flow range (see the verdict in sweep.csv)")
+    ax.set_xlabel(label(across), fontsize=9)
+    ax.set_ylabel(label(value), fontsize=9)
+    house_legend(ax)
+    notes = [f"{len(ok)} of {len(rows)} cases finished" + (f"; {sum(p[3] for g in groups.values() for p in g)} "
+                                                             "outside the model's range (ringed)" if drew_out else "")]
+    if drew_out:
+        notes = [(notes[0], LOOK["warn"])]
     path = Path(out_dir) / PICTURE_NAME
-    save_png(fig, path, dpi=120)
+    finish_figure(fig, path, f"{sc.title or 'sweep'}: envelope of {value}", notes, caution=SWEEP_CAUTION,
+                  left=0.8, bottom=0.6, top=0.2)
     return path
 
 

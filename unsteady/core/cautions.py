@@ -48,3 +48,20 @@ PICTURE_SHEDDING_CAUTION = (
     "Inviscid model, leading-edge shedding by a chosen critical LESP (no trailing-edge stall): "
     "estimates only; design loads follow the applicable airworthiness rules."
 )
+
+#: Caution beside lift in newtons, root bending moments and other dimensional loads.
+DIMENSIONAL_CAUTION = (
+    "Aerodynamic loads of an inviscid, attached-flow section model (no stall), carried to the "
+    "aircraft by its mass and wing area; the root bending moment assumes an elliptic spanwise "
+    "loading and no inertia relief. Estimates with margins, not design loads: those follow the "
+    "applicable airworthiness rules and are signed off by qualified engineers."
+)
+
+#: Caution beside continuous-turbulence statistics (n_rms, A_bar, N0, exceedance rates).
+STATISTICS_CAUTION = (
+    "Statistics of a finite record of one synthetic turbulence field (or a few) on an inviscid, "
+    "attached-flow section model free to heave only (no pitch response, no structural modes), "
+    "low-passed at a stated cut-off; they scatter from record to record. Design loads in "
+    "continuous turbulence follow the applicable airworthiness rules and are signed off by "
+    "qualified engineers."
+)

@@ -22,6 +22,15 @@ CL_LEVEL_LIMIT = 1.0
 #: Above this level-flight lift coefficient the check refuses the scenario.
 CL_LEVEL_MAX = 2.0
 
+#: Physically meaningful ranges (low, high, unit words) of the aircraft's numbers: from a
+#: gram-scale flier to a large transport (about 6e5 kg, common practice), wing areas from
+#: 1 cm^2 to 1,000 m^2, aspect ratios from 0.2 (a disc-like planform) to 50 (beyond sailplanes).
+RANGES = {
+    "mass": (1e-3, 1e6, "kg"),
+    "wing_area": (1e-4, 1e3, "m^2"),
+    "aspect_ratio": (0.2, 50.0, "(span^2 / wing area)"),
+}
+
 
 def lift_scale(aspect_ratio):
     """kappa = a(A) / (2 pi) (Helmbold's slope over the 2-D one), 1 for no aspect ratio."""
@@ -42,13 +51,16 @@ def check_aircraft_section(value, ctx):
             errors.append(InputError(f"aircraft.{key}", f"is required ({unit}, > 0)"))
             continue
         try:
-            out[key] = number(f"aircraft.{key}", value[key], gt=0.0, unit=unit)
+            number(f"aircraft.{key}", value[key], gt=0.0, unit=unit)
+            lo, hi, unit = RANGES[key]
+            out[key] = number(f"aircraft.{key}", value[key], ge=lo, le=hi, unit=unit)
         except InputError as e:
             errors.append(e)
     if "aspect_ratio" in value:
         try:
-            out["aspect_ratio"] = number("aircraft.aspect_ratio", value["aspect_ratio"], gt=0.0,
-                                         unit="(span^2 / wing area)")
+            number("aircraft.aspect_ratio", value["aspect_ratio"], gt=0.0)
+            lo, hi, unit = RANGES["aspect_ratio"]
+            out["aspect_ratio"] = number("aircraft.aspect_ratio", value["aspect_ratio"], ge=lo, le=hi, unit=unit)
         except InputError as e:
             errors.append(e)
     if "span" in value:

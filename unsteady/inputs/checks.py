@@ -87,6 +87,15 @@ def text(key, v):
     return v
 
 
+def available_memory():
+    """Physical memory of this machine in bytes (None where the system does not say)."""
+    import os
+    try:
+        return os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
+    except (ValueError, OSError, AttributeError):
+        return None
+
+
 def unknown_keys(table, allowed, prefix):
     """InputErrors for keys of ``table`` not in ``allowed``, with the nearest suggested."""
     out = []

@@ -75,6 +75,25 @@ SPECTRA: dict = {}
 
 DIRECTIONS = ("vertical", "streamwise")
 
+#: Physically meaningful ranges of the gust numbers (key -> (low, high, unit)), checked for
+#: every profile that has the key: gust velocities up to 100 m/s (the strongest design gusts
+#: of the airworthiness rules are about 20 m/s true airspeed; common practice), gust lengths
+#: and wavelengths from a millimetre to 100 km, turbulence scale lengths from a centimetre
+#: (grid turbulence of a tunnel) to 100 km (the atmosphere's are metres to a few hundred
+#: metres, MIL-F-8785C), reduced frequencies up to 50, arrivals within a million seconds.
+RANGES = {
+    "amplitude": (0.0, 100.0, "m/s"),
+    "intensity": (0.0, 50.0, "m/s"),
+    "length": (1e-3, 1e5, "m"),
+    "wavelength": (1e-3, 1e5, "m"),
+    "scale_length": (0.01, 1e5, "m"),
+    "reduced_frequency": (0.0, 50.0, ""),
+    "arrival": (-1e6, 1e6, "s"),
+}
+
+#: At most this many realisations of a turbulence gust (``realisations``) in one run.
+MAX_REALISATIONS = 64
+
 
 #: Class decorators: add a :class:`GustProfile` / :class:`Spectrum` subclass by name.
 register_profile = registrar(PROFILES, "gust profile")
@@ -401,7 +420,7 @@ class Turbulence(GustProfile):
             "scale_length": "m, > 0"}
     FILLS_SPACE = True        # the aircraft flies in it from t = 0 (see the class docstring)
     AHEAD_CHORDS = 3.0
-    OPTIONAL = {"seed": 0}
+    OPTIONAL = {"seed": 0, "realisations": None}
     POSITIVE = ("intensity", "scale_length")
     TEXT = ("spectrum",)
 
@@ -409,6 +428,34 @@ class Turbulence(GustProfile):
     def check(cls, spec, ctx):
         choice("spectrum", spec["spectrum"], list(SPECTRA))
         integer("seed", spec.get("seed", 0), ge=0)
+        c = ctx.get("airfoil", {}).get("chord")
+        if c:
+            n, dx = cls.grid_points(spec, ctx)
+            need = n * cls.BYTES_PER_POINT
+            from . import checks
+            have = checks.available_memory()
+            if n > cls.MAX_POINTS or (have and need > 0.25 * have):
+                raise InputError("scale_length", f"with the path of the run the turbulence pattern needs "
+                                                 f"{n:.3g} points every {dx:.3g} m (about {need / 2**30:.3g} GiB; "
+                                                 f"at most {cls.MAX_POINTS:.3g} points and a quarter of the "
+                                                 f"machine's memory): raise scale_length or shorten "
+                                                 f"run.duration")
+
+    #: Bytes per point of the synthesis (samples, abscissae, the complex spectrum, the normals).
+    BYTES_PER_POINT = 64
+    #: At most this many points in one pattern (2^28: about 17 GiB of working arrays).
+    MAX_POINTS = 2 ** 28
+
+    @classmethod
+    def grid_points(cls, spec, ctx):
+        """(points of the synthesis period, grid spacing m) of :func:`turbulence_samples` for this run."""
+        c = ctx["airfoil"]["chord"]
+        L = float(spec["scale_length"])
+        dx = min(c / 16.0, L / 200.0)
+        span = _xi_span(ctx, float(spec.get("arrival", 0.0)))
+        length = max(span[1] + cls.AHEAD_CHORDS * c, dx)
+        n_min = max(length / dx + 1 + 10.0 * L / dx, 64.0 * L / dx, 16)
+        return float(2.0 ** math.ceil(math.log2(n_min))), dx
 
     def __init__(self, spec, ctx):
         super().__init__(spec, ctx)
@@ -423,7 +470,7 @@ class Turbulence(GustProfile):
         self.x0 = -self.AHEAD_CHORDS * c
         self.samples = turbulence_samples(spec["spectrum"], self.sigma, self.L,
                                           max(self.span[1] - self.x0, self.dx), self.dx,
-                                          int(spec.get("seed", 0)), component)
+                                          realisation_seeds(spec)[0], component)
         self.x = self.x0 + np.arange(self.samples.size) * self.dx
 
     def shape(self, xi):
@@ -527,7 +574,12 @@ def _check_one(g, prefix, ctx):
     except InputError as e:
         return g, [e]
     cls = PROFILES[name]
-    errors = unknown_keys(g, {"profile", *cls.KEYS, *cls.OPTIONAL, *GustProfile.COMMON}, prefix)
+    errors = []
+    if "realisations" in g and "realisations" not in cls.OPTIONAL:
+        errors.append(InputError(f"{prefix}realisations", f"statistics over realisations need a 'turbulence' "
+                                                          f"gust; a '{name}' gust is one fixed pattern"))
+        g = {k: v for k, v in g.items() if k != "realisations"}
+    errors += unknown_keys(g, {"profile", *cls.KEYS, *cls.OPTIONAL, *GustProfile.COMMON}, prefix)
     for key, what in cls.KEYS.items():
         if key not in g:
             errors.append(InputError(f"{prefix}{key}", f"is required for the '{name}' profile ({what})"))
@@ -544,10 +596,18 @@ def _check_one(g, prefix, ctx):
                 out[key] = v
             elif key == "seed":
                 out[key] = integer(f"{prefix}seed", v, ge=0)
-            elif key in cls.POSITIVE:
-                out[key] = number(f"{prefix}{key}", v, gt=0.0)
+            elif key == "realisations":
+                out[key] = check_realisations(f"{prefix}realisations", v)
             else:
-                out[key] = number(f"{prefix}{key}", v)
+                lo, hi, unit = RANGES.get(key, (None, None, ""))
+                if key in cls.POSITIVE:
+                    out[key] = number(f"{prefix}{key}", v, gt=0.0)
+                    if lo:
+                        out[key] = number(f"{prefix}{key}", v, ge=lo, le=hi, unit=unit)
+                    elif hi is not None:
+                        out[key] = number(f"{prefix}{key}", v, gt=0.0, le=hi, unit=unit)
+                else:
+                    out[key] = number(f"{prefix}{key}", v, ge=lo, le=hi, unit=unit)
         except InputError as e:
             errors.append(e)
     for key, default in {**GustProfile.COMMON, **cls.OPTIONAL}.items():
@@ -560,6 +620,33 @@ def _check_one(g, prefix, ctx):
     except InputError as e:
         errors.append(InputError(f"{prefix}{e.key}", e.message))
     return out, errors
+
+
+def check_realisations(key, v):
+    """``realisations``: a positive whole number (that many seeds from ``seed`` on) or a list of
+    distinct seeds (whole numbers >= 0; it replaces ``seed``, the run itself flies the first);
+    at most :data:`MAX_REALISATIONS`.  Returns it cleaned."""
+    if isinstance(v, list):
+        if not v or len(v) > MAX_REALISATIONS:
+            raise InputError(key, f"must be a list of 1 to {MAX_REALISATIONS} seeds, got {len(v)} entries")
+        seeds = [integer(key, x, ge=0) for x in v]
+        if len(set(seeds)) != len(seeds):
+            raise InputError(key, f"must list distinct seeds (each one is a realisation), got {v!r}")
+        return seeds
+    if isinstance(v, bool) or not (isinstance(v, int) or (isinstance(v, float) and v.is_integer())):
+        raise InputError(key, f"must be a positive whole number or a list of seeds, got {v!r}")
+    return integer(key, v, ge=1, le=MAX_REALISATIONS)
+
+
+def realisation_seeds(spec):
+    """The seeds of a turbulence gust's realisations: ``[seed]`` without ``realisations``."""
+    r = spec.get("realisations")
+    seed = int(spec.get("seed", 0))
+    if r is None:
+        return [seed]
+    if isinstance(r, list):
+        return [int(x) for x in r]
+    return [seed + i for i in range(int(r))]
 
 
 def _motion_angle_peak(ctx, w_peak):
@@ -619,6 +706,17 @@ def check_gust_section(value, ctx):
         r, e = _check_one(g, prefix, ctx)
         resolved.append(r)
         errors += e
+    for r, prefix in zip(resolved, prefixes):
+        if r.get("realisations") is None or any(e.key == f"{prefix}realisations" for e in errors):
+            continue
+        if len(resolved) > 1 or r.get("direction", "vertical") != "vertical":
+            errors.append(InputError(f"{prefix}realisations", "load-factor statistics are made for one "
+                                                              "vertical turbulence gust alone; remove the "
+                                                              "other gusts or realisations"))
+        elif "aircraft" not in ctx:
+            errors.append(InputError(f"{prefix}realisations", "load-factor statistics need [aircraft] (mass "
+                                                              "and wing_area: the load factor); add it or "
+                                                              "remove realisations"))
     if not errors and ctx.get("flow", {}).get("speed") and ctx.get("airfoil", {}).get("chord"):
         warn = _effective_angle_warning(resolved, [p + "amplitude" if "amplitude" in r else p + "intensity"
                                                    for p, r in zip(prefixes, resolved)], ctx)

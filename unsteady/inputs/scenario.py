@@ -51,13 +51,7 @@ def memory_estimate(steps, elements):
     return int(rows * 30 * 8 + rows * elements * 4 + (elements + rows) * 12 * 8 + 200 * min(rows, 2e5) * 12)
 
 
-def available_memory():
-    """Physical memory of this machine in bytes (None where the system does not say)."""
-    import os
-    try:
-        return os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
-    except (ValueError, OSError, AttributeError):
-        return None
+from .checks import available_memory  # noqa: E402  (tests replace scenario.available_memory)
 DEFAULT_FAR_WAKE = 30.0   # chords
 
 
@@ -514,6 +508,7 @@ def resolve(raw, base_dir, stem="scenario"):
             value, errs = checker(raw[name], ctx)
             errors += errs
             out[name] = value
+            ctx[name] = value          # a later section may depend on an earlier one (gust on aircraft)
     if ctx["_warnings"]:
         out["_warnings"] = ctx["_warnings"]
     return out, one_per_problem(errors, not_tables)

@@ -56,11 +56,21 @@ def _fmt_value(v):
 
 
 def _name_from_pattern(pattern, values, index):
+    """The name of a case from the pattern; InputError (``sweep.name``) when a placeholder's key
+    is not set by the case or its format does not apply to the value."""
     def sub(m):
         key, spec = m.group(1), m.group(2)
+        if key != "index" and key not in values:
+            raise InputError("sweep.name", f"refers to {{{key}}}, which case {index} does not set; give "
+                                           f"that case a name of its own or set {key} in it")
         v = index if key == "index" else values[key]
         if spec:
-            return format(v, spec)
+            try:
+                return format(v, spec)
+            except (ValueError, TypeError) as exc:
+                raise InputError("sweep.name", f"the format {{{key}:{spec}}} does not apply to {v!r} "
+                                               f"({exc}); use a Python format such as {{{key}:g}} or "
+                                               f"{{{key}:.2f}}, or no format") from None
         return _fmt_value(v)
     return _PLACEHOLDER.sub(sub, pattern)
 
@@ -122,10 +132,12 @@ def check_section(value, ctx):
     if "name" in value:
         try:
             pat = text("sweep.name", value["name"])
+            case_keys = [k for c in cases if "name" not in c for k in c]
             for m in _PLACEHOLDER.finditer(pat):
-                if m.group(1) != "index" and m.group(1) not in grid:
-                    raise InputError("sweep.name", f"refers to {{{m.group(1)}}}, which is not a grid key; "
-                                                   f"allowed: {', '.join(['index'] + list(grid))}")
+                if m.group(1) != "index" and m.group(1) not in grid and m.group(1) not in case_keys:
+                    raise InputError("sweep.name", f"refers to {{{m.group(1)}}}, which is not a grid key "
+                                                   f"nor a key of an unnamed case; allowed: "
+                                                   f"{', '.join(dict.fromkeys(['index'] + list(grid) + case_keys))}")
             out["name"] = pat
         except InputError as e:
             errors.append(e)
@@ -162,8 +174,10 @@ def expand(sweep):
     """The cases of a resolved ``[sweep]`` section: a list of ``(name, overrides)``.
 
     Grid cases (Cartesian product in the order the keys are given, the last
-    varying fastest) come first, then the listed cases.  Unnamed cases are
-    called ``case-001``, ``case-002`` ... by their position.
+    varying fastest) come first, then the listed cases.  Unnamed cases take
+    the name pattern (``sweep.name``) when they set every key it names;
+    otherwise they are called ``case-001``, ``case-002`` ... by their
+    position.
     """
     out = []
     grid = sweep.get("grid") or {}
@@ -178,7 +192,9 @@ def expand(sweep):
     for c in sweep.get("cases") or ():
         i = len(out) + 1
         ov = {k: v for k, v in c.items() if k != "name"}
-        out.append((c.get("name") or f"case-{i:03d}", ov))
+        fits = pattern and all(m.group(1) == "index" or m.group(1) in ov for m in _PLACEHOLDER.finditer(pattern))
+        name = c.get("name") or (_name_from_pattern(pattern, ov, i) if fits else f"case-{i:03d}")
+        out.append((name, ov))
     seen = {}
     for name, _ in out:
         if name in seen:

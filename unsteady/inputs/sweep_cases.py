@@ -116,17 +116,100 @@ def case_warnings(sc, cases):
     return out
 
 
-def check_cases(sc, stream=None):
-    """Check every case of ``sc``'s ``[sweep]``; raise ScenarioError listing all invalid ones.
+def grouped_problems(sc, cases):
+    """The problems of the cases, one per distinct problem: the same key and message in several
+    cases (a bad grid key, a bad base value) is one Problem naming the cases
+    (``sweep[all 6 cases].flow.sped``, ``sweep[case-001, case-004].key``)."""
+    groups = {}
+    for c in cases:
+        for p in c.problems:
+            prefix = f"sweep[{c.name}]."
+            sub = p.key[len(prefix):] if p.key.startswith(prefix) else p.key
+            groups.setdefault((sub, p.message), []).append(c.name)
+    out = []
+    for (sub, message), names in groups.items():
+        if len(names) == 1:
+            who = names[0]
+        elif len(names) == len(cases):
+            who = f"all {len(cases)} cases"
+        elif len(names) <= 3:
+            who = ", ".join(names)
+        else:
+            who = f"{', '.join(names[:2])} and {len(names) - 2} more"
+        out.append(Problem(sc.source, f"sweep[{who}].{sub}", message))
+    return out
 
-    Warnings of valid cases are written to ``stream`` (default stderr).
+
+#: Summary numbers every run gives (and the model's own), by what the case has; the lag block's
+#: numbers are flattened into the table under their own names.  tests/test_sweep.py checks that
+#: the bundled scenarios give no number outside these.
+ALWAYS_NUMBERS = ("steps", "cl_max", "t_cl_max", "cl_min", "t_cl_min", "cm_max", "cm_min", "cd_mean",
+                  "cl_final", "dt", "elements", "far_wake_chords", "chords_travelled", "peaks_from_s",
+                  "peak_pitch_rate", "peak_effective_alpha_deg", "t50", "t90", "t50_qs", "t90_qs",
+                  "delay90", "delay90_chords", "t_begin", "amplitude_ratio", "phase_lag_deg", "loop_area",
+                  "periods_used", "lesp_max", "t_lesp_max", "warnings_count")
+LEV_NUMBERS = ("lev_onset_t", "gamma_lev_final", "lesp_critical")
+GUST_NUMBERS = ("w_gust_max", "w_gust_min", "u_gust_max", "u_gust_min", "alpha_eff_max_deg")
+AIRCRAFT_NUMBERS = ("n_max", "t_n_max", "n_min", "t_n_min", "alpha_trim_deg", "cl_level", "wing_loading_N_m2",
+                    "mass_ratio_mu_g", "lift_slope_per_rad", "dn_max", "dn_min", "lift_max_N")
+SPAN_NUMBERS = ("root_bending_max_Nm",)
+FORMULA_NUMBERS = ("dn_formula", "gust_alleviation_factor", "dn_ratio")
+TURBULENCE_NUMBERS = ("n_rms", "A_bar", "N0", "N0_cut_off_Hz", "n_rms_std", "A_bar_std", "N0_std")
+
+
+def possible_numbers(case_sc):
+    """The numeric summary keys a case's run can give (some only when the run gets that far:
+    ``dn_ratio`` after the gust has passed, ``t90`` when it is reached)."""
+    from .gusts import gust_list
+    d = case_sc.data
+    out = list(ALWAYS_NUMBERS)
+    if d.get("airfoil", {}).get("lesp_critical") is not None:
+        out += LEV_NUMBERS
+    gusts = gust_list(d.get("gust"))
+    if gusts:
+        out += GUST_NUMBERS
+    if d.get("aircraft"):
+        out += AIRCRAFT_NUMBERS
+        if "span" in d["aircraft"]:
+            out += SPAN_NUMBERS
+        if len(gusts) == 1 and gusts[0].get("direction", "vertical") == "vertical":
+            if gusts[0]["profile"] == "one-minus-cosine":
+                out += FORMULA_NUMBERS
+            if gusts[0]["profile"] == "turbulence":
+                out += TURBULENCE_NUMBERS
+    return out
+
+
+def envelope_problems(sc, cases):
+    """``sweep.envelope.value`` must be a number the cases give; ``lines`` must differ from ``across``."""
+    env = sc.data["sweep"].get("envelope") or {}
+    out = []
+    valid = [c for c in cases if c.scenario is not None]
+    if "value" in env and valid:
+        given = [set(possible_numbers(c.scenario)) for c in valid]
+        if not any(env["value"] in g for g in given):
+            allowed = [k for k in dict.fromkeys(k for c in valid for k in possible_numbers(c.scenario))]
+            out.append(Problem(sc.source, "sweep.envelope.value",
+                               f"is {env['value']!r}, a number no case of this sweep gives; allowed: "
+                               f"{', '.join(allowed)}"))
+    if env.get("lines") is not None and env.get("lines") == env.get("across"):
+        out.append(Problem(sc.source, "sweep.envelope.lines", f"is the key across the picture too "
+                                                             f"({env['lines']!r}); choose another swept key"))
+    return out
+
+
+def check_cases(sc, stream=None, cases=None):
+    """Check every case of ``sc``'s ``[sweep]`` and its envelope; raise ScenarioError listing every
+    problem once (:func:`grouped_problems`).
+
+    Warnings of valid cases are written to ``stream`` (default stderr).  Returns the cases.
     """
-    cases = build_cases(sc)
-    for line in case_warnings(sc, cases):
-        print(line, file=stream or sys.stderr)
-    problems = [p for c in cases for p in c.problems]
+    cases = build_cases(sc) if cases is None else cases
+    problems = grouped_problems(sc, cases) + envelope_problems(sc, cases)
     if problems:
         raise ScenarioError(problems)
-    return True
+    for line in case_warnings(sc, cases):
+        print(line, file=stream or sys.stderr)
+    return cases
 
 

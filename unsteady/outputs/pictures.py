@@ -28,7 +28,8 @@ from .notices import run_warnings
 
 __all__ = ["LOOK", "SERIES", "SPIN_MAP", "VORTEX_MAP", "SPEED_MAP", "GUST_MAP", "CAUTION", "PNG_MARK",
            "new_figure", "save_png", "fixed_margins", "house_style", "house_legend", "dress", "finish_figure",
-           "wrap_to_width", "written_by_unsteady", "run_warnings", "moves", "loop_abscissa",
+           "wrap_to_width", "written_by_unsteady", "run_warnings", "warning_notes", "run_title", "moves",
+           "loop_abscissa",
            "PICTURES", "picture", "write_run_plots", "pressure_instants"]
 
 # ---------------------------------------------------------------------------
@@ -244,13 +245,18 @@ def moves(y, rel=1e-9):
     return y.size > 1 and float(np.ptp(y)) > rel * max(1.0, float(np.max(np.abs(y))))
 
 
-def _warning_notes(result):
+def warning_notes(result):
+    """The run's warnings (:func:`run_warnings`) as picture notes in the warning colour."""
     return [(w, LOOK["warn"]) for w in run_warnings(result)]
 
 
-def _title(result, what):
+def run_title(result, what):
+    """A run picture's title: the scenario's title, then what the picture shows."""
     t = (result.scenario.title if result.scenario is not None else "") or "run"
     return f"{t}: {what}"
+
+
+_warning_notes, _title = warning_notes, run_title
 
 
 def run_caution(result):
@@ -572,7 +578,8 @@ for _name, _fn in (("histories.png", plot_histories), ("lift-loop.png", plot_lif
 
 
 def write_run_plots(result, out_dir):
-    """Draw every registered picture of a run into ``out_dir`` (those that apply to it)."""
+    """Draw every registered picture of a run into ``out_dir`` (those that apply to it); callers
+    take it from :mod:`unsteady.outputs.gallery`, which loads every picture module first."""
     out_dir = Path(out_dir)
     if len(result.history.get("t", [])) == 0:
         return

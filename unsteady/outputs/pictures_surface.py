@@ -4,7 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .pictures import LOOK, finish_figure, house_legend, house_style, new_figure, picture, pressure_instants, run_warnings
+from .pictures import (LOOK, finish_figure, house_legend, house_style, new_figure, picture, pressure_instants,
+                       run_title, warning_notes)
 
 
 #: Most instants one surface-pressure picture shows.
@@ -60,8 +61,7 @@ def plot_surface_pressure(result, path, times=None):
     ax.set_xlabel("position along the chord x/c (leading edge 0, trailing edge 1)", fontsize=9)
     ax.set_ylabel("pressure coefficient Cp\n(negative up: suction at the top)", fontsize=9)
     house_legend(ax, loc="lower right")
-    t = (result.scenario.title if result.scenario is not None else "") or "run"
     notes = ["outside pressure at each surface panel, unsteady Bernoulli equation (inviscid: no "
              "boundary layer, no separation; real peaks are lower and a real section stalls)"]
-    notes += [(w, LOOK["warn"]) for w in run_warnings(result)]
-    return finish_figure(fig, path, f"{t}: pressure on both surfaces", notes, left=0.9)
+    notes += warning_notes(result)
+    return finish_figure(fig, path, run_title(result, "pressure on both surfaces"), notes, left=0.9)

@@ -168,6 +168,27 @@ def unit_of(key):
     return ""
 
 
+def column_header(key):
+    """A table header: the key with its unit, ``t_cl_max (s)`` (none for coefficients, load
+    factors and counts, nor where the name already ends in its unit, ``lift_max_N``)."""
+    u = unit_of(key)
+    if not u or key in FIXED_COLUMNS or any(key.endswith(suf) for suf, _ in SUFFIXES):
+        return key
+    return f"{key} ({u})"
+
+
+def column_key(header):
+    """The key of a header written by :func:`column_header`."""
+    h = header.strip()
+    if h.endswith(")") and " (" in h:
+        return h[:h.rindex(" (")]
+    return h
+
+
+#: Sweep-table columns that are texts, written without a unit.
+FIXED_COLUMNS = ("name", "case_key", "status", "message", "verdict", "version")
+
+
 def fmt(v, digits=4):
     """A number for the page: ``digits`` significant figures, None as a dash."""
     if v is None or v == "":
@@ -404,7 +425,7 @@ def data_uri(blob, mime):
 def collect_pictures(run, tmp, say=None):
     """[(name, PNG bytes)]: every PNG of the run folder, and the registered pictures it lacks,
     drawn into the temporary folder ``tmp`` (never into the run folder)."""
-    from .picture_set import PICTURES
+    from .gallery import PICTURES
     folder, res = run.folder, run.result
     have = {p.name: p for p in sorted(folder.glob("*.png"))}
     missing = [n for n in PICTURES if n not in have]
@@ -798,8 +819,8 @@ def read_sweep(folder):
     try:
         with open(folder / "sweep.csv", newline="") as f:
             reader = csv.DictReader(f)
-            rows = list(reader)
-            cols = list(reader.fieldnames or [])
+            rows = [{(column_key(k) if k is not None else None): v for k, v in r.items()} for r in reader]
+            cols = [column_key(c) for c in (reader.fieldnames or [])]
     except (OSError, UnicodeDecodeError, csv.Error) as exc:
         raise UsageError(f"error: {folder}: sweep.csv: cannot be read ({type(exc).__name__}: {exc}); "
                          "rerun 'unsteady sweep'") from None

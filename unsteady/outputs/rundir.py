@@ -60,7 +60,7 @@ def write_run_files(result, folder, plots=True):
     if result.snapshots:
         np.savez_compressed(folder / "snapshots.npz", **result.snapshots)
     if plots:
-        from .picture_set import write_run_plots
+        from .gallery import write_run_plots
         write_run_plots(result, folder)
 
 

@@ -2,13 +2,15 @@
 
 from __future__ import annotations
 
+import copy
+import dataclasses
 import time
 
 from ..analysis.lag import add_quasi_steady, lag_summary
 from ..analysis.loads import add_dimensional_loads
 from ..analysis.shedding import running_mean_s, shedding_summary
 from ..analysis.summary import make_summary
-from ..analysis.turbulence import startup_interval, turbulence_summary
+from ..analysis.turbulence import record_statistics, realisation_seeds_of, startup_interval, turbulence_summary
 from ..analysis.verdict import measured_warnings, warning_lines
 from ..dynamics.heave import HeaveMotion
 from ..inputs.gusts import build_gust_field
@@ -44,7 +46,7 @@ def snapshot_interval(sc: Scenario) -> int:
     return max(1, sc.steps // 200)
 
 
-def simulate(scenario, observers=(), *, progress=False):
+def simulate(scenario, observers=(), *, progress=False, label="run"):
     """Run a scenario with the model of ``[run] model`` and return its :class:`~unsteady.simulation.result.Result`.
 
     The one pipeline for every registered model
@@ -68,6 +70,14 @@ def simulate(scenario, observers=(), *, progress=False):
         (its dict is merged into the summary, after the built-in keys).
     progress : bool
         Show a progress bar on stderr (only drawn when stderr is a terminal).
+    label : str
+        The progress bar's label.
+
+    With ``[gust] realisations`` (a turbulence gust), the further realisations
+    are run after the first with the same model, and their load-factor
+    statistics averaged with the first's into the summary
+    (:func:`unsteady.analysis.turbulence.turbulence_summary`); the history,
+    snapshots and pictures are the first realisation's.
 
     Returns
     -------
@@ -91,7 +101,7 @@ def simulate(scenario, observers=(), *, progress=False):
     snaps = SnapshotRecorder(snapshot_interval(sc), sc.steps)
     step_obs = [rec, snaps] + [o for o in builtin if hasattr(o, "on_step")] + list(observers)
     if progress:
-        step_obs.append(StepProgress(sc.steps, label="run"))
+        step_obs.append(StepProgress(sc.steps, label=label))
     error = model.run(step_obs)
     history = rec.history()
     summary = _summarise(model, history, builtin, rec.count - 1, time.perf_counter() - t_wall, error)
@@ -103,6 +113,13 @@ def simulate(scenario, observers=(), *, progress=False):
     lines += warning_lines(measured_warnings(history, sc, summary, snapshots), sc.source)
     if lines:
         summary["warnings"] = list(dict.fromkeys(lines))      # check's first, then measured; once each
+    seeds = realisation_seeds_of(sc)
+    if len(seeds) > 1 and not error and "n" in history:
+        more, lost = _further_realisations(sc, seeds[1:], progress)
+        if more:
+            summary.update(turbulence_summary(history, sc, more))
+        if lost:
+            summary.setdefault("turbulence", {})["realisations_lost"] = lost
     for o in observers:
         if hasattr(o, "finish"):
             o.finish(history)
@@ -136,3 +153,22 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
         summary["error"] = error
     return summary
 
+
+
+def _further_realisations(sc, seeds, progress):
+    """The load-factor statistics of the scenario flown again in the turbulence of each seed
+    (same model and step); ([statistics], [notes of realisations that gave none])."""
+    out, lost = [], []
+    for i, seed in enumerate(seeds, 2):
+        data = copy.deepcopy(sc.data)
+        g = data["gust"][0] if isinstance(data["gust"], list) else data["gust"]
+        g["seed"] = int(seed)
+        g.pop("realisations", None)
+        one = dataclasses.replace(sc, data=data, warnings=())
+        res = simulate(one, progress=progress, label=f"realisation {i}/{len(seeds) + 1}")
+        st = record_statistics(res.history, one) if not res.error else None
+        if st is None:
+            lost.append(f"seed {seed}: " + (f"run stopped early: {res.error}" if res.error else "record too short"))
+        else:
+            out.append(st)
+    return out, lost

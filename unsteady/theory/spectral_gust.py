@@ -77,8 +77,16 @@ def heave_load_factor_response(Omega, *, speed, chord, density, mass_per_span, l
     return complex(H) if H.ndim == 0 else H
 
 
+def zero_phase_butterworth_gain(omega, omega_c, order):
+    """Power gain (1 + (omega/omega_c)^(2N))^-2 of an order-N Butterworth low-pass applied forward
+    and backward (zero phase: the magnitude response squared twice; S. Butterworth, Wireless
+    Engineer 7, 1930; the forward-backward use is ``scipy.signal.sosfiltfilt``)."""
+    x = (np.asarray(omega, dtype=float) / float(omega_c)) ** (2 * int(order))
+    return 1.0 / (1.0 + x) ** 2
+
+
 def heave_gust_statistics(psd, sigma_w, *, speed, chord, density, mass_per_span, lift_scale=1.0,
-                          omega_max):
+                          omega_max, omega_filter=None, filter_order=6):
     """sigma_n, A_bar and N0 of the heave response to turbulence of spectrum ``psd``.
 
     Parameters
@@ -93,6 +101,11 @@ def heave_gust_statistics(psd, sigma_w, *, speed, chord, density, mass_per_span,
     omega_max : float
         Upper limit of the integrals in circular frequency omega = U Omega,
         rad/s (e.g. the Nyquist frequency pi / dt of a record).
+    omega_filter : float, optional
+        Cut-off (rad/s) of a zero-phase Butterworth low-pass of order
+        ``filter_order`` applied to the response before the statistics
+        (:func:`zero_phase_butterworth_gain` weights the integrands), as
+        done to a record whose highest frequencies are numerical noise.
 
     Returns
     -------
@@ -107,6 +120,8 @@ def heave_gust_statistics(psd, sigma_w, *, speed, chord, density, mass_per_span,
     def f(lnW, moment):
         W = math.exp(lnW)
         h2 = abs(heave_load_factor_response(W, **kw)) ** 2
+        if omega_filter is not None:
+            h2 *= float(zero_phase_butterworth_gain(U * W, omega_filter, filter_order))
         return h2 * float(psd(W)) * (U * W) ** moment * W     # dOmega = W dlnW
 
     lo, hi = math.log(1e-8 / max(chord, 1e-12)), math.log(omega_max / U)
@@ -114,8 +129,23 @@ def heave_gust_statistics(psd, sigma_w, *, speed, chord, density, mass_per_span,
     m0 = sum(integrate.quad(f, a, b, args=(0,), limit=200)[0] for a, b in zip(pts[:-1], pts[1:]))
     m2 = sum(integrate.quad(f, a, b, args=(2,), limit=200)[0] for a, b in zip(pts[:-1], pts[1:]))
     sigma_n = math.sqrt(m0)
-    return {"sigma_n": sigma_n, "A_bar": sigma_n / float(sigma_w),
-            "N0": math.sqrt(m2 / m0) / (2.0 * math.pi), "omega_max": float(omega_max)}
+    out = {"sigma_n": sigma_n, "A_bar": sigma_n / float(sigma_w),
+           "N0": math.sqrt(m2 / m0) / (2.0 * math.pi), "omega_max": float(omega_max)}
+    if omega_filter is not None:
+        out.update(omega_filter=float(omega_filter), filter_order=int(filter_order))
+    return out
+
+
+def heave_load_factor_psd(f, psd, *, speed, chord, density, mass_per_span, lift_scale=1.0):
+    """One-sided PSD of the load factor per Hz at frequencies ``f`` (Hz), free heave:
+    Phi_n(f) = 2 pi |H_n|^2 Phi_w(Omega) / U with Omega = 2 pi f / U (the spatial PSD carried
+    to time by the frozen pattern, Houbolt, Steiner & Pratt, NASA TR R-199)."""
+    f = np.asarray(f, dtype=float)
+    U = float(speed)
+    Om = 2.0 * math.pi * f / U
+    H = heave_load_factor_response(Om, speed=speed, chord=chord, density=density,
+                                   mass_per_span=mass_per_span, lift_scale=lift_scale)
+    return 2.0 * math.pi * np.abs(H) ** 2 * np.asarray(psd(Om), dtype=float) / U
 
 
 def rice_exceedance_rate(y, N0, sigma):
