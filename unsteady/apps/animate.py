@@ -51,6 +51,9 @@ def add_arguments(p):
     p.add_argument("--camera", default="auto", metavar="MODE",
                    help="auto (default): follow the airfoil when it heaves freely or its height changes by "
                         "more than a chord; follow: keep it at mid height; fixed: one frame holding the whole motion")
+    p.add_argument("--surface-pressure", action="store_true",
+                   help="thick sections: draw the pressure on both surfaces, a line off the outline "
+                        "(outward for suction)")
     p.add_argument("--quiet", action="store_true", help="no progress bar or report")
 
 
@@ -71,7 +74,7 @@ def main(args):
                        span=_span(args.span, label) if args.span else (None, None),
                        slowdown=args.slowdown, frames=args.frames, view=args.view, flow=args.flow,
                        trace=args.trace, grid=_pair(args.grid, "--grid", label, "160x90") if args.grid else None,
-                       reach=args.reach, camera=args.camera)
+                       reach=args.reach, camera=args.camera, surface_pressure=args.surface_pressure)
     res = load_run(run_dir)
     film = write_film(res, out, opts, progress=not args.quiet, label=label)
     if not args.quiet:

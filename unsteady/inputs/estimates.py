@@ -16,6 +16,8 @@ alone; the run measures the same things on its history
    apparent-mass force is an impulse.
 3. A streamwise gust that can blow against the stream (a sine, turbulence
    or table profile) at least as strong as the flight speed: reversed flow.
+4. A section thicker than :data:`unsteady.inputs.thick.WARN_THICKNESS` run on its
+   camber line (``[airfoil] thick`` false): the thickness is left out.
 """
 
 from __future__ import annotations
@@ -67,6 +69,10 @@ def estimate_warnings(sc):
                               f"changes instantly at t = {shown} s: its apparent-mass force is an impulse "
                               f"there (reported as 'impulses' in the summary and left out of the peaks); a "
                               f"smoothing time gives a force a real actuator could make"))
+    from .thick import thickness_warning
+    thin = thickness_warning(data, sc.section)
+    if thin is not None:
+        out.append(thin)
     U = data["flow"]["speed"]
     for i, g in enumerate(gusts):
         if g.get("direction", "vertical") != "streamwise":

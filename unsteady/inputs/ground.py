@@ -67,6 +67,10 @@ def check_ground_section(value, ctx):
         errors.append(InputError("ground", "with leading-edge shedding (airfoil.lesp_critical) is not supported "
                                            "by this version: the leading edge's vortices would need their "
                                            "images too; remove one of the two"))
+    if ctx.get("airfoil", {}).get("thick"):
+        errors.append(InputError("ground", "with surface panels (airfoil.thick = true) is not supported by this "
+                                           "version: the panels' own influence has no ground image yet; "
+                                           "remove one of the two"))
     depth = lowest_below_axis(ctx)
     if depth is not None and out["height"] <= depth:
         errors.append(InputError("ground.height", f"is {out['height']:g} m, but the camber line's lowest point is "

@@ -401,17 +401,18 @@ def resolve(raw, base_dir, stem="scenario"):
         errors.append(InputError("airfoil.panels", "was renamed: write airfoil.elements (vortex elements on "
                                                    "the camber line, 4 to 1000)"))
         af = {k: v for k, v in af.items() if k != "panels"}
-    errors += unknown_keys(af, {"shape", "chord", "elements", "lesp_critical", "flap_hinge"}, "airfoil.")
+    errors += unknown_keys(af, {"shape", "chord", "elements", "lesp_critical", "thick", "flap_hinge"}, "airfoil.")
     airfoil = {"shape": af.get("shape", "flat")}
     if "chord" not in af:
         errors.append(InputError("airfoil.chord", "is required (m, > 0)"))
     else:
         airfoil["chord"] = grab(number, "airfoil.chord", af["chord"], ge=CHORD_RANGE[0], le=CHORD_RANGE[1], unit="m")
     airfoil["elements"] = grab(integer, "airfoil.elements", af.get("elements", 40), ge=4, le=1000)
+    section = None
     if grab(text, "airfoil.shape", airfoil["shape"]) is not None:
         from .sections import section_from_shape
         try:
-            section_from_shape(airfoil["shape"], base_dir)
+            section = section_from_shape(airfoil["shape"], base_dir)
         except InputError as e:
             errors.append(InputError("airfoil.shape", e.message))
     if "lesp_critical" in af:
@@ -422,11 +423,17 @@ def resolve(raw, base_dir, stem="scenario"):
     if "flap_hinge" in af:
         airfoil["flap_hinge"] = grab(number, "airfoil.flap_hinge", af["flap_hinge"], gt=FLAP_HINGE_RANGE[0],
                                      lt=FLAP_HINGE_RANGE[1], unit="(fraction of chord aft of the leading edge)")
+    if "thick" in af:                      # surface panels (inputs.thick); absent: as before
+        from .thick import check_thick
+        thick, errs = check_thick(af, airfoil, raw.get("run", {}), section)
+        errors += errs
     out["airfoil"] = airfoil
 
     speed = flow.get("speed")
     chord = airfoil.get("chord")
     elements = airfoil.get("elements")
+    # the time step follows the chordwise spacing: with surface panels, half of them per surface
+    step_elements = elements // 2 if airfoil.get("thick") and elements else elements
 
     # [motion]
     mo = raw.get("motion", {})
@@ -468,11 +475,11 @@ def resolve(raw, base_dir, stem="scenario"):
                 run["duration"] = ch * chord / speed
     if "dt" in ru:
         run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
-    elif speed and chord and elements:
+    elif speed and chord and step_elements:
         f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge", "flap"))
         sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge", "flap"))
                      if x > 0.0), default=0.0)
-        run["dt"] = default_dt(chord, speed, elements, f_max, sigma)
+        run["dt"] = default_dt(chord, speed, step_elements, f_max, sigma)
     run["wake"] = grab(choice, "run.wake", ru.get("wake", "free"), ["free", "frozen"])
     run["start"] = grab(choice, "run.start", ru.get("start", "steady"), ["steady", "impulsive"])
     run["model"] = grab(choice, "run.model", ru.get("model", "vortex"), RUN_MODELS)
@@ -495,7 +502,9 @@ def resolve(raw, base_dir, stem="scenario"):
         elif steps < 1:
             errors.append(InputError("run.dt", "is longer than the run itself: lower run.dt or lengthen run.duration"))
     if not errors and run.get("duration") and run.get("dt") and elements:
-        need = memory_estimate(int(math.ceil(run["duration"] / run["dt"])), elements)
+        # thick sections keep Cp per panel and the lower-minus-upper difference per station
+        need = memory_estimate(int(math.ceil(run["duration"] / run["dt"])),
+                               elements * 5 // 2 if airfoil.get("thick") else elements)
         have = available_memory()
         if have and need > 0.5 * have:
             errors.append(InputError("run.dt", f"the run would need about {need / 2**30:.3g} GiB of memory "

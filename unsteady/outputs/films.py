@@ -93,6 +93,11 @@ class FilmOptions:
     camera : {"auto", "follow", "fixed"}
         See :data:`CAMERAS`: following, heights are drawn relative to the
         pitch axis and the clock gives the airfoil's height.
+    surface_pressure : bool
+        Draw the pressure on both surfaces of a thick section (runs with
+        ``[airfoil] thick = true``): a line off the outline, outward by
+        :data:`PRESSURE_OFFSET` chords per unit of suction (-Cp), inward for
+        positive Cp.
     """
 
     frame_rate: float = 25.0
@@ -107,6 +112,11 @@ class FilmOptions:
     grid: tuple = None
     reach: float = 6.0
     camera: str = "auto"
+    surface_pressure: bool = False
+
+
+#: Chords off the outline per unit of -Cp of the film's surface-pressure line.
+PRESSURE_OFFSET = 0.12
 
 
 # ---------------------------------------------------------------------------
@@ -219,6 +229,9 @@ class Film:
             raise UsageError(f"error: {lab}: --reach: {o.reach}; allowed: a positive number of chords")
         if o.camera not in CAMERAS:
             raise UsageError(f"error: {lab}: --camera: unknown camera {o.camera!r}; allowed: {', '.join(CAMERAS)}")
+        if o.surface_pressure and "cp" not in self.snap:
+            raise UsageError(f"error: {lab}: --surface-pressure: this run has no surface pressure; "
+                             f"it is computed for thick sections only ([airfoil] thick = true)")
 
     # -- gust --------------------------------------------------------------
     def _gust_setup(self):
@@ -624,6 +637,13 @@ class FilmRenderer:
             self.ground = ax.axhline(self.ground_z, color=LOOK["ink"], lw=1.6, zorder=4, animated=f.follow)
             if f.follow:
                 self.animated.append(self.ground)
+        self.cp_line = None
+        if f.opt.surface_pressure:
+            self.cp_line, = ax.plot([], [], color=LOOK["ccw"], lw=1.3, animated=True, zorder=4)
+            self.animated.append(self.cp_line)
+            ax.text(0.01, 0.02, f"line round the airfoil: surface pressure, {PRESSURE_OFFSET:g} chord off the "
+                    "outline per unit of -Cp (outward: suction; inviscid)", transform=ax.transAxes,
+                    fontsize=self.fs * 0.7, color=LOOK["ccw"], ha="left", va="bottom")
         self._build_clock()
 
     def _build_clock(self):
@@ -801,6 +821,8 @@ class FilmRenderer:
         xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh,
                                         flap=fields.flap_at(f.sc, f.hist, t))
         self.foil.set_xy(np.column_stack([xo, zo]))
+        if self.cp_line is not None:
+            self.cp_line.set_data(*self._pressure_line(t, alpha, hv, sh))
         values = [t, f.U * t / f.c, math.degrees(alpha)]
         if f.heaves:
             values.append(h)
@@ -820,6 +842,23 @@ class FilmRenderer:
             reached = t >= self.peak[0] - 1e-12
             self.pk_mark.set_visible(reached)
             self.pk_text.set_visible(reached)
+
+    def _pressure_line(self, t, alpha, hv, sh):
+        """The surface-pressure line at time t: each surface point moved along its outward normal by
+        -Cp * PRESSURE_OFFSET chords (a closed loop, in the picture's frame)."""
+        f = self.film
+        row = int(np.argmin(np.abs(np.asarray(f.hist["t"])[:len(f.snap["cp"])] - t)))
+        cp = np.asarray(f.snap["cp"][row], dtype=float)
+        xi = (np.asarray(f.snap["x_surface"], dtype=float) - f.pivot) * f.c
+        zeta = np.asarray(f.snap["z_surface"], dtype=float) * f.c
+        tx, tz = np.roll(xi, -1) - np.roll(xi, 1), np.roll(zeta, -1) - np.roll(zeta, 1)
+        norm = np.hypot(tx, tz)
+        nx, nz = -tz / norm, tx / norm          # outward: the points run clockwise
+        d = -cp * PRESSURE_OFFSET * f.c
+        px, pz = xi + d * nx, zeta + d * nz
+        ca, sa = math.cos(alpha), math.sin(alpha)
+        x, z = px * ca + pz * sa + sh, hv - px * sa + pz * ca
+        return np.append(x, x[0]), np.append(z, z[0])
 
     def draw(self, i):
         """Draw frame i on the canvas: the background, the moving artists, the stickers."""

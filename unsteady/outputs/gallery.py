@@ -8,6 +8,7 @@ cannot import them; commands and the run folder take ``PICTURES`` and
 from __future__ import annotations
 
 from . import pictures_loads  # noqa: F401  (registers turbulence-loads.png)
+from . import pictures_surface  # noqa: F401  (registers surface-pressure.png of thick sections)
 from .pictures import PICTURES, write_run_plots
 
 __all__ = ["PICTURES", "write_run_plots"]

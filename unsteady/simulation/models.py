@@ -12,6 +12,7 @@ from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.flap import build_flap_body, hinge_nodes
 from ..vortex.ground import Ground
+from ..vortex.panels import build_surface
 from ..vortex.solver import (LeadingEdgeSite, SolverDiverged, StepState, TrailingEdgeSite, VortexSolver,
                              build_body)
 from .observers import Rows
@@ -242,6 +243,30 @@ class _PressureRows:
         self.count = s.n + 1
 
 
+class _SurfaceRows:
+    """Outside Cp per step and panel of a thick section (``snapshots["cp"]``) and the lower-minus-upper
+    difference at the lower surface's chord stations (``dcp``, as for a camber line)."""
+
+    def __init__(self, steps, model):
+        self.model = model
+        g = model.geometry
+        self.half = g.n // 2
+        self.cp = np.full((steps + 1, g.n), np.nan, dtype=np.float32)
+        self.dcp = np.full((steps + 1, self.half), np.nan, dtype=np.float32)
+        self.count = 0
+
+    def on_step(self, s):
+        loads = self.model.loads
+        self.cp[s.n] = loads.cp_last
+        self.dcp[s.n] = loads.dcp_last
+        self.count = s.n + 1
+
+    def extras(self):
+        g = self.model.geometry
+        return {"cp": self.cp[:self.count], "x_surface": g.x_surface, "z_surface": g.z_surface,
+                "dcp": self.dcp[:self.count], "x_dcp": g.x_surface[:self.half][::-1].copy()}
+
+
 @register_model("vortex")
 class VortexModel(Model):
     """The time-marching discrete-vortex model (:mod:`unsteady.vortex.solver`), row by row (rule 4a).
@@ -254,7 +279,11 @@ class VortexModel(Model):
 
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
-        self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
+        self.thick = bool(sc.data["airfoil"].get("thick"))
+        if self.thick:
+            self.body = build_surface(sc)
+        else:
+            self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
         gr = sc.data.get("ground")
         # the ground sits [ground] height below the pitch axis's height at t = 0
         self.ground = (None if not gr else
@@ -277,7 +306,8 @@ class VortexModel(Model):
 
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]
-        self._pressure = _PressureRows(sc.steps, sc.elements)
+        self._pressure = (_SurfaceRows(sc.steps, self.body) if self.thick
+                          else _PressureRows(sc.steps, sc.elements))
         offset = run.get("shed_offset", 0.3)
         critical = sc.data["airfoil"].get("lesp_critical")
         sites = None
@@ -297,11 +327,15 @@ class VortexModel(Model):
         if self.ground is not None:
             out["impulse_loads"] = ("not computed near the ground: the ground carries a share of the "
                                     "vortices' impulse")
+        if self.thick:
+            out["section_model"] = "surface panels (thick)"
         return out
 
     def snapshot_extras(self):
         """``dcp`` (per step and element) and ``x_dcp`` (element mid-points, chord fractions)."""
         p = self._pressure
+        if self.thick:
+            return p.extras()
         if self.sc.flap_law is None:
             x = camber_elements(self.sc.section, self.sc.elements).x_nodes
         else:                                   # the nodes with one on the hinge

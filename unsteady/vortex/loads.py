@@ -126,13 +126,7 @@ class LoadHistory:
         with the air adds nothing to the impulse rate in the air's frame,
         wherever it is.
         """
-        t_now = self.imp_hist[-1][0] + self.dt if self.imp_hist else 0.0
-        hist = []
-        for (tk, s0, s1x, s1z, s2) in self.imp_hist:
-            x = xs - self.U * (t_now - tk)
-            hist.append((tk, s0 - gs.sum(), s1x - (gs * x).sum(), s1z - (gs * zs).sum(),
-                         s2 - (gs * (x * x + zs * zs)).sum()))
-        self.imp_hist = hist
+        self.imp_hist = retire_impulse(self.imp_hist, self.U, self.dt, xs, zs, gs)
 
     def add(self, n, t, alpha, h, gamma_b, u_rel, w_rel, xs, zs, gs, gamma_start, phi_le=None):
         """Loads at step n; returns a dict of coefficients for this step.
@@ -187,28 +181,8 @@ class LoadHistory:
         if self.hinge is not None:
             extra["ch"] = self._hinge_moment(ca, sa, h, xv, zv, fx_kj, fz_kj, dP, dQ)
         # -- vortex impulse, in the frame of the air at rest
-        S0 = gs.sum()
-        S1x = (gs * xs).sum()
-        S1z = (gs * zs).sum()
-        S2 = (gs * (xs * xs + zs * zs)).sum()
-        self.imp_hist.append((t, S0, S1x, S1z, S2))
-        if len(self.imp_hist) > 3:
-            self.imp_hist.pop(0)
-        Fx_i = -rho * backward_derivative([e[3] for e in self.imp_hist], dt)
-        Fz_i = rho * (backward_derivative([e[2] for e in self.imp_hist], dt) + U * gamma_start)
-        # angular impulse about an air-fixed origin O that coincides with the
-        # quarter chord now: O(t') = r_ref + U (t' - t) x_hat in our frame
-        f_vals = []
-        for (tk, s0, s1x, s1z, s2) in self.imp_hist:
-            ox = x_ref + U * (tk - t)
-            oz = z_ref
-            f_vals.append(s2 - 2.0 * (ox * s1x + oz * s1z) + (ox * ox + oz * oz) * s0)
-        if len(f_vals) >= 2:
-            M_ccw = 0.5 * rho * backward_derivative(f_vals, dt)
-        else:
-            # first row (settled start): nothing moves in our frame but the
-            # origin O, at U along x, so df/dt = -2 U (S1x - x_ref S0)
-            M_ccw = -rho * U * (S1x - x_ref * S0)
+        Fx_i, Fz_i, M_ccw, self.imp_hist = impulse_loads(self.imp_hist, t, x_ref, z_ref, xs, zs, gs,
+                                                         gamma_start, U, rho, dt)
         return {
             "cl": Fz / (q * c), "cd": Fx / (q * c), "cm": M_ref / (q * c * c),
             "cm_pivot": M_piv / (q * c * c),
@@ -229,3 +203,44 @@ class LoadHistory:
         M_kj = ((zv[f] - z_h) * fx_kj[f] - (xv[f] - x_h) * fz_kj[f]).sum()
         M_un = (-self.rho) * (self.arm_hinge[f] @ dP[f] + self.arm_slope[f] @ dQ[f])
         return float((M_kj + M_un) / (self.q * c_f * c_f))
+
+def retire_impulse(imp_hist, U, dt, xs, zs, gs):
+    """The stored impulse sums less vortices that leave for the far wake (see :meth:`LoadHistory.retire`)."""
+    t_now = imp_hist[-1][0] + dt if imp_hist else 0.0
+    hist = []
+    for (tk, s0, s1x, s1z, s2) in imp_hist:
+        x = xs - U * (t_now - tk)
+        hist.append((tk, s0 - gs.sum(), s1x - (gs * x).sum(), s1z - (gs * zs).sum(),
+                     s2 - (gs * (x * x + zs * zs)).sum()))
+    return hist
+
+
+def impulse_loads(imp_hist, t, x_ref, z_ref, xs, zs, gs, gamma_start, U, rho, dt):
+    """Force and counter-clockwise moment about (x_ref, z_ref) by the vortex impulse (module docstring).
+
+    ``imp_hist`` holds the last sums ``(t, S0, S1x, S1z, S2)``; returns
+    ``(Fx, Fz, M_ccw, imp_hist)`` with this step's sums appended (at most three kept).
+    """
+    S0 = gs.sum()
+    S1x = (gs * xs).sum()
+    S1z = (gs * zs).sum()
+    S2 = (gs * (xs * xs + zs * zs)).sum()
+    imp_hist.append((t, S0, S1x, S1z, S2))
+    if len(imp_hist) > 3:
+        imp_hist.pop(0)
+    Fx_i = -rho * backward_derivative([e[3] for e in imp_hist], dt)
+    Fz_i = rho * (backward_derivative([e[2] for e in imp_hist], dt) + U * gamma_start)
+    # angular impulse about an air-fixed origin O that coincides with the
+    # quarter chord now: O(t') = r_ref + U (t' - t) x_hat in our frame
+    f_vals = []
+    for (tk, s0, s1x, s1z, s2) in imp_hist:
+        ox = x_ref + U * (tk - t)
+        oz = z_ref
+        f_vals.append(s2 - 2.0 * (ox * s1x + oz * s1z) + (ox * ox + oz * oz) * s0)
+    if len(f_vals) >= 2:
+        M_ccw = 0.5 * rho * backward_derivative(f_vals, dt)
+    else:
+        # first row (settled start): nothing moves in our frame but the
+        # origin O, at U along x, so df/dt = -2 U (S1x - x_ref S0)
+        M_ccw = -rho * U * (S1x - x_ref * S0)
+    return Fx_i, Fz_i, M_ccw, imp_hist

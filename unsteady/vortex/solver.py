@@ -203,6 +203,10 @@ class VortexSolver:
     4. ``trailing_edge(t)`` for its trailing-edge site; ``geometry``: the
        :class:`~unsteady.vortex.bodies.Body` its loads are computed on (a
        new object when its points moved: the loads then take its normals).
+    5. Optionally (a thick section, :mod:`~unsteady.vortex.panels`):
+       ``influence_matrix()``, its own block of the body matrix (then it must
+       be the only body), and ``load_history(U, rho, dt)``, its own loads
+       object, whose ``add_step(solver, step, slice)`` returns the loads dict.
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
     one wake with site indices, every body's bound vortices in every other's
@@ -343,7 +347,8 @@ class VortexSolver:
         N = self.system.n
         self.store = VortexStore(N, len(self.sites) * (self.steps + 1) + 2, single_site=len(self.sites) == 1)
         self.far = FarWake()
-        self.load_histories = [LoadHistory(m.geometry, self.U, self.rho, self.dt, hinge=getattr(m, "hinge", None))
+        self.load_histories = [m.load_history(self.U, self.rho, self.dt) if hasattr(m, "load_history")
+                               else LoadHistory(m.geometry, self.U, self.rho, self.dt, hinge=getattr(m, "hinge", None))
                                for m in self.models]
         self.bound_sum = [0.0] * len(self.models)     # each body's bound circulation, last step
         self.gamma_start = 0.0                        # starting vortex at infinity (steady start)
@@ -550,10 +555,13 @@ class VortexSolver:
         s.far_total = far = self.far.total()
         s.loads = []
         for b, (hist, sl, model) in enumerate(zip(self.load_histories, self.system.slices, self.models)):
-            if hist.body is not model.geometry:   # a deflected flap: new normals and arms
-                hist.reshape(model.geometry)
-            row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
-                           self.gamma_start + far, phi_le=self._phi_le.get(b))
+            if hasattr(hist, "add_step"):          # a body with its own loads (surface panels)
+                row = hist.add_step(self, s, sl)
+            else:
+                if hist.body is not model.geometry:   # a deflected flap: new normals and arms
+                    hist.reshape(model.geometry)
+                row = hist.add(s.n, s.t, s.alpha, s.h, s.gamma[sl], uv[sl], wv[sl], xs, zs, gs,
+                               self.gamma_start + far, phi_le=self._phi_le.get(b))
             row["gamma_wake_m2_s"] += far
             if self.z_g is not None:              # the ground carries a share of the impulse
                 row["cl_impulse"] = row["cd_impulse"] = row["cm_impulse"] = math.nan

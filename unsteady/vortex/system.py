@@ -90,8 +90,13 @@ class BodySystem:
     def _factor(self, t):
         pts = [m.points(t) for m in self.models]
         cat = (lambda k: pts[0][k] if len(pts) == 1 else np.concatenate([p[k] for p in pts]))
-        a = np.empty((self.n, self.n))
-        normal_influence(cat(2), cat(3), cat(4), cat(5), cat(0), cat(1), 0.0, a)
+        if hasattr(self.models[0], "influence_matrix"):    # surface panels: their own block
+            if len(self.models) > 1:
+                raise ValueError("a body with its own influence matrix (surface panels) must be the only body")
+            a = self.models[0].influence_matrix()
+        else:
+            a = np.empty((self.n, self.n))
+            normal_influence(cat(2), cat(3), cat(4), cat(5), cat(0), cat(1), 0.0, a)
         self.a_inv = np.linalg.inv(a)
         self.version += 1
         self._kelvin = {}
@@ -154,6 +159,9 @@ class BodySystem:
         plate gives ``sin alpha``; positive in nose-up attached flow.
         """
         row = self._suction.get(body)
+        if row is None and not getattr(self.models[body], "leading_edge_suction", True):
+            # a body without a camber line's leading-edge singularity (surface panels): no LESP
+            row = self._suction[body] = (np.full(self.n, np.nan), np.full(self.n, np.nan))
         if row is None:
             sl = self.slices[body]
             model = self.models[body]

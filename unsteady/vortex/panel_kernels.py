@@ -1,0 +1,143 @@
+"""Numba kernels of the surface-panel body: linear-strength vortex panels and the potential of a doublet chain.
+
+**Linear-strength vortex panel** (J. Katz & A. Plotkin, *Low-Speed
+Aerodynamics*, 2nd ed., 2001, ch. 10 and 11, the linear-strength vortex
+element, written here in our own symbols).  A straight panel from node A to
+node B, length l, local axes x along A -> B and z to its left, carries the
+counter-clockwise vortex sheet gamma(xi) = gamma_a + (gamma_b - gamma_a) xi / l.
+At a point (x, z) of the local frame, with theta = the angle subtended by
+the panel, dth = atan2(z l, x (x - l) + z^2), and L = ln(r_a / r_b)::
+
+    u = -(1 / 2 pi) [gamma_a dth + (gamma_b - gamma_a) / l (x dth - z L)]
+    w =  (1 / 2 pi) [gamma_a L  + (gamma_b - gamma_a) / l (x L - l + z dth)]
+
+(the integrals of the point-vortex kernel of :mod:`~unsteady.vortex.kernels`
+along the panel).  At the panel's own mid-point dth is taken as 0 (the
+principal value); the side of the sheet then adds -+ gamma / 2 along x.
+
+**Doublet chain**: a straight segment from A to B of constant doublet
+strength mu is the same flow as a vortex +mu at B and -mu at A; its
+potential is mu / (2 pi) arg((P - B) / (P - A)), cut along the segment
+itself (L. M. Milne-Thomson, *Theoretical Hydrodynamics*, 5th ed., 1968,
+the complex potential of a vortex pair).  A chain of such segments through
+the body's nodes and the wake carries the potential of all vortices with a
+single cut along the body and the wake, so the potential is single-valued
+in the air around the body.
+"""
+
+import math
+
+from numba import njit
+
+INV_2PI = 1.0 / (2.0 * math.pi)
+
+
+@njit(cache=True, error_model="numpy")
+def _panel_pair(xp, zp, xa, za, xb, zb, own):
+    """Velocity (global axes) per unit gamma_a and per unit gamma_b of one panel at one point.
+
+    ``own``: the point is the panel's mid-point (principal value).
+    Returns (ua, wa, ub, wb).
+    """
+    dx = xb - xa
+    dz = zb - za
+    l = math.sqrt(dx * dx + dz * dz)
+    tx = dx / l
+    tz = dz / l
+    # local coordinates: x along the panel from A, z to its left
+    rx = xp - xa
+    rz = zp - za
+    x = rx * tx + rz * tz
+    z = -rx * tz + rz * tx
+    if own:
+        dth = 0.0
+        L = 0.0
+    else:
+        dth = math.atan2(z * l, x * (x - l) + z * z)
+        ra2 = x * x + z * z
+        rb2 = (x - l) * (x - l) + z * z
+        L = 0.5 * math.log(ra2 / rb2)
+    # u = -(1/2pi)[ga dth + (gb - ga)/l (x dth - z L)], w likewise
+    cu = (x * dth - z * L) / l
+    cw = (x * L - l + z * dth) / l
+    u_a = -INV_2PI * (dth - cu)
+    u_b = -INV_2PI * cu
+    w_a = INV_2PI * (L - cw)
+    w_b = INV_2PI * cw
+    # back to global axes: e_x = t, e_z = (-tz, tx)
+    ua = u_a * tx - w_a * tz
+    wa = u_a * tz + w_a * tx
+    ub = u_b * tx - w_b * tz
+    wb = u_b * tz + w_b * tx
+    return ua, wa, ub, wb
+
+
+@njit(cache=True, error_model="numpy")
+def panel_velocity_matrices(xt, zt, xn, zn, own_panel, mu_u, mu_w):
+    """Velocity at targets per unit node vortex strength gamma_k (in place).
+
+    Parameters
+    ----------
+    xt, zt : float64 arrays (m)
+        Targets.
+    xn, zn : float64 arrays (m), len N + 1
+        Panel nodes in order; panel j runs from node j to node j + 1.
+    own_panel : int64 array, len(xt)
+        Index of the panel whose mid-point the target is (principal value
+        there), or -1.
+    mu_u, mu_w : (len(xt), N + 1) float64 arrays
+        Output: u and w at target i per unit gamma at node k (1/(2 pi) units:
+        velocity = sum_k mu[i, k] gamma_k, gamma in m/s, so mu is
+        dimensionless).
+    """
+    nt = xt.shape[0]
+    npan = xn.shape[0] - 1
+    for i in range(nt):
+        for k in range(npan + 1):
+            mu_u[i, k] = 0.0
+            mu_w[i, k] = 0.0
+        for j in range(npan):
+            ua, wa, ub, wb = _panel_pair(xt[i], zt[i], xn[j], zn[j], xn[j + 1], zn[j + 1],
+                                         own_panel[i] == j)
+            mu_u[i, j] += ua
+            mu_w[i, j] += wa
+            mu_u[i, j + 1] += ub
+            mu_w[i, j + 1] += wb
+
+
+@njit(cache=True, error_model="numpy")
+def chain_potential(xt, zt, own_seg, xc, zc, mu, tail_mu, phi):
+    """Potential of a doublet chain at targets (in place).
+
+    Segment j runs from chain point j to j + 1 with doublet strength mu[j];
+    after the last point a ray runs to x = +infinity with strength
+    ``tail_mu``.  A target on its own segment (``own_seg[i] == j``) takes
+    the limit on the segment's left side (angle +pi).
+
+    Parameters
+    ----------
+    xt, zt : float64 arrays (m)
+    own_seg : int64 array, len(xt) (-1: none)
+    xc, zc : float64 arrays (m), the chain points
+    mu : float64 array, len(xc) - 1 (m^2/s)
+    tail_mu : float
+    phi : float64 array, len(xt): output (m^2/s)
+    """
+    nt = xt.shape[0]
+    ns = xc.shape[0] - 1
+    for i in range(nt):
+        s = 0.0
+        for j in range(ns):
+            if own_seg[i] == j:
+                s += mu[j] * math.pi
+                continue
+            ax = xt[i] - xc[j]
+            az = zt[i] - zc[j]
+            bx = xt[i] - xc[j + 1]
+            bz = zt[i] - zc[j + 1]
+            s += mu[j] * math.atan2(ax * bz - az * bx, ax * bx + az * bz)
+        if tail_mu != 0.0:
+            ax = xt[i] - xc[ns]
+            az = zt[i] - zc[ns]
+            s += tail_mu * math.atan2(az, -ax)
+        phi[i] = s * INV_2PI

@@ -1,0 +1,423 @@
+"""Thick sections: the whole outline cut into linear-strength vortex panels, a body model of the solver's stages.
+
+**Outline.**  ``N`` straight panels (``[airfoil] elements``, even), half on
+each surface, their nodes at the cosine-spaced chord stations of
+:func:`~unsteady.inputs.sections.cosine_nodes` (dense at both edges).  A
+NACA 4-digit outline follows E. N. Jacobs, K. E. Ward & R. M. Pinkerton,
+NACA Report 460 (1933): the half-thickness laid off perpendicular to the
+mean line, with the closed-trailing-edge thickness law (x^4 coefficient
+-0.1036 instead of the published -0.1015, common practice), so both
+surfaces meet at (1, 0).  A coordinates file gives its own surfaces; if
+they do not meet, each surface is sheared linearly in x onto the mean of
+its two trailing-edge points (common practice), which closes the outline.
+The nodes run from the trailing edge along the lower surface, round the
+leading edge and back along the upper surface (clockwise), so the outside
+lies to the left of each panel.
+
+**Method** (J. Katz & A. Plotkin, *Low-Speed Aerodynamics*, 2nd ed., 2001,
+ch. 11, the linear-strength vortex method, and ch. 13 for its time
+stepping).  The vortex sheet strength gamma is linear on each panel and
+continuous at the nodes (N + 1 values); no flow crosses the panels at their
+mid-points (N rows) and the Kutta condition, gamma_0 + gamma_N = 0 (equal
+speeds leaving the two trailing-edge panels), closes the system.  For the
+solver's stages the unknowns are the node circulations G_k = w_k gamma_k,
+w_k the half-lengths of the panels meeting at node k, so that sum G_k is the
+body's circulation (Kelvin's row as for a camber line) and the G_k, placed
+at the nodes, are the point vortices through which the body acts on its
+wake.  The Kutta row is a collocation point with zero normal, so its
+right-hand side and the shed vortices' border entries vanish.  The matrix is
+built in the body frame and factored once (the body is rigid).
+
+**Loads** (:class:`SurfaceLoads`).  Pressure on the outside of each panel
+mid-point from the unsteady Bernoulli equation in the frame of the air at
+rest, following a point of the body (Katz & Plotkin, ch. 13)::
+
+    Cp = (|V_b|^2 - |q|^2 - 2 dphi/dt) / U^2
+
+with V_b the point's velocity relative to the undisturbed air (flight,
+motion, gust), q the outside velocity relative to the point and phi the
+disturbance potential there.  q is tangential and equals the inside
+velocity less the sheet strength gamma; the enclosed air is irrotational,
+so relative to the body it rests when the body translates and has a fixed
+pattern per unit pitch rate, computed once (``inner_rotation``).  (The sum
+of the velocities on the surface, principal value - gamma / 2, gives the
+same q in the limit but converges only at first order in the panel length
+on flat panels: the lift 0.6 % low at 160 panels against 0.05 %.  Where
+the outline is thinner than two panel lengths, next to the trailing edge,
+the enclosed air is not resolved and the surface sum is blended in, which
+keeps a cusped trailing edge right.  A gust that is not a potential flow
+over the body is treated like one here.)  phi is the potential of
+a chain of constant-strength doublet segments through the nodes, the wake
+(newest first) and the far wake, the same vortices as the point vortices
+(:func:`~unsteady.vortex.panel_kernels.chain_potential`), so its only cut
+runs along the body and the wake.  Forces and moments are the integral of
+-Cp n over the panels.  The impulse route is that of the camber line
+(:mod:`~unsteady.vortex.loads`, J. C. Wu 1981) plus the rate of change of
+the momentum of the air enclosed by the outline, rho d/dt of the closed
+integral of phi_inside n ds (Gauss's theorem; phi_inside = phi - mu, the
+chain's strength on that panel); the enclosed air's moment is not added,
+so ``cm_impulse`` of a pitching thick section is only indicative.
+
+Known limits: the sheet acts on the wake through point vortices at the
+nodes (exact far from the body, a few panel lengths of smearing close to
+it); with the Kutta condition of equal trailing-edge speeds the pressures
+of the two trailing-edge panels differ by 2 dGamma/dt / U^2 in unsteady
+flow, a small and local error of vortex-panel methods with a lumped wake.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..inputs.sections import cosine_nodes  # noqa: F401
+from .bodies import BodyPoints, rotate
+from .loads import backward_derivative, impulse_loads
+from .panel_kernels import chain_potential, panel_velocity_matrices
+
+from ..inputs.thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS  # noqa: F401  (the limits check applies)
+
+
+#: Wake (chords, newest first) whose potential is summed at every panel mid-point; the older
+#: wake's, smooth over the body, at every COARSE-th mid-point and interpolated linearly in between
+#: (measured on the benchmark case of tools/bench_thick.py: cl moves by 4e-4 of its peak, Cp by 6e-4;
+#: the run is 20 % faster).
+NEAR_WAKE_CHORDS = 2
+COARSE = 4
+
+
+def surface_nodes(section, n_panels):
+    """Nodes of the outline in chord fractions, lower trailing edge -> leading edge -> upper trailing edge.
+
+    Parameters
+    ----------
+    section : Section
+        With ``outline(n)`` (upper and lower surfaces at cosine-spaced x).
+    n_panels : int
+        Even number of panels, half on each surface.
+
+    Returns
+    -------
+    x, z : ndarrays of n_panels + 1 points; the first and last are the trailing edge.
+    """
+    half = int(n_panels) // 2
+    xu, zu, xl, zl = (np.asarray(a, dtype=float) for a in section.outline(half + 1))
+    te = 0.5 * (zu[-1] + zl[-1])
+    if zu[-1] != zl[-1]:                       # open trailing edge: shear each surface onto the mean point
+        zu = zu - xu * (zu[-1] - te)
+        zl = zl - xl * (zl[-1] - te)
+    x = np.concatenate((xl[::-1], xu[1:]))
+    z = np.concatenate((zl[::-1], zu[1:]))
+    x[0] = x[-1] = xu[-1]
+    z[0] = z[-1] = te
+    return x, z
+
+
+@dataclass(frozen=True)
+class SurfaceGeometry:
+    """The paneled outline in body coordinates (metres about the pivot, zero pitch).
+
+    ``xi_n, zeta_n`` (N + 1 nodes), per panel ``xi_c, zeta_c`` (mid-points),
+    ``t_xi, t_zeta`` (unit tangent, node k to k + 1), ``n_xi, n_zeta``
+    (unit outward normal), ``ds`` (length); ``w`` the node weights (half the
+    lengths of the panels that meet there); the chord fractions
+    ``x_surface, z_surface`` of the mid-points; ``xi_ref, zeta_ref`` the
+    quarter-chord point on the mean line (moment reference); ``area`` (m^2).
+    """
+
+    xi_n: np.ndarray
+    zeta_n: np.ndarray
+    xi_c: np.ndarray
+    zeta_c: np.ndarray
+    t_xi: np.ndarray
+    t_zeta: np.ndarray
+    n_xi: np.ndarray
+    n_zeta: np.ndarray
+    ds: np.ndarray
+    w: np.ndarray
+    x_surface: np.ndarray
+    z_surface: np.ndarray
+    xi_ref: float
+    zeta_ref: float
+    chord: float
+    area: float
+
+    @classmethod
+    def from_section(cls, section, n_panels, chord, pivot):
+        """Panel the section's outline (see :func:`surface_nodes`)."""
+        x, z = surface_nodes(section, n_panels)
+        z_ref = float(np.asarray(section.camber(np.array([0.25])), float)[0])
+        return cls.from_nodes(x, z, chord, pivot, z_ref)
+
+    @classmethod
+    def from_nodes(cls, x, z, chord, pivot, z_ref=0.0):
+        """From outline nodes in chord fractions (lower trailing edge -> leading edge -> upper
+        trailing edge, first and last the same point); ``z_ref``: height of the moment reference
+        at the quarter chord (chord fraction)."""
+        x, z = np.asarray(x, float), np.asarray(z, float)
+        xi = (x - pivot) * chord
+        zeta = z * chord
+        dx, dz = np.diff(xi), np.diff(zeta)
+        ds = np.hypot(dx, dz)
+        t_xi, t_zeta = dx / ds, dz / ds
+        w = np.zeros(len(xi))
+        w[:-1] += 0.5 * ds
+        w[1:] += 0.5 * ds
+        area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))   # clockwise: shoelace sign
+        xm, zm = 0.5 * (x[:-1] + x[1:]), 0.5 * (z[:-1] + z[1:])
+        z_ref = float(z_ref) * chord
+        return cls(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
+                   t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w,
+                   x_surface=xm, z_surface=zm, xi_ref=(0.25 - pivot) * chord, zeta_ref=z_ref,
+                   chord=float(chord), area=area)
+
+    @property
+    def n(self) -> int:
+        """Number of panels."""
+        return self.ds.shape[0]
+
+
+class SurfacePanels:
+    """The body model of a thick section (the body rules of :class:`~unsteady.vortex.solver.VortexSolver`).
+
+    ``n`` = panels + 1 unknowns (node circulations); ``points(t)`` gives the
+    nodes as vortex points and the panel mid-points plus the Kutta row's
+    zero-normal point as collocation points; ``influence_matrix()`` the
+    bordered-system block (panel integrals, Kutta row); ``load_history``
+    the pressure and impulse loads (:class:`SurfaceLoads`).
+
+    Parameters
+    ----------
+    geometry : SurfaceGeometry
+    """
+
+    #: The leading-edge suction parameter (A0 of thin-airfoil theory) belongs to a camber line's
+    #: square-root singularity at its leading edge, which a closed outline does not have: the
+    #: ``lesp`` column of a thick section is NaN (and leading-edge shedding is refused by check).
+    leading_edge_suction = False
+
+    def __init__(self, geometry):
+        self.geometry = g = geometry
+        N = g.n
+        xi_c = np.append(g.xi_c, g.xi_n[-1])
+        zeta_c = np.append(g.zeta_c, g.zeta_n[-1])
+        self._points = BodyPoints(g.xi_n, g.zeta_n, xi_c, zeta_c,
+                                  np.append(g.n_xi, 0.0), np.append(g.n_zeta, 0.0))
+        # velocity at the mid-points per unit node gamma (principal value on a point's own panel)
+        mu_u = np.empty((N, N + 1))
+        mu_w = np.empty((N, N + 1))
+        panel_velocity_matrices(g.xi_c, g.zeta_c, g.xi_n, g.zeta_n, np.arange(N, dtype=np.int64), mu_u, mu_w)
+        #: normal and tangential velocity at the mid-points per unit node gamma
+        self.normal_gamma = mu_u * g.n_xi[:, None] + mu_w * g.n_zeta[:, None]
+        self.tangent_gamma = mu_u * g.t_xi[:, None] + mu_w * g.t_zeta[:, None]
+        self.inner_rotation = self._inner_rotation()
+        # where the outline is thinner than about two panels (next to a trailing edge, most of a
+        # cusped one) the enclosed air is not resolved: there q is the sum of the velocities on
+        # the surface, blended in over thicknesses from two panel lengths down to one
+        across = np.hypot(g.xi_c - g.xi_c[::-1], g.zeta_c - g.zeta_c[::-1])
+        self.resolved = np.clip(across / g.ds - 1.0, 0.0, 1.0)
+        self.loads = None
+
+    def _inner_rotation(self):
+        """Tangential velocity of the enclosed air relative to the body per unit pitch rate (m/s per rad/s).
+
+        The enclosed air is irrotational: for a translating body it moves with
+        the body (zero here), for a pitching one it cannot turn with it.  From
+        one solve of the panel system with the rigid rotation alone (inside
+        limit: principal value + gamma / 2, less the body's own velocity).
+        """
+        g = self.geometry
+        ub, wb = g.zeta_c, -g.xi_c                    # unit pitch rate about the pivot, zero pitch
+        rhs = np.append(ub * g.n_xi + wb * g.n_zeta, 0.0)
+        gamma = np.linalg.solve(self.influence_matrix(), rhs) / g.w
+        inside = self.tangent_gamma @ gamma + 0.25 * (gamma[:-1] + gamma[1:])
+        return inside - (ub * g.t_xi + wb * g.t_zeta)
+
+    @property
+    def n(self) -> int:
+        """Unknowns: one circulation per node."""
+        return self.geometry.n + 1
+
+    def points(self, t):
+        """Nodes (vortex points), mid-points and the Kutta point (collocation), normals."""
+        return self._points
+
+    def changed(self, t):
+        """A rigid outline never moves in the body frame."""
+        return False
+
+    def trailing_edge(self, t):
+        """The trailing edge (xi, zeta) in the body frame."""
+        return float(self.geometry.xi_n[-1]), float(self.geometry.zeta_n[-1])
+
+    def influence_matrix(self):
+        """The body block of the bordered system over the node circulations G_k = w_k gamma_k.
+
+        Rows 0..N-1: normal velocity at each mid-point per unit G_k; row N:
+        the Kutta condition gamma_0 + gamma_N = 0.
+        """
+        g = self.geometry
+        N = g.n
+        a = np.zeros((N + 1, N + 1))
+        a[:N] = self.normal_gamma / g.w[None, :]
+        a[N, 0] = 1.0 / g.w[0]
+        a[N, N] = 1.0 / g.w[N]
+        return a
+
+    def load_history(self, speed, density, dt):
+        """A fresh :class:`SurfaceLoads` for a run (kept as ``self.loads``)."""
+        self.loads = SurfaceLoads(self, speed, density, dt)
+        return self.loads
+
+
+class SurfaceLoads:
+    """Loads of a paneled thick section each step: pressure integration and vortex impulse.
+
+    Called by the solver's loads stage through ``add_step(solver, step, sl)``;
+    keeps ``cp_last`` (outside Cp at each panel mid-point), ``dcp_last``
+    (lower minus upper Cp at the chord stations of the lower surface's
+    panels, for the camber-line pictures) and the short histories the time
+    derivatives need.
+    """
+
+    def __init__(self, model, speed, density, dt):
+        self.model = model
+        self.body = g = model.geometry
+        self.U, self.rho, self.dt = float(speed), float(density), float(dt)
+        self.q = 0.5 * self.rho * self.U ** 2
+        N = g.n
+        self.half = N // 2
+        self.phi_hist = []
+        self.inner_hist = []
+        self.imp_hist = []
+        self.cp_last = np.zeros(N)
+        self.dcp_last = np.zeros(self.half)
+        self._own = np.arange(N, dtype=np.int64)
+        self._index = np.arange(N)
+        self._coarse = np.unique(np.append(np.arange(0, N, COARSE), N - 1))
+        self._none = -np.ones(self._coarse.shape[0], dtype=np.int64)
+        self._none_all = -np.ones(N, dtype=np.int64)
+        # potential at the mid-points per unit doublet strength on each of the body's segments
+        # (the panels), on the outside of a point's own panel: rigid, so computed once
+        self._angles = np.empty((N, N))
+        unit = np.zeros(N)
+        col = np.empty(N)
+        for j in range(N):
+            unit[j] = 1.0
+            chain_potential(g.xi_c, g.zeta_c, self._own, g.xi_n, g.zeta_n, unit, 0.0, col)
+            self._angles[:, j] = col
+            unit[j] = 0.0
+        self._phi = np.empty(N)
+
+    def retire(self, xs, zs, gs):
+        """Wake vortices left for the far wake: as :meth:`~unsteady.vortex.loads.LoadHistory.retire`."""
+        from .loads import retire_impulse
+        self.imp_hist = retire_impulse(self.imp_hist, self.U, self.dt, xs, zs, gs)
+
+    def potential(self, s, G, solver):
+        """Disturbance potential (m^2/s) on the outside of each panel mid-point, and the chain's
+        strength on each panel (the potential's jump across it)."""
+        N = self.body.n
+        wx, wz, wg = solver.store.wake()
+        fx, fz, fg = solver.far.views()
+        xc = np.concatenate((s.xv[:N + 1], wx[::-1], fx[::-1]))
+        zc = np.concatenate((s.zv[:N + 1], wz[::-1], fz[::-1]))
+        gam = np.concatenate((G, wg[::-1], fg[::-1]))
+        total = -np.cumsum(gam)
+        mu = np.ascontiguousarray(total[:-1])
+        tail = float(total[-1])
+        # the body's own segments: angles fixed in the body frame (self._angles); the newest
+        # NEAR_WAKE_CHORDS of wake at every mid-point; the older wake, whose potential is smooth
+        # over the body, at every COARSE-th mid-point and interpolated
+        phi = self._angles @ mu[:N]
+        cut = N + 1 + min(wx.shape[0], NEAR_WAKE_CHORDS * solver.lump_n)
+        whole = cut >= xc.shape[0] - 1
+        end = xc.shape[0] if whole else cut + 1
+        chain_potential(s.xc[:N], s.zc[:N], self._none_all, xc[N:end], zc[N:end], mu[N:end - 1],
+                        tail if whole else 0.0, self._phi)
+        phi += self._phi
+        if not whole:
+            far = np.empty(self._coarse.shape[0])
+            chain_potential(s.xc[self._coarse], s.zc[self._coarse], self._none, np.ascontiguousarray(xc[cut:]),
+                            np.ascontiguousarray(zc[cut:]), np.ascontiguousarray(mu[cut:]), tail, far)
+            phi += np.interp(self._index, self._coarse, far)
+        return phi, mu[:N]
+
+    def add_step(self, solver, s, sl):
+        """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""
+        g, m = self.body, self.model
+        N = g.n
+        U, rho, dt, q = self.U, self.rho, self.dt, self.q
+        c = g.chord
+        G = s.gamma[sl]
+        gamma = G / g.w
+        xc, zc = s.xc[:N], s.zc[:N]
+        ub = s.alpha_dot * (zc - s.h)              # the body's own velocity
+        wb = s.h_dot - s.alpha_dot * xc
+        nx, nz = rotate(g.n_xi, g.n_zeta, s.alpha)
+        # outside = inside - gamma; inside, relative to the body: the enclosed air's own motion
+        gamma_mid = 0.5 * (gamma[:-1] + gamma[1:])
+        q_t = s.alpha_dot * m.inner_rotation - gamma_mid
+        f = m.resolved
+        if f.min() < 1.0:                          # too thin to resolve: the velocities on the surface
+            u = s.u_air[:N].copy()                 # freestream, gust, wake, far wake
+            w = s.w_air[:N].copy()
+            for p in s.proposals:                  # this step's new vortices
+                dx, dz = xc - p.x, zc - p.z
+                r2 = dx * dx + dz * dz
+                k = p.gamma / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
+                u -= k * dz
+                w += k * dx
+            tx, tz = rotate(g.t_xi, g.t_zeta, s.alpha)
+            q_s = (u - ub) * tx + (w - wb) * tz + m.tangent_gamma @ gamma - 0.5 * gamma_mid
+            q_t = f * q_t + (1.0 - f) * q_s
+        ua, wa = U, 0.0                            # the undisturbed air
+        if solver.gust is not None:
+            gu, gw = solver.gust.velocity(xc, zc, s.t)
+            ua, wa = U + gu, gw
+        vb2 = (ub - ua) ** 2 + (wb - wa) ** 2
+        phi, mu = self.potential(s, G, solver)
+        self.phi_hist = (self.phi_hist + [phi])[-3:]
+        dphi = backward_derivative(self.phi_hist, dt)
+        cp = (vb2 - q_t * q_t - 2.0 * dphi) / (U * U)
+        self.cp_last = cp
+        lower = cp[:self.half][::-1]
+        self.dcp_last = lower - cp[self.half:]
+        # pressure integration: f = -Cp q n ds on each panel, at its mid-point
+        fx = -cp * q * g.ds * nx
+        fz = -cp * q * g.ds * nz
+        Fx, Fz = fx.sum(), fz.sum()
+        ca, sa = np.cos(s.alpha), np.sin(s.alpha)
+        x_ref = g.xi_ref * ca + g.zeta_ref * sa
+        z_ref = s.h - g.xi_ref * sa + g.zeta_ref * ca
+        M_ref = ((zc - z_ref) * fx - (xc - x_ref) * fz).sum()
+        M_piv = ((zc - s.h) * fx - xc * fz).sum()
+        # impulse: all vortices, plus the momentum of the enclosed air
+        xs, zs, gs = solver.store.sources()
+        Fx_i, Fz_i, M_ccw, self.imp_hist = impulse_loads(self.imp_hist, s.t, x_ref, z_ref, xs, zs, gs,
+                                                         solver.gamma_start + s.far_total, U, rho, dt)
+        inner = phi - mu                           # potential on the inside of each panel
+        self.inner_hist = (self.inner_hist + [np.array([(inner * g.ds * nx).sum(),
+                                                        (inner * g.ds * nz).sum()])])[-3:]
+        d_inner = backward_derivative(self.inner_hist, dt)
+        Fx_i += rho * d_inner[0]
+        Fz_i += rho * d_inner[1]
+        return {
+            "cl": Fz / (q * c), "cd": Fx / (q * c), "cm": M_ref / (q * c * c),
+            "cm_pivot": M_piv / (q * c * c),
+            "cl_impulse": Fz_i / (q * c), "cd_impulse": Fx_i / (q * c),
+            "cm_impulse": -M_ccw / (q * c * c),
+            "gamma_bound_m2_s": float(G.sum()),
+            "gamma_wake_m2_s": float(gs.sum() - G.sum()),
+        }
+
+
+def build_surface(sc, n_panels=None):
+    """The paneled outline of a scenario's section as a :class:`SurfacePanels` body model."""
+    n = int(n_panels if n_panels is not None else sc.elements)
+    return SurfacePanels(SurfaceGeometry.from_section(sc.section, n, sc.chord, sc.pivot))
+
+
+__all__ = ["DEFAULT_PANELS", "MIN_PANELS", "MIN_THICKNESS", "SurfaceGeometry", "SurfaceLoads",
+           "SurfacePanels", "build_surface", "cosine_nodes", "surface_nodes"]
