@@ -31,6 +31,7 @@ def check_thick(af, airfoil, run_raw, section):
     if not isinstance(thick, bool):
         return False, [InputError("airfoil.thick", f"must be true or false, got {thick!r}")]
     if not thick:
+        airfoil["thick"] = False           # the camber line chosen in so many words: no thickness warning
         return False, errors
     n = airfoil.get("elements")
     if "elements" not in af:
@@ -62,10 +63,11 @@ def check_thick(af, airfoil, run_raw, section):
 def thickness_warning(data, section):
     """The warning of a section thicker than :data:`WARN_THICKNESS` run on its camber line, or None."""
     af = data.get("airfoil", {})
-    if af.get("thick") or data.get("run", {}).get("model") != "vortex" or section is None:
+    if "thick" in af or data.get("run", {}).get("model") != "vortex" or section is None:
         return None
     if section.thickness <= WARN_THICKNESS:
         return None
     return InputError("airfoil.shape", f"'{section.name}' is {100 * section.thickness:.3g} % thick, but the "
                       f"camber-line model leaves the thickness out (about 0.8 t more lift slope and the "
-                      f"pressure on each surface are missing): set airfoil.thick = true for surface panels")
+                      f"pressure on each surface are missing): set airfoil.thick = true for surface panels, or "
+                      f"thick = false to keep the camber line")
