@@ -187,3 +187,28 @@ def test_the_loader_checks_what_the_caller_needs(saved_run):
         load_run(saved_run, columns=("cl", "lift_N"))
     with pytest.raises(UsageError, match=r"summary.json: lacks the key\(s\) n_max"):
         load_run(saved_run, keys=("cl_max", "n_max"))
+
+
+def test_an_interrupt_inside_a_c_callback_is_repeated_and_not_reported():
+    # A Ctrl-C that lands while a C library calls back into Python (numba
+    # compiling a kernel) is dropped by Python with an "Exception ignored"
+    # report; the program repeats the interrupt until it unwinds and keeps
+    # that report off the one-line message (common practice for signal handling).
+    code = (
+        "import ctypes, signal, sys, time\n"
+        "from unsteady.apps import cli\n"
+        "sys.unraisablehook = getattr(cli, '_quiet_unraisable', sys.unraisablehook)\n"
+        "signal.signal(signal.SIGINT, cli._on_signal)\n"
+        "CB = ctypes.CFUNCTYPE(None)\n"
+        "def inside():\n"
+        "    signal.raise_signal(signal.SIGINT)\n"
+        "CB(inside)()\n"
+        "try:\n"
+        "    time.sleep(5)\n"
+        "    print('ran on')\n"
+        "except KeyboardInterrupt:\n"
+        "    cli._settle()\n"
+        "    print('interrupted')\n")
+    p = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
+    assert p.stdout.strip() == "interrupted"
+    assert p.stderr == ""

@@ -99,6 +99,14 @@ def _on_signal(signum, frame):
     _again(signum, frame)
 
 
+def _quiet_unraisable(unraisable):
+    """Drop the "Exception ignored" report of an interrupt raised inside a C callback (the timer
+    of :func:`_on_signal` repeats it); every other unraisable exception is reported as usual."""
+    if isinstance(unraisable.exc_value, (KeyboardInterrupt, Interrupted)):
+        return
+    sys.__unraisablehook__(unraisable)
+
+
 def _again(signum, frame):
     if signal.SIGTERM in _RECEIVED:
         raise Interrupted()
@@ -134,6 +142,7 @@ def main(argv=None):
     program = argv is None
     try:
         if program:
+            sys.unraisablehook = _quiet_unraisable
             signal.signal(signal.SIGTERM, _on_signal)
             if signal.getsignal(signal.SIGINT) is not signal.SIG_IGN:
                 signal.signal(signal.SIGINT, _on_signal)
