@@ -220,8 +220,8 @@ CASES = [
                                                                          "run.model": "linear"}),
     Case("ground-with-lev", "ground", "with leading-edge shedding (airfoil.lesp_critical) is not supported",
          {"ground.height": 0.1, "airfoil.lesp_critical": 0.2}),
-    Case("ground-with-thick", "ground", "with surface panels (airfoil.thick = true) is not supported",
-         {"ground.height": 0.1, "airfoil.thick": True, "airfoil.shape": "naca0012", "airfoil.elements": 40}),
+    Case("ground-thick-in-the-ground", "ground.height", "the lower surface's lowest point is",
+         {"ground.height": 0.01, "airfoil.thick": True, "airfoil.shape": "naca0012", "airfoil.elements": 40}),
     Case("ground-unknown-key", "ground.hieght", "did you mean 'height'", {"ground.hieght": 0.1,
                                                                           "ground.height": 0.1}),
     # --- what this version does not do (several elements, pitch freedom)

@@ -74,7 +74,8 @@ import numpy as np
 from ..inputs.sections import cosine_nodes  # noqa: F401
 from .bodies import BodyPoints, rotate
 from .loads import backward_derivative, impulse_loads
-from .panel_kernels import chain_potential, panel_velocity_matrices
+from .panel_kernels import (chain_image_potential, chain_potential, panel_image_velocity_matrices,
+                            panel_velocity_matrices)
 
 from ..inputs.thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS  # noqa: F401  (the limits check applies)
 
@@ -265,6 +266,27 @@ class SurfacePanels:
         a[N, N] = 1.0 / g.w[N]
         return a
 
+    def ground_matrix(self, step, z_ground):
+        """The body block over a flat ground at ``z_ground`` (m), on the placed points of ``step``.
+
+        The panels' own block (:meth:`influence_matrix`, invariant under the
+        body's rigid motion) plus, in the no-penetration rows, the normal
+        velocity of the panels' ground images (the sheet mirrored about the
+        ground with the opposite strength: Milne-Thomson 1968, the method of
+        images; :func:`~unsteady.vortex.panel_kernels.panel_image_velocity_matrices`),
+        which depends on pitch and height.  The image velocities per unit node
+        gamma are kept (``image_velocity``) for the loads of the same placement.
+        """
+        g = self.geometry
+        N = g.n
+        iu = np.empty((N, N + 1))
+        iw = np.empty((N, N + 1))
+        panel_image_velocity_matrices(step.xc[:N], step.zc[:N], step.xv, step.zv, float(z_ground), iu, iw)
+        self.image_velocity = (iu, iw)
+        a = self.influence_matrix()
+        a[:N] += (iu * step.nx[:N, None] + iw * step.nz[:N, None]) / g.w[None, :]
+        return a
+
     def load_history(self, speed, density, dt):
         """A fresh :class:`SurfaceLoads` for a run (kept as ``self.loads``)."""
         self.loads = SurfaceLoads(self, speed, density, dt)
@@ -336,11 +358,18 @@ class SurfaceLoads:
         end = xc.shape[0] if whole else cut + 1
         chain_potential(s.xc[:N], s.zc[:N], self._none_all, xc[N:end], zc[N:end], mu[N:end - 1],
                         tail if whole else 0.0, self._phi)
+        z_g = solver.z_g
+        if z_g is not None:                        # the ground: the image of the body's and near wake's chain
+            chain_image_potential(s.xc[:N], s.zc[:N], xc[:end], zc[:end], mu[:end - 1],
+                                  tail if whole else 0.0, z_g, self._phi)
         phi += self._phi
         if not whole:
             far = np.empty(self._coarse.shape[0])
-            chain_potential(s.xc[self._coarse], s.zc[self._coarse], self._none, np.ascontiguousarray(xc[cut:]),
-                            np.ascontiguousarray(zc[cut:]), np.ascontiguousarray(mu[cut:]), tail, far)
+            fx, fz, fm = (np.ascontiguousarray(a[cut:]) for a in (xc, zc, mu))
+            xt, zt = s.xc[self._coarse], s.zc[self._coarse]
+            chain_potential(xt, zt, self._none, fx, fz, fm, tail, far)
+            if z_g is not None:
+                chain_image_potential(xt, zt, fx, fz, fm, tail, z_g, far)
             phi += np.interp(self._index, self._coarse, far)
         return phi, mu[:N]
 
@@ -363,14 +392,20 @@ class SurfaceLoads:
         if f.min() < 1.0:                          # too thin to resolve: the velocities on the surface
             u = s.u_air[:N].copy()                 # freestream, gust, wake, far wake
             w = s.w_air[:N].copy()
-            for p in s.proposals:                  # this step's new vortices
-                dx, dz = xc - p.x, zc - p.z
-                r2 = dx * dx + dz * dz
-                k = p.gamma / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
-                u -= k * dz
-                w += k * dx
+            images = (False,) if solver.z_g is None else (False, True)
+            for p in s.proposals:                  # this step's new vortices (and their ground images)
+                for image in images:
+                    pz, pg = (2.0 * solver.z_g - p.z, -p.gamma) if image else (p.z, p.gamma)
+                    dx, dz = xc - p.x, zc - pz
+                    r2 = dx * dx + dz * dz
+                    k = pg / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
+                    u -= k * dz
+                    w += k * dx
             tx, tz = rotate(g.t_xi, g.t_zeta, s.alpha)
             q_s = (u - ub) * tx + (w - wb) * tz + m.tangent_gamma @ gamma - 0.5 * gamma_mid
+            if solver.z_g is not None:             # the panels' own images
+                iu, iw = m.image_velocity
+                q_s += (iu @ gamma) * tx + (iw @ gamma) * tz
             q_t = f * q_t + (1.0 - f) * q_s
         ua, wa = U, 0.0                            # the undisturbed air
         if solver.gust is not None:

@@ -206,7 +206,8 @@ class VortexSolver:
     5. Optionally (a thick section, :mod:`~unsteady.vortex.panels`):
        ``influence_matrix()``, its own block of the body matrix (then it must
        be the only body), and ``load_history(U, rho, dt)``, its own loads
-       object, whose ``add_step(solver, step, slice)`` returns the loads dict.
+       object, whose ``add_step(solver, step, slice)`` returns the loads dict;
+       with a ground also ``ground_matrix(step, z_ground)``, its block with its images.
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
     one wake with site indices, every body's bound vortices in every other's
