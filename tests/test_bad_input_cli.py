@@ -218,8 +218,6 @@ CASES = [
           "motion.pivot": 0.0}),
     Case("ground-linear", "ground", "computed by the vortex model only", {"ground.height": 0.1,
                                                                          "run.model": "linear"}),
-    Case("ground-with-lev", "ground", "with leading-edge shedding (airfoil.lesp_critical) is not supported",
-         {"ground.height": 0.1, "airfoil.lesp_critical": 0.2}),
     Case("ground-thick-in-the-ground", "ground.height", "the lower surface's lowest point is",
          {"ground.height": 0.01, "airfoil.thick": True, "airfoil.shape": "naca0012", "airfoil.elements": 40}),
     Case("ground-unknown-key", "ground.hieght", "did you mean 'height'", {"ground.hieght": 0.1,

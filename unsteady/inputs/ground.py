@@ -67,10 +67,6 @@ def check_ground_section(value, ctx):
         errors.append(InputError("ground", "is computed by the vortex model only (the images of its vortices); "
                                            "the linear model has no ground effect: set run.model = \"vortex\" "
                                            "or remove [ground]"))
-    if ctx.get("airfoil", {}).get("lesp_critical") is not None:
-        errors.append(InputError("ground", "with leading-edge shedding (airfoil.lesp_critical) is not supported "
-                                           "by this version: the leading edge's vortices would need their "
-                                           "images too; remove one of the two"))
     depth = lowest_below_axis(ctx)
     if depth is not None and out["height"] <= depth:
         part = "lower surface" if ctx.get("airfoil", {}).get("thick") else "camber line"
