@@ -130,9 +130,9 @@ CASES = [
     Case("thick-with-leading-edge-shedding", "airfoil.thick", "not available with thick = true",
          {"airfoil.thick": True, "airfoil.shape": "naca0012", "airfoil.elements": 40,
           "airfoil.lesp_critical": 0.2}),
-    Case("thick-with-flap", "airfoil.thick", "do not yet turn about a hinge",
-         {"airfoil.thick": True, "airfoil.shape": "naca0012", "airfoil.elements": 40,
-          "airfoil.flap_hinge": 0.75}),
+    Case("thick-flap-folds", "motion.flap", "the panel inside the turn folds",
+         {"airfoil.thick": True, "airfoil.shape": "naca0024", "airfoil.elements": 160,
+          "airfoil.flap_hinge": 0.75, "motion.flap": {"law": "constant", "value": 20.0}}),
     Case("thick-open-outline", "airfoil.shape", "is not closed",
          {"airfoil.thick": True, "airfoil.shape": "s.dat", "airfoil.elements": 40},
          files={"s.dat": "".join(f"{x:.3f} {z:.3f}\n" for x, z in

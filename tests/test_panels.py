@@ -224,3 +224,17 @@ def test_chain_image_potential_is_the_mirrored_chain_reversed():
     out = np.full(9, 0.25)
     chain_image_potential(xt, zt, xc, zc, mu, tail, z_g, out)
     assert np.allclose(out - 0.25, ref, atol=1e-13)
+
+
+def test_chain_segment_angles_are_the_unit_chains():
+    # oracle: chain_potential with one unit segment at a time (own segment: its left side)
+    from unsteady.vortex.panel_kernels import chain_segment_angles
+    g = SurfaceGeometry.from_section(section_from_shape("naca2412"), 40, 0.2, 0.25)
+    out = np.empty((40, 40))
+    chain_segment_angles(g.xi_c, g.zeta_c, g.xi_n, g.zeta_n, out)
+    unit, col = np.zeros(40), np.empty(40)
+    for j in range(40):
+        unit[j] = 1.0
+        chain_potential(g.xi_c, g.zeta_c, np.arange(40, dtype=np.int64), g.xi_n, g.zeta_n, unit, 0.0, col)
+        unit[j] = 0.0
+        assert np.array_equal(out[:, j], col)

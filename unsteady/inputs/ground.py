@@ -37,7 +37,7 @@ def lowest_below_axis(ctx):
         z = np.asarray(section.camber(x), float)
     if beta and "flap_hinge" in af:
         xh = af["flap_hinge"]
-        zh = float(np.interp(xh, x, z))
+        zh = float(np.asarray(section.camber(np.array([xh])), float)[0])   # the hinge, on the mean line
         aft = x > xh
         dx, dz = x[aft] - xh, z[aft] - zh
         x[aft] = xh + dx * math.cos(beta) + dz * math.sin(beta)

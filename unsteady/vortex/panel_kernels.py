@@ -196,3 +196,25 @@ def chain_image_potential(xt, zt, xc, zc, mu, tail_mu, z_g, phi):
             az = zt[i] - (2.0 * z_g - zc[ns])
             s -= tail_mu * math.atan2(az, -ax)
         phi[i] += s * INV_2PI
+
+
+@njit(cache=True, error_model="numpy")
+def chain_segment_angles(xt, zt, xc, zc, out):
+    """Potential at target i per unit doublet strength on segment j of a chain, all at once (in place).
+
+    ``out[i, j]`` is what :func:`chain_potential` gives at target i for a unit
+    strength on segment j alone (target i on its own segment i: the left-side
+    limit, 1/2).  Used when a body's outline changes shape (a moving flap).
+    """
+    nt = xt.shape[0]
+    ns = xc.shape[0] - 1
+    for i in range(nt):
+        for j in range(ns):
+            if i == j:
+                out[i, j] = math.pi * INV_2PI
+                continue
+            ax = xt[i] - xc[j]
+            az = zt[i] - zc[j]
+            bx = xt[i] - xc[j + 1]
+            bz = zt[i] - zc[j + 1]
+            out[i, j] = math.atan2(ax * bz - az * bx, ax * bx + az * bz) * INV_2PI
