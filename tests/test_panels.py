@@ -208,3 +208,48 @@ def test_surface_pressure_picture_at_chosen_instants(tmp_path, capsys):
     assert main(["pictures", str(thin), "--quiet", "--surface-pressure-at", "0.01"]) == 2
     assert "thick = true" in capsys.readouterr().err
     assert not (thin / "surface-pressure.png").exists()
+
+
+def test_panel_image_kernel_is_the_mirrored_sheet_with_opposite_strength():
+    # method of images (Milne-Thomson 1968): the image of the sheet in z = z_g is the sheet mirrored
+    # about it, strength reversed; oracle: quadrature along the mirrored panels
+    from unsteady.vortex.panel_kernels import panel_image_velocity_matrices
+    rng = np.random.default_rng(7)
+    xn = np.array([0.0, 0.3, 0.7, 1.0, 1.2])
+    zn = np.array([0.0, 0.1, 0.05, -0.1, 0.0])
+    z_g = -0.6
+    xt = rng.uniform(-0.5, 1.5, 20)
+    zt = rng.uniform(-0.3, 0.8, 20)
+    mu_u, mu_w = np.empty((20, 5)), np.empty((20, 5))
+    panel_image_velocity_matrices(xt, zt, xn, zn, z_g, mu_u, mu_w)
+    ru, rw = twin_panel_velocity(xt, zt, xn, 2 * z_g - zn)
+    assert np.allclose(mu_u, -ru, atol=1e-9)
+    assert np.allclose(mu_w, -rw, atol=1e-9)
+
+
+def test_chain_image_potential_is_the_mirrored_chain_reversed():
+    # method of images: the image chain (points mirrored, strengths and tail reversed), added in place
+    from unsteady.vortex.panel_kernels import chain_image_potential
+    rng = np.random.default_rng(8)
+    xc, zc = rng.uniform(0, 2, 6), rng.uniform(-1, 1, 6)
+    mu, tail, z_g = rng.normal(size=5), 0.4, -2.0
+    xt, zt = rng.uniform(-1, 3, 9), rng.uniform(-1.5, 2, 9)
+    ref = np.empty(9)
+    chain_potential(xt, zt, -np.ones(9, np.int64), xc, 2 * z_g - zc, -mu, -tail, ref)
+    out = np.full(9, 0.25)
+    chain_image_potential(xt, zt, xc, zc, mu, tail, z_g, out)
+    assert np.allclose(out - 0.25, ref, atol=1e-13)
+
+
+def test_chain_segment_angles_are_the_unit_chains():
+    # oracle: chain_potential with one unit segment at a time (own segment: its left side)
+    from unsteady.vortex.panel_kernels import chain_segment_angles
+    g = SurfaceGeometry.from_section(section_from_shape("naca2412"), 40, 0.2, 0.25)
+    out = np.empty((40, 40))
+    chain_segment_angles(g.xi_c, g.zeta_c, g.xi_n, g.zeta_n, out)
+    unit, col = np.zeros(40), np.empty(40)
+    for j in range(40):
+        unit[j] = 1.0
+        chain_potential(g.xi_c, g.zeta_c, np.arange(40, dtype=np.int64), g.xi_n, g.zeta_n, unit, 0.0, col)
+        unit[j] = 0.0
+        assert np.array_equal(out[:, j], col)

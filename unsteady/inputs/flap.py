@@ -49,4 +49,18 @@ def flap_problems(out, base_dir, warnings):
                                                   "attached-flow model does not represent"))
     if not math.isfinite(peak):
         errors.append(InputError("motion.flap", "is not finite over the run"))
+    elif af.get("thick") and peak <= FLAP_MAX_DEG and isinstance(af.get("elements"), int):
+        from .sections import section_from_shape
+        from .thick import MAX_PANEL_TURN_DEG, flap_fold_limit
+        try:
+            section = section_from_shape(af.get("shape", "flat"), base_dir)
+        except (InputError, ValueError):
+            return errors
+        limit = flap_fold_limit(section, af["elements"], af["flap_hinge"], peak)
+        if limit is not None:
+            errors.append(InputError("motion.flap", f"reaches {peak:.3g} degrees, but the surface panels of "
+                                     f"'{section.name}' next to the hinge turn by more than "
+                                     f"{MAX_PANEL_TURN_DEG:g} degrees past {limit:g} degrees (the panel "
+                                     f"inside the turn folds): deflect less, use fewer panels or a "
+                                     f"hinge further aft"))
     return errors

@@ -11,7 +11,8 @@ __all__ = ["check_ground_section", "lowest_below_axis"]
 
 
 def lowest_below_axis(ctx):
-    """Depth (m) of the camber line's lowest point below its pitch axis at t = 0 (pitch and flap at t = 0),
+    """Depth (m) of the camber line's (with ``thick``: the lower surface's) lowest point below its pitch axis
+    at t = 0 (pitch and flap at t = 0),
     or None when the section or a law cannot be built (their own checks report why)."""
     import numpy as np
 
@@ -29,11 +30,14 @@ def lowest_below_axis(ctx):
                 if "flap" in mo and "flap_hinge" in af else 0.0)
     except (InputError, ValueError, KeyError):
         return None
-    x = np.linspace(0.0, 1.0, 401)
-    z = np.asarray(section.camber(x), float)
+    if af.get("thick"):                        # surface panels: the outline's lower surface
+        _, _, x, z = (np.asarray(a, float) for a in section.outline(401))
+    else:
+        x = np.linspace(0.0, 1.0, 401)
+        z = np.asarray(section.camber(x), float)
     if beta and "flap_hinge" in af:
         xh = af["flap_hinge"]
-        zh = float(np.interp(xh, x, z))
+        zh = float(np.asarray(section.camber(np.array([xh])), float)[0])   # the hinge, on the mean line
         aft = x > xh
         dx, dz = x[aft] - xh, z[aft] - zh
         x[aft] = xh + dx * math.cos(beta) + dz * math.sin(beta)
@@ -63,17 +67,10 @@ def check_ground_section(value, ctx):
         errors.append(InputError("ground", "is computed by the vortex model only (the images of its vortices); "
                                            "the linear model has no ground effect: set run.model = \"vortex\" "
                                            "or remove [ground]"))
-    if ctx.get("airfoil", {}).get("lesp_critical") is not None:
-        errors.append(InputError("ground", "with leading-edge shedding (airfoil.lesp_critical) is not supported "
-                                           "by this version: the leading edge's vortices would need their "
-                                           "images too; remove one of the two"))
-    if ctx.get("airfoil", {}).get("thick"):
-        errors.append(InputError("ground", "with surface panels (airfoil.thick = true) is not supported by this "
-                                           "version: the panels' own influence has no ground image yet; "
-                                           "remove one of the two"))
     depth = lowest_below_axis(ctx)
     if depth is not None and out["height"] <= depth:
-        errors.append(InputError("ground.height", f"is {out['height']:g} m, but the camber line's lowest point is "
+        part = "lower surface" if ctx.get("airfoil", {}).get("thick") else "camber line"
+        errors.append(InputError("ground.height", f"is {out['height']:g} m, but the {part}'s lowest point is "
                                                   f"{depth:.4g} m below its pitch axis at t = 0: the airfoil "
                                                   f"would start in the ground; give more than {depth:.4g} m"))
     return out, errors

@@ -14,6 +14,7 @@ from ..core.errors import InputError
 
 __all__ = [
     "Section",
+    "hinge_nodes",
     "FlatPlate",
     "Naca4",
     "CoordinateSection",
@@ -94,20 +95,22 @@ class Section:
         """Half the local thickness in chord fractions (vectorised); zero by default."""
         return np.zeros_like(np.asarray(x, dtype=float))
 
-    def outline(self, n=121):
+    def outline(self, n=121, x=None):
         """Upper and lower surfaces for pictures.
 
         Parameters
         ----------
         n : int, optional
             Points per surface, cosine spaced from leading to trailing edge.
+        x : array, optional
+            Chord stations to use instead (from 0 to 1; a flap's hinge among them).
 
         Returns
         -------
         x_upper, z_upper, x_lower, z_lower : ndarray
             Chord fractions, each of length n, from leading to trailing edge.
         """
-        x = cosine_nodes(max(int(n), 2) - 1)
+        x = cosine_nodes(max(int(n), 2) - 1) if x is None else np.asarray(x, dtype=float)
         zc = np.asarray(self.camber(x), dtype=float)
         theta = np.arctan(np.asarray(self.slope(x), dtype=float))
         if self.thickness >= DISPLAY_THICKNESS:
@@ -504,9 +507,9 @@ class CoordinateSection(Section):
         x = np.asarray(x, dtype=float)
         return 0.5 * (np.interp(x, *self._upper) - np.interp(x, *self._lower))
 
-    def outline(self, n=121):
+    def outline(self, n=121, x=None):
         """The normalised surfaces from the file, resampled at n cosine-spaced x (see :meth:`Section.outline`)."""
-        x = cosine_nodes(max(int(n), 2) - 1)
+        x = cosine_nodes(max(int(n), 2) - 1) if x is None else np.asarray(x, dtype=float)
         return x, np.interp(x, *self._upper), x.copy(), np.interp(x, *self._lower)
 
 
@@ -690,3 +693,19 @@ def camber_elements(section: Section, n: int) -> CamberPanels:
     for a in arrays.values():
         a.setflags(write=False)
     return CamberPanels(**arrays)
+
+
+def hinge_nodes(n, hinge):
+    """n + 1 element nodes (chord fractions) cosine-spaced on each side of the hinge, one node exactly on it.
+
+    x = (1 - cos theta) / 2 with theta uniform on [0, theta_h] and on
+    [theta_h, pi], cos theta_h = 1 - 2 x_h, the elements shared out in
+    proportion to the two theta ranges (at least one on each side).  Away
+    from the hinge this is the usual cosine spacing (common practice).
+    """
+    th_h = math.acos(1.0 - 2.0 * float(hinge))
+    n1 = min(n - 1, max(1, int(round(n * th_h / math.pi))))
+    theta = np.concatenate([np.linspace(0.0, th_h, n1 + 1), np.linspace(th_h, math.pi, n - n1 + 1)[1:]])
+    x = 0.5 * (1.0 - np.cos(theta))
+    x[0], x[n1], x[-1] = 0.0, float(hinge), 1.0
+    return x, n1

@@ -12,6 +12,7 @@ from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.flap import build_flap_body, hinge_nodes
 from ..vortex.ground import Ground
+from ..vortex.flap_panels import build_flap_surface
 from ..vortex.panels import build_surface
 from ..vortex.solver import (LeadingEdgeSite, SolverDiverged, StepState, TrailingEdgeSite, VortexSolver,
                              build_body)
@@ -281,7 +282,7 @@ class VortexModel(Model):
         super().__init__(sc, gust, motion)
         self.thick = bool(sc.data["airfoil"].get("thick"))
         if self.thick:
-            self.body = build_surface(sc)
+            self.body = build_surface(sc) if sc.flap_law is None else build_flap_surface(sc, sc.flap_law)
         else:
             self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
         gr = sc.data.get("ground")

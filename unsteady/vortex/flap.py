@@ -14,6 +14,7 @@ import math
 
 import numpy as np
 
+from ..inputs.sections import hinge_nodes
 from .bodies import Body, BodyPoints, rotate, to_inertial
 
 __all__ = ["hinge_nodes", "HingedFlapCamber", "build_flap_body", "BETA_TOL"]
@@ -22,22 +23,6 @@ __all__ = ["hinge_nodes", "HingedFlapCamber", "build_flap_body", "BETA_TOL"]
 #: as they are: a smoothed law creeps towards its end values for many steps, and a
 #: refactorization per step for a change of 1e-12 rad would buy nothing.
 BETA_TOL = 1e-9
-
-
-def hinge_nodes(n, hinge):
-    """n + 1 element nodes (chord fractions) cosine-spaced on each side of the hinge, one node exactly on it.
-
-    x = (1 - cos theta) / 2 with theta uniform on [0, theta_h] and on
-    [theta_h, pi], cos theta_h = 1 - 2 x_h, the elements shared out in
-    proportion to the two theta ranges (at least one on each side).  Away
-    from the hinge this is the usual cosine spacing (common practice).
-    """
-    th_h = math.acos(1.0 - 2.0 * float(hinge))
-    n1 = min(n - 1, max(1, int(round(n * th_h / math.pi))))
-    theta = np.concatenate([np.linspace(0.0, th_h, n1 + 1), np.linspace(th_h, math.pi, n - n1 + 1)[1:]])
-    x = 0.5 * (1.0 - np.cos(theta))
-    x[0], x[n1], x[-1] = 0.0, float(hinge), 1.0
-    return x, n1
 
 
 def _deflect(xi, zeta, xi_h, zeta_h, beta):

@@ -20,12 +20,15 @@ __all__ = ["Ground", "GroundContact", "lowest_point"]
 
 
 def lowest_point(models, alpha, h):
-    """Lowest z (m, computation frame) of every element node and trailing edge of the bodies."""
+    """Lowest z (m, computation frame) of every element node and trailing edge (or outline node) of the bodies."""
     low = np.inf
     for m in models:
         g = m.geometry
-        xi = np.append(g.xi_0, g.xi_te)
-        zeta = np.append(g.zeta_0, g.zeta_te)
+        if hasattr(g, "xi_n"):                     # surface panels: the outline's nodes
+            xi, zeta = g.xi_n, g.zeta_n
+        else:
+            xi = np.append(g.xi_0, g.xi_te)
+            zeta = np.append(g.zeta_0, g.zeta_te)
         _, z = to_inertial(xi, zeta, alpha, h)
         low = min(low, float(z.min()))
     return low

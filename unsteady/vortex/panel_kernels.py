@@ -141,3 +141,80 @@ def chain_potential(xt, zt, own_seg, xc, zc, mu, tail_mu, phi):
             az = zt[i] - zc[ns]
             s += tail_mu * math.atan2(az, -ax)
         phi[i] = s * INV_2PI
+
+
+@njit(cache=True, error_model="numpy")
+def panel_image_velocity_matrices(xt, zt, xn, zn, z_g, mu_u, mu_w):
+    """Velocity at targets per unit node vortex strength of the panels' ground images (in place).
+
+    The image of a vortex sheet in a flat wall z = z_g along which the air
+    slips is the sheet mirrored about the wall with the opposite strength
+    (L. M. Milne-Thomson, *Theoretical Hydrodynamics*, 5th ed., 1968, the
+    method of images), so panel j's image runs from node j' to node (j + 1)'
+    (z' = 2 z_g - z) carrying -gamma; the straight-panel integral of
+    :func:`_panel_pair` holds for any orientation of the panel.  No target
+    lies on an image panel (the body is above the ground).  Arguments as
+    :func:`panel_velocity_matrices`, with ``z_g`` the ground's height (m).
+    """
+    nt = xt.shape[0]
+    npan = xn.shape[0] - 1
+    for i in range(nt):
+        for k in range(npan + 1):
+            mu_u[i, k] = 0.0
+            mu_w[i, k] = 0.0
+        for j in range(npan):
+            ua, wa, ub, wb = _panel_pair(xt[i], zt[i], xn[j], 2.0 * z_g - zn[j], xn[j + 1],
+                                         2.0 * z_g - zn[j + 1], False)
+            mu_u[i, j] -= ua
+            mu_w[i, j] -= wa
+            mu_u[i, j + 1] -= ub
+            mu_w[i, j + 1] -= wb
+
+
+@njit(cache=True, error_model="numpy")
+def chain_image_potential(xt, zt, xc, zc, mu, tail_mu, z_g, phi):
+    """Add the potential of a doublet chain's ground image at targets (in place).
+
+    The image of the chain of :func:`chain_potential` in a flat wall z = z_g
+    (Milne-Thomson 1968, the method of images): its points mirrored,
+    z' = 2 z_g - z, each segment's strength and the tail ray's reversed.
+    Its cut runs below the ground, so the potential stays single-valued in
+    the air.  ``phi`` is added to, not overwritten.
+    """
+    nt = xt.shape[0]
+    ns = xc.shape[0] - 1
+    for i in range(nt):
+        s = 0.0
+        for j in range(ns):
+            ax = xt[i] - xc[j]
+            az = zt[i] - (2.0 * z_g - zc[j])
+            bx = xt[i] - xc[j + 1]
+            bz = zt[i] - (2.0 * z_g - zc[j + 1])
+            s -= mu[j] * math.atan2(ax * bz - az * bx, ax * bx + az * bz)
+        if tail_mu != 0.0:
+            ax = xt[i] - xc[ns]
+            az = zt[i] - (2.0 * z_g - zc[ns])
+            s -= tail_mu * math.atan2(az, -ax)
+        phi[i] += s * INV_2PI
+
+
+@njit(cache=True, error_model="numpy")
+def chain_segment_angles(xt, zt, xc, zc, out):
+    """Potential at target i per unit doublet strength on segment j of a chain, all at once (in place).
+
+    ``out[i, j]`` is what :func:`chain_potential` gives at target i for a unit
+    strength on segment j alone (target i on its own segment i: the left-side
+    limit, 1/2).  Used when a body's outline changes shape (a moving flap).
+    """
+    nt = xt.shape[0]
+    ns = xc.shape[0] - 1
+    for i in range(nt):
+        for j in range(ns):
+            if i == j:
+                out[i, j] = math.pi * INV_2PI
+                continue
+            ax = xt[i] - xc[j]
+            az = zt[i] - zc[j]
+            bx = xt[i] - xc[j + 1]
+            bz = zt[i] - zc[j + 1]
+            out[i, j] = math.atan2(ax * bz - az * bx, ax * bx + az * bz) * INV_2PI

@@ -74,9 +74,12 @@ import numpy as np
 from ..inputs.sections import cosine_nodes  # noqa: F401
 from .bodies import BodyPoints, rotate
 from .loads import backward_derivative, impulse_loads
-from .panel_kernels import chain_potential, panel_velocity_matrices
+from .panel_kernels import (chain_image_potential, chain_potential, chain_segment_angles,
+                            panel_image_velocity_matrices,
+                            panel_velocity_matrices)
 
 from ..inputs.thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS  # noqa: F401  (the limits check applies)
+from ..inputs.thick import surface_nodes
 
 
 #: Wake (chords, newest first) whose potential is summed at every panel mid-point; the older
@@ -85,33 +88,6 @@ from ..inputs.thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS  # noqa: F4
 #: the run is 20 % faster).
 NEAR_WAKE_CHORDS = 2
 COARSE = 4
-
-
-def surface_nodes(section, n_panels):
-    """Nodes of the outline in chord fractions, lower trailing edge -> leading edge -> upper trailing edge.
-
-    Parameters
-    ----------
-    section : Section
-        With ``outline(n)`` (upper and lower surfaces at cosine-spaced x).
-    n_panels : int
-        Even number of panels, half on each surface.
-
-    Returns
-    -------
-    x, z : ndarrays of n_panels + 1 points; the first and last are the trailing edge.
-    """
-    half = int(n_panels) // 2
-    xu, zu, xl, zl = (np.asarray(a, dtype=float) for a in section.outline(half + 1))
-    te = 0.5 * (zu[-1] + zl[-1])
-    if zu[-1] != zl[-1]:                       # open trailing edge: shear each surface onto the mean point
-        zu = zu - xu * (zu[-1] - te)
-        zl = zl - xl * (zl[-1] - te)
-    x = np.concatenate((xl[::-1], xu[1:]))
-    z = np.concatenate((zl[::-1], zu[1:]))
-    x[0] = x[-1] = xu[-1]
-    z[0] = z[-1] = te
-    return x, z
 
 
 @dataclass(frozen=True)
@@ -265,6 +241,27 @@ class SurfacePanels:
         a[N, N] = 1.0 / g.w[N]
         return a
 
+    def ground_matrix(self, step, z_ground):
+        """The body block over a flat ground at ``z_ground`` (m), on the placed points of ``step``.
+
+        The panels' own block (:meth:`influence_matrix`, invariant under the
+        body's rigid motion) plus, in the no-penetration rows, the normal
+        velocity of the panels' ground images (the sheet mirrored about the
+        ground with the opposite strength: Milne-Thomson 1968, the method of
+        images; :func:`~unsteady.vortex.panel_kernels.panel_image_velocity_matrices`),
+        which depends on pitch and height.  The image velocities per unit node
+        gamma are kept (``image_velocity``) for the loads of the same placement.
+        """
+        g = self.geometry
+        N = g.n
+        iu = np.empty((N, N + 1))
+        iw = np.empty((N, N + 1))
+        panel_image_velocity_matrices(step.xc[:N], step.zc[:N], step.xv, step.zv, float(z_ground), iu, iw)
+        self.image_velocity = (iu, iw)
+        a = self.influence_matrix()
+        a[:N] += (iu * step.nx[:N, None] + iw * step.nz[:N, None]) / g.w[None, :]
+        return a
+
     def load_history(self, speed, density, dt):
         """A fresh :class:`SurfaceLoads` for a run (kept as ``self.loads``)."""
         self.loads = SurfaceLoads(self, speed, density, dt)
@@ -298,17 +295,23 @@ class SurfaceLoads:
         self._coarse = np.unique(np.append(np.arange(0, N, COARSE), N - 1))
         self._none = -np.ones(self._coarse.shape[0], dtype=np.int64)
         self._none_all = -np.ones(N, dtype=np.int64)
-        # potential at the mid-points per unit doublet strength on each of the body's segments
-        # (the panels), on the outside of a point's own panel: rigid, so computed once
-        self._angles = np.empty((N, N))
+        self._angles = self._segment_angles(g)
+        self._phi = np.empty(N)
+
+    def _segment_angles(self, g):
+        """Potential at the mid-points per unit doublet strength on each of the body's segments
+        (the panels), on the outside of a point's own panel: fixed in the body frame, so computed
+        once (a deflected flap's new outline: ``chain_segment_angles``, the same numbers)."""
+        N = g.n
+        angles = np.empty((N, N))
         unit = np.zeros(N)
         col = np.empty(N)
         for j in range(N):
             unit[j] = 1.0
             chain_potential(g.xi_c, g.zeta_c, self._own, g.xi_n, g.zeta_n, unit, 0.0, col)
-            self._angles[:, j] = col
+            angles[:, j] = col
             unit[j] = 0.0
-        self._phi = np.empty(N)
+        return angles
 
     def retire(self, xs, zs, gs):
         """Wake vortices left for the far wake: as :meth:`~unsteady.vortex.loads.LoadHistory.retire`."""
@@ -336,17 +339,30 @@ class SurfaceLoads:
         end = xc.shape[0] if whole else cut + 1
         chain_potential(s.xc[:N], s.zc[:N], self._none_all, xc[N:end], zc[N:end], mu[N:end - 1],
                         tail if whole else 0.0, self._phi)
+        z_g = solver.z_g
+        if z_g is not None:                        # the ground: the image of the body's and near wake's chain
+            chain_image_potential(s.xc[:N], s.zc[:N], xc[:end], zc[:end], mu[:end - 1],
+                                  tail if whole else 0.0, z_g, self._phi)
         phi += self._phi
         if not whole:
             far = np.empty(self._coarse.shape[0])
-            chain_potential(s.xc[self._coarse], s.zc[self._coarse], self._none, np.ascontiguousarray(xc[cut:]),
-                            np.ascontiguousarray(zc[cut:]), np.ascontiguousarray(mu[cut:]), tail, far)
+            fx, fz, fm = (np.ascontiguousarray(a[cut:]) for a in (xc, zc, mu))
+            xt, zt = s.xc[self._coarse], s.zc[self._coarse]
+            chain_potential(xt, zt, self._none, fx, fz, fm, tail, far)
+            if z_g is not None:
+                chain_image_potential(xt, zt, fx, fz, fm, tail, z_g, far)
             phi += np.interp(self._index, self._coarse, far)
         return phi, mu[:N]
 
     def add_step(self, solver, s, sl):
         """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""
-        g, m = self.body, self.model
+        m = self.model
+        if self.body is not m.geometry:             # a deflected flap: the new outline
+            self.body = m.geometry
+            self._angles = np.empty((m.geometry.n, m.geometry.n))
+            chain_segment_angles(self.body.xi_c, self.body.zeta_c, self.body.xi_n, self.body.zeta_n,
+                                 self._angles)
+        g = self.body
         N = g.n
         U, rho, dt, q = self.U, self.rho, self.dt, self.q
         c = g.chord
@@ -359,18 +375,28 @@ class SurfaceLoads:
         # outside = inside - gamma; inside, relative to the body: the enclosed air's own motion
         gamma_mid = 0.5 * (gamma[:-1] + gamma[1:])
         q_t = s.alpha_dot * m.inner_rotation - gamma_mid
+        if s.own is not None:                      # a moving flap: its own velocity, its enclosed air's
+            ub = ub + s.own[0][:N]
+            wb = wb + s.own[1][:N]
+            q_t = q_t + m.flap_rate(s.t) * m.inner_flap
         f = m.resolved
         if f.min() < 1.0:                          # too thin to resolve: the velocities on the surface
             u = s.u_air[:N].copy()                 # freestream, gust, wake, far wake
             w = s.w_air[:N].copy()
-            for p in s.proposals:                  # this step's new vortices
-                dx, dz = xc - p.x, zc - p.z
-                r2 = dx * dx + dz * dz
-                k = p.gamma / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
-                u -= k * dz
-                w += k * dx
+            images = (False,) if solver.z_g is None else (False, True)
+            for p in s.proposals:                  # this step's new vortices (and their ground images)
+                for image in images:
+                    pz, pg = (2.0 * solver.z_g - p.z, -p.gamma) if image else (p.z, p.gamma)
+                    dx, dz = xc - p.x, zc - pz
+                    r2 = dx * dx + dz * dz
+                    k = pg / (2.0 * np.pi * np.sqrt(r2 * r2 + solver.r_b ** 4))
+                    u -= k * dz
+                    w += k * dx
             tx, tz = rotate(g.t_xi, g.t_zeta, s.alpha)
             q_s = (u - ub) * tx + (w - wb) * tz + m.tangent_gamma @ gamma - 0.5 * gamma_mid
+            if solver.z_g is not None:             # the panels' own images
+                iu, iw = m.image_velocity
+                q_s += (iu @ gamma) * tx + (iw @ gamma) * tz
             q_t = f * q_t + (1.0 - f) * q_s
         ua, wa = U, 0.0                            # the undisturbed air
         if solver.gust is not None:
@@ -403,6 +429,11 @@ class SurfaceLoads:
         d_inner = backward_derivative(self.inner_hist, dt)
         Fx_i += rho * d_inner[0]
         Fz_i += rho * d_inner[1]
+        extra = {}
+        if getattr(m, "hinge", None) is not None:  # the flap's panels about the hinge, nose-up (trailing edge down)
+            xi_h, zeta_h, flap, c_f = m.hinge
+            x_h, z_h = xi_h * ca + zeta_h * sa, s.h - xi_h * sa + zeta_h * ca
+            extra["ch"] = float(((zc - z_h) * fx - (xc - x_h) * fz)[flap].sum()) / (q * c_f * c_f)
         return {
             "cl": Fz / (q * c), "cd": Fx / (q * c), "cm": M_ref / (q * c * c),
             "cm_pivot": M_piv / (q * c * c),
@@ -410,6 +441,7 @@ class SurfaceLoads:
             "cm_impulse": -M_ccw / (q * c * c),
             "gamma_bound_m2_s": float(G.sum()),
             "gamma_wake_m2_s": float(gs.sum() - G.sum()),
+            **extra,
         }
 
 

@@ -206,7 +206,8 @@ class VortexSolver:
     5. Optionally (a thick section, :mod:`~unsteady.vortex.panels`):
        ``influence_matrix()``, its own block of the body matrix (then it must
        be the only body), and ``load_history(U, rho, dt)``, its own loads
-       object, whose ``add_step(solver, step, slice)`` returns the loads dict.
+       object, whose ``add_step(solver, step, slice)`` returns the loads dict;
+       with a ground also ``ground_matrix(step, z_ground)``, its block with its images.
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
     one wake with site indices, every body's bound vortices in every other's
@@ -398,7 +399,7 @@ class VortexSolver:
             soft = self._soft_indices() if self.soft_sites else None
             if soft is None or soft.size == 0:
                 induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw, ground=self.z_g)
-            else:                                  # (no ground with leading-edge shedding: check refuses it)
+            else:
                 self._soften(s.tx, s.tz, tu, tw, soft)
         else:
             tu[:] = 0.0
@@ -466,13 +467,14 @@ class VortexSolver:
         the 45-degree pitch-up's lift by 1.2 % rms of its peak
         (tests/validation/test_leading_edge.py).  The bound vortices carry
         soft-site vortices with the same core (``VortexStore.velocities``).
+        With a ground each vortex's image acts through the vortex's own core.
         """
         wx, wz, wg = self.store.wake()
         hard = np.ones(wx.size, bool)
         hard[idx] = False
-        induced_velocity(xt, zt, wx[hard], wz[hard], wg[hard], self.r_b, u, w)
+        induced_velocity(xt, zt, wx[hard], wz[hard], wg[hard], self.r_b, u, w, ground=self.z_g)
         du, dw = np.empty_like(xt), np.empty_like(xt)
-        induced_velocity(xt, zt, wx[idx], wz[idx], wg[idx], self.r_soft, du, dw)
+        induced_velocity(xt, zt, wx[idx], wz[idx], wg[idx], self.r_soft, du, dw, ground=self.z_g)
         u += du
         w += dw
 
@@ -523,12 +525,12 @@ class VortexSolver:
         uv = s.u_air[N:].copy()                    # at the vortex points, with the new vortices
         wv = s.w_air[N:].copy()
         for p in s.proposals:
-            du, dw = _point_vortex(s.xv, s.zv, p.x, p.z, p.gamma,
-                                   self.r_soft if p.site.index in self.soft_sites else self.r_b)
+            r_p = self.r_soft if p.site.index in self.soft_sites else self.r_b
+            du, dw = _point_vortex(s.xv, s.zv, p.x, p.z, p.gamma, r_p)
             uv += du
             wv += dw
             if self.z_g is not None:              # and its ground image
-                du, dw = _point_vortex(s.xv, s.zv, p.x, 2.0 * self.z_g - p.z, -p.gamma, self.r_b)
+                du, dw = _point_vortex(s.xv, s.zv, p.x, 2.0 * self.z_g - p.z, -p.gamma, r_p)
                 uv += du
                 wv += dw
         if len(self.system.slices) > 1:           # every other body's bound vortices

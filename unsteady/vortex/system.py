@@ -121,9 +121,12 @@ class BodySystem:
         key = (step.alpha, step.h)
         if not moved and key == getattr(self, "_placed_key", None):
             return False
-        a = np.empty((self.n, self.n))
-        normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
-                                float(z_ground), a)
+        if hasattr(self.models[0], "ground_matrix"):       # surface panels: their own block and images
+            a = self.models[0].ground_matrix(step, z_ground)
+        else:
+            a = np.empty((self.n, self.n))
+            normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
+                                    float(z_ground), a)
         self.a_inv = np.linalg.inv(a)
         self.version += 1
         self._kelvin = {}
