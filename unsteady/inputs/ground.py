@@ -67,6 +67,9 @@ def check_ground_section(value, ctx):
         errors.append(InputError("ground", "with leading-edge shedding (airfoil.lesp_critical) is not supported "
                                            "by this version: the leading edge's vortices would need their "
                                            "images too; remove one of the two"))
+    if ctx.get("airfoil", {}).get("_more"):
+        errors.append(InputError("ground", "with several elements ([[airfoil]]) is not supported by this "
+                                           "version: give one [airfoil] table or remove [ground]"))
     if ctx.get("airfoil", {}).get("thick"):
         errors.append(InputError("ground", "with surface panels (airfoil.thick = true) is not supported by this "
                                            "version: the panels' own influence has no ground image yet; "
