@@ -141,7 +141,9 @@ class Scenario:
 
     @property
     def pivot(self):
-        return self.data["motion"]["pivot"]
+        """The pitch axis (fraction of the first chord): with pitch freedom the centre of gravity."""
+        ac = self.data.get("aircraft") or {}
+        return ac["cg"] if "cg" in ac else self.data["motion"]["pivot"]
 
     @property
     def dt(self):

@@ -309,6 +309,29 @@ class VortexModel(Model):
                      ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([obs])
         return obs.cl
 
+    def steady_loads(self, alpha, tail_turn):
+        """(cl, cm about the pitch axis) of the solver's steady start at attitude alpha (rad) with the
+        last element turned by ``tail_turn`` (rad): what the trim of pitch freedom solves on."""
+        sc = self.sc
+        rows = []
+
+        class _Last:
+            def on_step(self, s):
+                rows.append(s.loads)
+
+        gust = self.gust if self.gust is not None and self.gust.present_at_start else None
+        VortexSolver(self._elements(tail_turn), _Fixed(alpha, 0.0), speed=sc.speed, density=sc.density,
+                     dt=sc.dt, steps=0, start="steady", gust=gust).run([_Last()])
+        return rows[-1]["cl"], rows[-1]["cm_pivot"]
+
+    def _elements(self, tail_turn):
+        first = self.body[0] if isinstance(self.body, list) else self.body
+        return [first] + build_elements(self.sc, tail_turn)[1:]
+
+    def set_tail_turn(self, tail_turn):
+        """March with the last element turned by ``tail_turn`` (rad): the trimmed all-moving tail."""
+        self.body = self._elements(tail_turn)
+
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]
         self._pressure = (_SurfaceRows(sc.steps, self.body) if self.thick

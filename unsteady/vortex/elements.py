@@ -86,19 +86,22 @@ def combine_loads(rows, bodies, alpha, h):
     return out
 
 
-def build_elements(sc):
+def build_elements(sc, tail_turn=0.0):
     """The placed camber lines of a ``[[airfoil]]`` scenario, first element first (each a Body in the
-    assembly's frame, metres about the first element's pivot)."""
+    assembly's frame, metres about the pitch axis, ``sc.pivot``); ``tail_turn`` (rad, nose-up) is
+    added to the last element's incidence (the trim of an all-moving tail, dynamics.pitch)."""
     from ..inputs.sections import camber_elements, section_from_shape
     from .bodies import build_body
     first = build_body(sc)
     bodies = [first]
     p_ref = sc.pivot * sc.chord
-    for el in sc.data["airfoil"]["_more"]:
+    more = sc.data["airfoil"]["_more"]
+    for k, el in enumerate(more):
         sec = section_from_shape(el["shape"], sc.base_dir)
         nodes = camber_elements(sec, el["elements"]).x_nodes
         b = Body.from_section(sec, el["elements"], el["chord"], 0.0, x_nodes=nodes)
-        bodies.append(place_element(b, math.radians(el["incidence"]), el["position"], p_ref))
+        turn = tail_turn if k == len(more) - 1 else 0.0
+        bodies.append(place_element(b, math.radians(el["incidence"]) + turn, el["position"], p_ref))
     return bodies
 
 
