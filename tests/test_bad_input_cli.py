@@ -38,6 +38,7 @@ DEL = object()          # remove the key
 GUST = {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 1.0, "arrival": 0.0}
 TURB = {"profile": "turbulence", "spectrum": "dryden", "intensity": 0.5, "scale_length": 10.0}
 AIRCRAFT = {"mass": 0.5, "wing_area": 0.3}
+PITCH_FREE = {"pitch_inertia": 0.01, "cg": 0.3}
 TAIL = {"shape": "flat", "chord": 0.1, "elements": 6, "position": [0.8, 0.02], "incidence": -2.0}
 SWEEP = {"grid": {"flow.speed": [10.0, 12.0]}}
 TABLE = "t,value\n0,0\n0.01,1\n0.02,1\n"
@@ -260,9 +261,29 @@ CASES = [
     # --- what this version does not do (several elements, pitch freedom)
     Case("airfoil-list", "airfoil", "several elements ([[airfoil]], a list) are not supported",
          {"airfoil": [GOOD["airfoil"], {**GOOD["airfoil"], "position": [0.6, 0.0]}]}),
-    Case("pitch-inertia", "aircraft.pitch_inertia", "pitch freedom needs a wing and a tail",
-         {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01}}),
-    Case("cg", "aircraft.cg", "pitch freedom needs a wing and a tail", {"aircraft": {**AIRCRAFT, "cg": 0.3}}),
+    Case("pitch-inertia-one-element", "aircraft.pitch_inertia", "pitch freedom needs a wing and a tail",
+         {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01, "cg": 0.3}, "motion": {}}),
+    Case("cg-without-inertia", "aircraft.pitch_inertia", "is required with pitch freedom",
+         {"aircraft": {**AIRCRAFT, "cg": 0.3}, "airfoil": [GOOD["airfoil"], TAIL], "motion": {}}),
+    Case("inertia-without-cg", "aircraft.cg", "is required with pitch freedom",
+         {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01}, "airfoil": [GOOD["airfoil"], TAIL], "motion": {}}),
+    *(Case(f"pitch-freedom-{name}", key, words, {"aircraft": {**AIRCRAFT, **PITCH_FREE, **ac},
+                                                 "airfoil": [{**GOOD["airfoil"], **first}, TAIL], "motion": mo})
+      for name, key, words, ac, first, mo in (
+          ("inertia-zero", "aircraft.pitch_inertia", "must be >= 1e-08", {"pitch_inertia": 0.0}, {}, {}),
+          ("inertia-not-number", "aircraft.pitch_inertia", "must be a number", {"pitch_inertia": "big"}, {}, {}),
+          ("cg-range", "aircraft.cg", "must be >= -0.5 and <= 1.5", {"cg": 3.0}, {}, {}),
+          ("pitch-law", "motion.pitch", "cannot be prescribed with pitch freedom", {}, {},
+           {"pitch": {"law": "constant", "value": 2.0}}),
+          ("pivot", "motion.pivot", "turns about its centre of gravity", {}, {}, {"pivot": 0.5}),
+          ("aspect-ratio", "aircraft.aspect_ratio", "cannot be used with pitch freedom", {"aspect_ratio": 8.0},
+           {}, {}),
+          ("flap", "aircraft.cg", "with a flap is not supported", {}, {"flap_hinge": 0.7}, {}),
+          ("lesp", "aircraft.cg", "leading-edge shedding", {}, {"lesp_critical": 0.2}, {}),
+      )),
+    Case("pitch-freedom-no-trim", "aircraft.cg", "no trim",
+         {"aircraft": {**AIRCRAFT, **PITCH_FREE, "cg": 1.5},
+          "airfoil": [GOOD["airfoil"], {**TAIL, "chord": 0.01, "position": [0.3, 0.02]}], "motion": {}}),
     Case("motion-unknown-key", "motion.plnge", "did you mean 'plunge'", {"motion.plnge": {"law": "constant"}}),
     # --- [run]
     Case("duration-and-chords", "run.duration", "give exactly one", {"run.duration": 0.1}),
