@@ -259,8 +259,6 @@ CASES = [
     Case("ground-unknown-key", "ground.hieght", "did you mean 'height'", {"ground.hieght": 0.1,
                                                                           "ground.height": 0.1}),
     # --- what this version does not do (several elements, pitch freedom)
-    Case("airfoil-list", "airfoil", "several elements ([[airfoil]], a list) are not supported",
-         {"airfoil": [GOOD["airfoil"], {**GOOD["airfoil"], "position": [0.6, 0.0]}]}),
     Case("pitch-inertia-one-element", "aircraft.pitch_inertia", "pitch freedom needs a wing and a tail",
          {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01, "cg": 0.3}, "motion": {}}),
     Case("cg-without-inertia", "aircraft.pitch_inertia", "is required with pitch freedom",
