@@ -38,6 +38,8 @@ DEL = object()          # remove the key
 GUST = {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 1.0, "arrival": 0.0}
 TURB = {"profile": "turbulence", "spectrum": "dryden", "intensity": 0.5, "scale_length": 10.0}
 AIRCRAFT = {"mass": 0.5, "wing_area": 0.3}
+PITCH_FREE = {"pitch_inertia": 0.01, "cg": 0.3}
+TAIL = {"shape": "flat", "chord": 0.1, "elements": 6, "position": [0.8, 0.02], "incidence": -2.0}
 SWEEP = {"grid": {"flow.speed": [10.0, 12.0]}}
 TABLE = "t,value\n0,0\n0.01,1\n0.02,1\n"
 POINTS = "".join(f"{x:.3f} {z:.3f}\n" for x, z in
@@ -55,6 +57,11 @@ class Case:
     text: str = None               # the scenario file's whole text instead of GOOD
     args: tuple = ()               # more command-line words
     command: str = "run"
+
+
+def _tail(change):
+    """A second element (TAIL) with keys changed (DEL: removed)."""
+    return {k: v for k, v in {**TAIL, **change}.items() if v is not DEL}
 
 
 def _pitch(**kw):
@@ -144,6 +151,33 @@ CASES = [
                                  [(1, 0), (0.75, -0.03), (0.5, -0.05), (0.25, 0.05), (0.1, 0.03), (0, 0),
                                   (0.1, -0.02), (0.25, -0.03), (0.5, 0.03), (0.75, 0.02), (1, 0)])}),
     Case("airfoil-unknown-key", "airfoil.chrod", "did you mean 'chord'", {"airfoil.chrod": 0.2}),
+    # --- [[airfoil]]: several elements (inputs.elements)
+    *(Case(f"elements-{name}", key, words, {"airfoil": [GOOD["airfoil"], _tail(tail)], **more})
+      for name, key, words, tail, more in (
+          ("position-missing", "airfoil[1].position", "is required", {"position": DEL}, {}),
+          ("position-not-pair", "airfoil[1].position", "must be [x, z]", {"position": [0.5]}, {}),
+          ("position-not-numbers", "airfoil[1].position", "must be [x, z]", {"position": ["a", 0.0]}, {}),
+          ("incidence-range", "airfoil[1].incidence", "must be >= -45 and <= 45", {"incidence": 60.0}, {}),
+          ("chord-missing", "airfoil[1].chord", "is required", {"chord": DEL}, {}),
+          ("chord-range", "airfoil[1].chord", "must be >= 0.001", {"chord": 0.0}, {}),
+          ("count-range", "airfoil[1].elements", "from 4 to 1000", {"elements": 2}, {}),
+          ("shape-unknown", "airfoil[1].shape", "did you mean", {"shape": "falt"}, {}),
+          ("overlap", "airfoil[1].position", "overlaps or touches element 1 (airfoil[0])",
+           {"position": [0.05, 0.0]}, {}),
+          ("crossing", "airfoil[1].position", "overlaps or touches element 1",
+           {"position": [0.1, 0.02], "incidence": 30.0}, {}),
+          ("thick", "airfoil[1].thick", "not supported with several elements", {"thick": True}, {}),
+          ("flap", "airfoil[1].flap_hinge", "first element only", {"flap_hinge": 0.7}, {}),
+          ("lesp", "airfoil[1].lesp_critical", "first element only", {"lesp_critical": 0.2}, {}),
+          ("unknown-key", "airfoil[1].positon", "did you mean 'position'", {"positon": [1.0, 0.0]}, {}),
+          ("linear-model", "airfoil", "need run.model = \"vortex\"", {}, {"run": {"chords": 2, "model": "linear"}}),
+          ("ground", "ground", "with several elements", {}, {"ground": {"height": 0.5}}),
+          ("first-thick", "airfoil.thick", "not supported with several elements", {},
+           {"airfoil": [{**GOOD["airfoil"], "thick": True, "shape": "naca0012", "elements": 40}, TAIL]}),
+      )),
+    Case("elements-empty-list", "airfoil", "needs at least one table", {"airfoil": []}),
+    Case("elements-too-many", "airfoil", "at most 8", {"airfoil": [GOOD["airfoil"]] + [
+        {**TAIL, "position": [1.0 + 0.5 * i, 0.0]} for i in range(8)]}),
     # --- [motion]
     Case("pivot-range", "motion.pivot", "must be >= -0.5 and <= 1.5", {"motion.pivot": 2.0}),
     Case("pivot-not-number", "motion.pivot", "must be a number", {"motion.pivot": "quarter"}),
@@ -223,11 +257,29 @@ CASES = [
     Case("ground-unknown-key", "ground.hieght", "did you mean 'height'", {"ground.hieght": 0.1,
                                                                           "ground.height": 0.1}),
     # --- what this version does not do (several elements, pitch freedom)
-    Case("airfoil-list", "airfoil", "several elements ([[airfoil]], a list) are not supported",
-         {"airfoil": [GOOD["airfoil"], {**GOOD["airfoil"], "position": [0.6, 0.0]}]}),
-    Case("pitch-inertia", "aircraft.pitch_inertia", "pitch freedom needs a wing and a tail",
-         {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01}}),
-    Case("cg", "aircraft.cg", "pitch freedom needs a wing and a tail", {"aircraft": {**AIRCRAFT, "cg": 0.3}}),
+    Case("pitch-inertia-one-element", "aircraft.pitch_inertia", "pitch freedom needs a wing and a tail",
+         {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01, "cg": 0.3}, "motion": {}}),
+    Case("cg-without-inertia", "aircraft.pitch_inertia", "is required with pitch freedom",
+         {"aircraft": {**AIRCRAFT, "cg": 0.3}, "airfoil": [GOOD["airfoil"], TAIL], "motion": {}}),
+    Case("inertia-without-cg", "aircraft.cg", "is required with pitch freedom",
+         {"aircraft": {**AIRCRAFT, "pitch_inertia": 0.01}, "airfoil": [GOOD["airfoil"], TAIL], "motion": {}}),
+    *(Case(f"pitch-freedom-{name}", key, words, {"aircraft": {**AIRCRAFT, **PITCH_FREE, **ac},
+                                                 "airfoil": [{**GOOD["airfoil"], **first}, TAIL], "motion": mo})
+      for name, key, words, ac, first, mo in (
+          ("inertia-zero", "aircraft.pitch_inertia", "must be >= 1e-08", {"pitch_inertia": 0.0}, {}, {}),
+          ("inertia-not-number", "aircraft.pitch_inertia", "must be a number", {"pitch_inertia": "big"}, {}, {}),
+          ("cg-range", "aircraft.cg", "must be >= -0.5 and <= 1.5", {"cg": 3.0}, {}, {}),
+          ("pitch-law", "motion.pitch", "cannot be prescribed with pitch freedom", {}, {},
+           {"pitch": {"law": "constant", "value": 2.0}}),
+          ("pivot", "motion.pivot", "turns about its centre of gravity", {}, {}, {"pivot": 0.5}),
+          ("aspect-ratio", "aircraft.aspect_ratio", "cannot be used with pitch freedom", {"aspect_ratio": 8.0},
+           {}, {}),
+          ("flap", "aircraft.cg", "with a flap is not supported", {}, {"flap_hinge": 0.7}, {}),
+          ("lesp", "aircraft.cg", "leading-edge shedding", {}, {"lesp_critical": 0.2}, {}),
+      )),
+    Case("pitch-freedom-no-trim", "aircraft.cg", "no trim",
+         {"aircraft": {**AIRCRAFT, **PITCH_FREE, "cg": 1.5},
+          "airfoil": [GOOD["airfoil"], {**TAIL, "chord": 0.01, "position": [0.3, 0.02]}], "motion": {}}),
     Case("motion-unknown-key", "motion.plnge", "did you mean 'plunge'", {"motion.plnge": {"law": "constant"}}),
     # --- [run]
     Case("duration-and-chords", "run.duration", "give exactly one", {"run.duration": 0.1}),

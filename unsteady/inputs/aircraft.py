@@ -39,8 +39,55 @@ def lift_scale(aspect_ratio):
     return theory.helmbold_lift_slope(aspect_ratio) / (2.0 * math.pi)
 
 
-#: Keys of pitch freedom (a wing with its tail), refused with their reason.
+#: Keys of pitch freedom (a wing with its tail: dynamics.pitch).
 PITCH_FREEDOM = ("pitch_inertia", "cg")
+#: Ranges of the pitch-freedom keys: the inertia from a gram-scale flier to a large transport
+#: (kg m^2), the centre of gravity in reference chords aft of the first element's leading edge.
+PITCH_RANGES = {"pitch_inertia": (1e-8, 1e8), "cg": (-0.5, 1.5)}
+
+
+def check_pitch_freedom(value, ctx):
+    """Problems of ``pitch_inertia`` and ``cg``; returns (resolved part, errors)."""
+    errors, out = [], {}
+    for key, unit in (("pitch_inertia", "kg m^2 (about the centre of gravity, the whole aircraft)"),
+                      ("cg", "(fraction of the first element's chord aft of its leading edge)")):
+        if key not in value:
+            errors.append(InputError(f"aircraft.{key}", "is required with pitch freedom: give both "
+                                                        "aircraft.pitch_inertia (kg m^2) and aircraft.cg "
+                                                        "(fraction of the reference chord)"))
+            continue
+        try:
+            lo, hi = PITCH_RANGES[key]
+            out[key] = number(f"aircraft.{key}", value[key], ge=lo, le=hi, unit=unit)
+        except InputError as e:
+            errors.append(e)
+    af = ctx.get("airfoil", {})
+    if not af.get("_more"):
+        errors.append(InputError("aircraft.pitch_inertia", "pitch freedom needs a wing and a tail: give two or "
+                                                           "more [[airfoil]] elements, or remove "
+                                                           "aircraft.pitch_inertia and aircraft.cg"))
+    mo = ctx.get("motion", {})
+    if "pitch" in mo:
+        errors.append(InputError("motion.pitch", "cannot be prescribed with pitch freedom: the attitude is "
+                                                 "trimmed and then free; remove motion.pitch or "
+                                                 "aircraft.pitch_inertia and aircraft.cg"))
+    if "flap" in mo or "flap_hinge" in af:
+        errors.append(InputError("aircraft.cg", "pitch freedom with a flap is not supported by this version: "
+                                                "the trim turns the last element (an all-moving tail); remove "
+                                                "the flap"))
+    if "aspect_ratio" in value:
+        errors.append(InputError("aircraft.aspect_ratio", "cannot be used with pitch freedom: the wing's "
+                                                          "finite-span correction would also scale the tail's "
+                                                          "lift and moment; remove aircraft.aspect_ratio"))
+    if af.get("lesp_critical") is not None:
+        errors.append(InputError("aircraft.cg", "pitch freedom with leading-edge shedding "
+                                                "(airfoil.lesp_critical) is not supported by this version"))
+    pivot = mo.get("pivot")
+    if "cg" in out and isinstance(pivot, (int, float)) and pivot != 0.25 and abs(pivot - out["cg"]) > 1e-12:
+        errors.append(InputError("motion.pivot", f"is {pivot:g}, but with pitch freedom the aircraft turns "
+                                                 f"about its centre of gravity (aircraft.cg = {out['cg']:g}): "
+                                                 "remove motion.pivot"))
+    return out, errors
 
 
 @register_section("aircraft")
@@ -48,14 +95,11 @@ def check_aircraft_section(value, ctx):
     """Check ``[aircraft]``: mass (kg), wing_area (m^2), optional aspect_ratio and span (m); (resolved, [InputError])."""
     if not isinstance(value, dict):
         return value, [InputError("aircraft", "must be a table [aircraft] with mass (kg) and wing_area (m^2)")]
-    errors = unknown_keys({k: v for k, v in value.items() if k not in PITCH_FREEDOM},
-                          {"mass", "wing_area", "aspect_ratio", "span"}, "aircraft.")
-    for key in PITCH_FREEDOM:
-        if key in value:
-            errors.append(InputError(f"aircraft.{key}", "pitch freedom needs a wing and a tail (several elements), "
-                                                        "which this version does not support: the aircraft "
-                                                        "heaves with its pitch prescribed; remove the key"))
+    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio", "span", *PITCH_FREEDOM}, "aircraft.")
     out = {}
+    if any(k in value for k in PITCH_FREEDOM):      # pitch freedom (dynamics.pitch)
+        out, errs = check_pitch_freedom(value, ctx)
+        errors += errs
     for key, unit in (("mass", "kg"), ("wing_area", "m^2")):
         if key not in value:
             errors.append(InputError(f"aircraft.{key}", f"is required ({unit}, > 0)"))

@@ -67,6 +67,9 @@ def check_ground_section(value, ctx):
         errors.append(InputError("ground", "is computed by the vortex model only (the images of its vortices); "
                                            "the linear model has no ground effect: set run.model = \"vortex\" "
                                            "or remove [ground]"))
+    if ctx.get("airfoil", {}).get("_more"):
+        errors.append(InputError("ground", "with several elements ([[airfoil]]) is not supported by this "
+                                           "version: give one [airfoil] table or remove [ground]"))
     depth = lowest_below_axis(ctx)
     if depth is not None and out["height"] <= depth:
         part = "lower surface" if ctx.get("airfoil", {}).get("thick") else "camber line"

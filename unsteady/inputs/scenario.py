@@ -141,7 +141,9 @@ class Scenario:
 
     @property
     def pivot(self):
-        return self.data["motion"]["pivot"]
+        """The pitch axis (fraction of the first chord): with pitch freedom the centre of gravity."""
+        ac = self.data.get("aircraft") or {}
+        return ac["cg"] if "cg" in ac else self.data["motion"]["pivot"]
 
     @property
     def dt(self):
@@ -189,6 +191,9 @@ class Scenario:
         data = copy.deepcopy(self.data)
         if "chords" in data.get("run", {}):
             data["run"].pop("duration", None)    # exactly one of the two may be given
+        if "_more" in data.get("airfoil", {}):   # [[airfoil]]: the list as given
+            more = data["airfoil"].pop("_more")
+            data["airfoil"] = [data["airfoil"]] + more
         if "altitude" in data.get("flow", {}):
             data["flow"].pop("density", None)
         return tomli_w.dumps(_tomlable(data))
@@ -356,12 +361,16 @@ def resolve(raw, base_dir, stem="scenario"):
     allowed = set(CORE_SECTIONS) | set(_SECTIONS)
     errors += unknown_keys(raw, allowed, "")
     not_tables = []
+    further = None                           # [[airfoil]]: the raw tables after the first
     if isinstance(raw.get("airfoil"), list):
-        errors.append(InputError("airfoil", "several elements ([[airfoil]], a list) are not supported by this "
-                                            "version: give one [airfoil] table"))
-        raw = {**raw, "airfoil": raw["airfoil"][0] if raw["airfoil"] and isinstance(raw["airfoil"][0], dict)
-               else {}}
-        not_tables.append("airfoil")
+        items = raw["airfoil"]
+        if not items or not isinstance(items[0], dict):
+            errors.append(InputError("airfoil", "[[airfoil]] needs at least one table, the reference element"))
+            raw = {**raw, "airfoil": {}}
+            not_tables.append("airfoil")
+        else:
+            further = list(items[1:])
+            raw = {**raw, "airfoil": items[0]}
     for sec in ("flow", "airfoil", "motion", "run", "output"):
         if sec in raw and not isinstance(raw[sec], dict):
             errors.append(InputError(sec, "must be a table ([" + sec + "])"))
@@ -427,6 +436,17 @@ def resolve(raw, base_dir, stem="scenario"):
         from .thick import check_thick
         thick, errs = check_thick(af, airfoil, raw.get("run", {}), section)
         errors += errs
+    if further is not None:                  # several elements (inputs.elements)
+        from .elements import check_further_elements
+        more, errs = check_further_elements(further, base_dir, CHORD_RANGE)
+        errors += errs
+        if airfoil.get("thick"):
+            errors.append(InputError("airfoil.thick", "surface panels are not supported with several elements "
+                                                      "([[airfoil]]): each element is a camber line"))
+        if (raw.get("run", {}) if isinstance(raw.get("run"), dict) else {}).get("model") == "linear":
+            errors.append(InputError("airfoil", "several elements ([[airfoil]]) need run.model = \"vortex\": "
+                                                "the linear model is one thin airfoil alone"))
+        airfoil["_more"] = more
     out["airfoil"] = airfoil
 
     speed = flow.get("speed")
@@ -534,6 +554,9 @@ def resolve(raw, base_dir, stem="scenario"):
             errors += errs
             out[name] = value
             ctx[name] = value          # a later section may depend on an earlier one (gust on aircraft)
+    if not errors and out["airfoil"].get("_more"):
+        from .elements import element_problems
+        errors += element_problems(out["airfoil"], out["airfoil"]["_more"], base_dir)
     if not errors and "flap_hinge" in out["airfoil"]:
         from .flap import flap_problems
         errors += flap_problems(out, base_dir, ctx["_warnings"])

@@ -272,6 +272,22 @@ def airfoil_outline(section, chord, pivot, alpha, h, n=81, x_shift=0.0, flap=Non
     return x + x_shift, z
 
 
+def element_outlines(sc, alpha, h, n=81, x_shift=0.0, flap=None):
+    """Closed outlines (x, z) (m) of every element of the run at pitch ``alpha``, height ``h``: the
+    first (with its flap) and, with ``[[airfoil]]``, each further one at its position and incidence."""
+    out = [airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, n=n, x_shift=x_shift, flap=flap)]
+    from ..inputs.sections import section_from_shape
+    for el in sc.data["airfoil"].get("_more", ()):
+        xu, zu, xl, zl = section_from_shape(el["shape"], sc.base_dir).outline(n)
+        xf = np.concatenate([xu, xl[::-1]]) * el["chord"]
+        zf = np.concatenate([zu, zl[::-1]]) * el["chord"]
+        xi, zeta = to_inertial(xf, zf, math.radians(el["incidence"]), 0.0)   # turned about its leading edge
+        x, z = to_inertial(xi + el["position"][0] - sc.pivot * sc.chord, zeta + el["position"][1],
+                           float(alpha), float(h))
+        out.append((x + x_shift, z))
+    return out
+
+
 def flap_at(sc, history, t):
     """``(hinge, beta)`` of the run's flap at time t (beta in rad, from the ``flap_deg`` history), or None."""
     if sc is None or "flap_hinge" not in sc.data.get("airfoil", {}) or "flap_deg" not in history:

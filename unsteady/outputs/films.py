@@ -446,6 +446,9 @@ class FilmRenderer:
         t0, t1 = f.t0, f.t1
         x_le0 = -f.pivot * c
         x_te0 = (1 - f.pivot) * c
+        more = f.sc.data["airfoil"].get("_more", ())
+        if more:                               # [[airfoil]]: frame the furthest trailing edge too
+            x_te0 = max([x_te0] + [el["position"][0] + el["chord"] - f.pivot * c for el in more])
         if f.air:
             x_lo = x_le0 + f.x_shift(t1) - 0.8 * c
             x_hi = x_te0 + f.opt.reach * c
@@ -456,6 +459,11 @@ class FilmRenderer:
         alphas = f.snap["alpha"][f.snap_index]
         z_lo = float(np.min(hs)) - c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
         z_hi = float(np.max(hs)) + c * (0.6 + 0.5 * abs(math.sin(float(np.max(np.abs(alphas))))))
+        if more:                               # the further elements' heights (and their swing in pitch)
+            reach = max(math.hypot(el["position"][0] + el["chord"] - f.pivot * c, el["position"][1])
+                        for el in more) * abs(math.sin(float(np.max(np.abs(alphas)))))
+            z_lo = min(z_lo, min(el["position"][1] for el in more) + float(np.min(hs)) - reach - 0.3 * c)
+            z_hi = max(z_hi, max(el["position"][1] for el in more) + float(np.max(hs)) + reach + 0.3 * c)
         bb = self.ax.get_position()
         aspect = (bb.width * self.W) / (bb.height * self.H)    # pixels across / pixels up
         width = x_hi - x_lo
@@ -630,6 +638,13 @@ class FilmRenderer:
                             edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
         ax.add_patch(self.foil)
         self.animated.append(self.foil)
+        self.more_foils = []                  # the further elements of [[airfoil]]
+        for _ in f.sc.data["airfoil"].get("_more", ()):
+            p = Polygon(np.zeros((3, 2)), closed=True, facecolor=LOOK["airfoil"],
+                        edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3, animated=True)
+            ax.add_patch(p)
+            self.animated.append(p)
+            self.more_foils.append(p)
         # the ground ([ground]): fixed, or moving with the heights when the camera follows
         self.ground_z = fields.ground_height(f.sc)
         self.ground = None
@@ -821,6 +836,10 @@ class FilmRenderer:
         xo, zo = fields.airfoil_outline(f.section, f.c, f.pivot, alpha, hv, n=61, x_shift=sh,
                                         flap=fields.flap_at(f.sc, f.hist, t))
         self.foil.set_xy(np.column_stack([xo, zo]))
+        if self.more_foils:
+            for p, (xe, ze) in zip(self.more_foils, fields.element_outlines(f.sc, alpha, hv, n=61,
+                                                                            x_shift=sh)[1:]):
+                p.set_xy(np.column_stack([xe, ze]))
         if self.cp_line is not None:
             self.cp_line.set_data(*self._pressure_line(t, alpha, hv, sh))
         values = [t, f.U * t / f.c, math.degrees(alpha)]

@@ -442,7 +442,10 @@ def plot_wake(result, path, k=-1):
     x, z, g = s["x"][a:b], s["z"][a:b], s["gamma"][a:b]
     lev = lev_mask(s, a, b)
     c = float(sc.chord)
-    xo, zo = _outline(result, s["alpha"][k], s["h"][k], t=float(s["t"][k]))
+    from . import fields
+    outlines = fields.element_outlines(sc, s["alpha"][k], s["h"][k],
+                                       flap=fields.flap_at(sc, result.history, float(s["t"][k])))
+    xo, zo = np.concatenate([o[0] for o in outlines]), np.concatenate([o[1] for o in outlines])
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c
     zc = 0.5 * (float(zo.min()) + float(zo.max()))
@@ -465,7 +468,8 @@ def plot_wake(result, path, k=-1):
         if lev.any():
             axis.scatter(x[lev], z[lev], c=g[lev], s=dots[lev] * 1.3, cmap=VORTEX_MAP, norm=norm, marker="D",
                          edgecolors=LOOK["lev"], linewidths=0.5, zorder=2.5)
-        axis.fill(xo, zo, facecolor=LOOK["airfoil"], edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3)
+        for xe, ze in outlines:               # every element ([[airfoil]])
+            axis.fill(xe, ze, facecolor=LOOK["airfoil"], edgecolor=LOOK["airfoil_edge"], lw=0.6, zorder=3)
         draw_ground(axis, sc)
     ax.set_ylabel("height z (m)", fontsize=9)
     handles = [Line2D([], [], ls="", marker="o", color=LOOK["ccw"], label="counter-clockwise"),

@@ -11,6 +11,7 @@ from ..inputs.sections import camber_elements
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.flap import build_flap_body, hinge_nodes
+from ..vortex.elements import build_elements
 from ..vortex.ground import Ground
 from ..vortex.flap_panels import build_flap_surface
 from ..vortex.panels import build_surface
@@ -285,13 +286,17 @@ class VortexModel(Model):
             self.body = build_surface(sc) if sc.flap_law is None else build_flap_surface(sc, sc.flap_law)
         else:
             self.body = build_body(sc) if sc.flap_law is None else build_flap_body(sc, sc.flap_law)
+        more = sc.data["airfoil"].get("_more")
+        if more:                                # [[airfoil]]: the first element's model, then the others
+            self.body = [self.body] + build_elements(sc)[1:]
         gr = sc.data.get("ground")
         # the ground sits [ground] height below the pitch axis's height at t = 0
         self.ground = (None if not gr else
                        Ground(float(sc.kinematics.plunge.value(0.0)) - gr["height"]))
         self.COLUMNS = (("lesp", "gamma_lev") if sc.data["airfoil"].get("lesp_critical") is not None
                         else ("lesp",)) + (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
-            ("ground_clearance_m",) if self.ground is not None else ())
+            ("ground_clearance_m",) if self.ground is not None else ()) + (
+            tuple(f"{q}_{i}" for i in range(1, len(more) + 2) for q in ("cl", "cd", "cm")) if more else ())
         self._pressure = None
 
     def steady_cl(self, alpha, alpha_dot):
@@ -305,6 +310,29 @@ class VortexModel(Model):
                      ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([obs])
         return obs.cl
 
+    def steady_loads(self, alpha, tail_turn):
+        """(cl, cm about the pitch axis) of the solver's steady start at attitude alpha (rad) with the
+        last element turned by ``tail_turn`` (rad): what the trim of pitch freedom solves on."""
+        sc = self.sc
+        rows = []
+
+        class _Last:
+            def on_step(self, s):
+                rows.append(s.loads)
+
+        gust = self.gust if self.gust is not None and self.gust.present_at_start else None
+        VortexSolver(self._elements(tail_turn), _Fixed(alpha, 0.0), speed=sc.speed, density=sc.density,
+                     dt=sc.dt, steps=0, start="steady", gust=gust).run([_Last()])
+        return rows[-1]["cl"], rows[-1]["cm_pivot"]
+
+    def _elements(self, tail_turn):
+        first = self.body[0] if isinstance(self.body, list) else self.body
+        return [first] + build_elements(self.sc, tail_turn)[1:]
+
+    def set_tail_turn(self, tail_turn):
+        """March with the last element turned by ``tail_turn`` (rad): the trimmed all-moving tail."""
+        self.body = self._elements(tail_turn)
+
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]
         self._pressure = (_SurfaceRows(sc.steps, self.body) if self.thick
@@ -313,7 +341,8 @@ class VortexModel(Model):
         critical = sc.data["airfoil"].get("lesp_critical")
         sites = None
         if critical is not None:
-            sites = [TrailingEdgeSite(0, offset), LeadingEdgeSite(0, critical, offset)]
+            sites = [TrailingEdgeSite(0, offset), LeadingEdgeSite(0, critical, offset)] + [
+                TrailingEdgeSite(b, offset) for b in range(1, len(self.body) if isinstance(self.body, list) else 1)]
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
                               shed_offset=offset, sites=sites,

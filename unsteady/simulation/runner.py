@@ -13,6 +13,7 @@ from ..analysis.summary import make_summary
 from ..analysis.turbulence import record_statistics, realisation_seeds_of, startup_interval, turbulence_summary
 from ..analysis.verdict import measured_warnings, warning_lines
 from ..dynamics.heave import HeaveMotion
+from ..dynamics.pitch import PitchHeaveMotion
 from ..inputs.gusts import build_gust_field
 from ..inputs.scenario import Scenario, load_scenario
 from . import models
@@ -97,9 +98,15 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
     t_wall = time.perf_counter()
     cls = models.get(sc.data["run"].get("model", "vortex"))
     gust = build_gust_field(sc) if sc.data.get("gust") else None
-    heave = HeaveMotion(sc, sc.kinematics) if sc.data.get("aircraft") else None
+    ac = sc.data.get("aircraft")
+    pitching = bool(ac) and "pitch_inertia" in ac            # a wing with its tail free to pitch
+    heave = (PitchHeaveMotion(sc, sc.kinematics) if pitching else
+             HeaveMotion(sc, sc.kinematics) if ac else None)
     model = cls(sc, gust, heave if heave is not None else PrescribedMotion(sc.kinematics))
-    if heave is not None:
+    if pitching:
+        heave.trim(model.steady_loads)
+        model.set_tail_turn(heave.tail_trim)
+    elif heave is not None:
         heave.trim(model.steady_cl)
     builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
     columns = list(model.COLUMNS)                # a model may add columns for its scenario

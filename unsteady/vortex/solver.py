@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .elements import CrossingGuard, combine_loads
 from .bodies import Body, BodyPoints, RigidCamber, as_body_models, build_body, rotate, to_inertial
 from .kernels import induced_velocity, normal_influence, normal_influence_ground
 from .loads import LoadHistory
@@ -211,9 +212,11 @@ class VortexSolver:
 
     Several bodies run through every stage (one matrix, one Kelvin row each,
     one wake with site indices, every body's bound vortices in every other's
-    loads), but their loads are not yet combined: ``loads`` is the first
-    body's pressure-route row, its impulse columns count everything;
-    ``body_loads`` lists each body's.
+    loads); ``loads`` (what observers and the motion see) combines them on
+    the first body's chord, with ``cl_<i>``, ``cd_<i>``, ``cm_<i>`` per body
+    (:func:`~unsteady.vortex.elements.combine_loads`; its impulse columns,
+    the first body's, count every vortex); ``body_loads`` lists each body's
+    own row on its own chord.
 
     **A ground** (``ground``, :class:`~unsteady.vortex.ground.Ground`): the
     kernels' image option (:mod:`~unsteady.vortex.kernels`: each source
@@ -317,6 +320,8 @@ class VortexSolver:
         self.system = BodySystem(self.models, self.t0)
         self.ground = ground
         self.z_g = None if ground is None else float(ground.z)
+        #: several bodies: wake vortices kept from stepping through a camber line (vortex.elements)
+        self.guard = CrossingGuard([m.geometry for m in self.models]) if len(self.models) > 1 else None
 
     # ------------------------------------------------------------------
     def run(self, observers=()):
@@ -571,6 +576,8 @@ class VortexSolver:
             s.loads.append(row)
         for site in self.sites:
             s.loads[site.body].update(site.report())
+        s.total = (s.loads[0] if len(s.loads) == 1 else      # several bodies: the assembly's (vortex.elements)
+                   combine_loads(s.loads, [m.geometry for m in self.models], s.alpha, s.h))
         if not (np.isfinite(s.gamma).all() and all(math.isfinite(r["cl"]) for r in s.loads)):
             raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
 
@@ -586,14 +593,14 @@ class VortexSolver:
             extra["ground_clearance_m"] = s.clearance
         state = StepState(n=s.n, t=s.t, alpha=s.alpha, alpha_dot=s.alpha_dot, h=s.h, h_dot=s.h_dot,
                           gamma_bound=s.gamma, x_wake=wx, z_wake=wz, gamma_wake=wg,
-                          x_body=s.xv, z_body=s.zv, loads=s.loads[0],
+                          x_body=s.xv, z_body=s.zv, loads=s.total,
                           dcp=self.load_histories[0].dcp_last,
                           extra=extra,
                           wake_site=st.site[:st.m], far_x=far.x[:far.n], far_z=far.z[:far.n],
                           far_gamma=far.g[:far.n], far_site=far.site[:far.n], body_loads=s.loads)
         for obs in self.observers:
             obs.on_step(state)
-        self.motion.after_step(s.t, self.dt, s.loads[0])
+        self.motion.after_step(s.t, self.dt, s.total)
 
     def _convect(self, s):
         """Stage 7: the wake from t to t + dt (free: Adams-Bashforth 2; frozen: at U)."""
@@ -609,9 +616,15 @@ class VortexSolver:
         if not np.isfinite(u).all() or not np.isfinite(w).all():
             raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
         keep = self._sides_before(s) if self.soft_sites and self.free_wake else None
+        guard = None
+        if self.guard is not None and self.free_wake:        # several bodies (vortex.elements)
+            guard = self.guard.before(*st.wake()[:2], s.alpha, s.h)
         st.convect(u, w, self.dt, self.free_wake)
         if keep is not None:
             self._keep_sides(s, *keep)
+        if guard is not None:
+            alpha, _, h, _ = self.motion.state(s.t + self.dt)
+            self.guard.after(*st.wake()[:2], alpha, h, guard)
 
     def _sides_before(self, s):
         """Soft vortices over the first body's chord: indices and side of its camber line."""

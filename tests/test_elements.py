@@ -1,0 +1,57 @@
+"""Several elements: placing, combining loads, the crossing guard, the scenario round trip."""
+
+import math
+
+import numpy as np
+
+from unsteady import load_scenario
+from unsteady.vortex.bodies import Body, to_inertial
+from unsteady.vortex.elements import CrossingGuard, combine_loads, place_element
+
+C = 0.2
+
+
+def flat(n=8, chord=C, pivot=0.0):
+    x = 0.5 * (1.0 - np.cos(np.pi * np.arange(n + 1) / n))
+    return Body.from_nodes(x, 0.0 * x, chord, pivot)
+
+
+def test_place_element_turns_nose_up_about_its_leading_edge():
+    # a nose-up incidence puts the trailing edge below the leading edge (the body frame's convention)
+    b = place_element(flat(chord=0.1), math.radians(10.0), [0.5, 0.02], 0.25 * C)
+    assert math.isclose(b.xi_0[0], 0.5 - 0.05) and math.isclose(b.zeta_0[0], 0.02)
+    assert math.isclose(b.xi_te, 0.45 + 0.1 * math.cos(math.radians(10.0)))
+    assert math.isclose(b.zeta_te, 0.02 - 0.1 * math.sin(math.radians(10.0)))
+    assert np.allclose(np.hypot(b.n_xi, b.n_zeta), 1.0)
+
+
+def test_combined_moment_transfers_by_the_arms():
+    # common practice (statics): a body's own row, moved to the reference chord and point; one body
+    # alone gives back its row, and the moment about the reference point follows M_R = M_P - (z_R - h) Fx + x_R Fz
+    ref = flat(pivot=0.25)
+    row = {"cl": 0.5, "cd": 0.02, "cm_pivot": -0.01, "gamma_bound_m2_s": -1.0, "gamma_wake_m2_s": 1.0}
+    out = combine_loads([row, dict(row)], [ref, ref], math.radians(5.0), 0.1)
+    assert math.isclose(out["cl"], 1.0) and math.isclose(out["cl_1"], 0.5)
+    x_r, z_r = to_inertial(ref.xi_ref, ref.zeta_ref, math.radians(5.0), 0.1)
+    assert math.isclose(out["cm_1"], -0.01 - (z_r - 0.1) / C * 0.02 + x_r / C * 0.5)
+
+
+def test_crossing_guard_mirrors_a_vortex_that_stepped_through():
+    b = flat(chord=C, pivot=0.25)
+    g = CrossingGuard([b])
+    x, z = np.array([0.05, 0.3]), np.array([0.01, 0.01])     # one over the plate, one behind it
+    sides = g.before(x, z, 0.0, 0.0)
+    x2, z2 = x.copy(), np.array([-0.004, -0.004])            # both step down by 14 mm
+    g.after(x2, z2, 0.0, 0.0, sides)
+    assert math.isclose(z2[0], 0.004) and z2[1] == -0.004     # only the one over the chord is put back
+
+
+def test_elements_round_trip_through_toml():
+    import tomllib
+    raw = {"flow": {"speed": 10.0, "density": 1.2},
+           "airfoil": [{"shape": "flat", "chord": C, "elements": 10},
+                       {"shape": "naca0012", "chord": 0.1, "elements": 8, "position": [0.6, 0.05], "incidence": -2}],
+           "run": {"chords": 2}, "output": {"plots": False}}
+    sc = load_scenario(raw)
+    again = load_scenario(tomllib.loads(sc.to_toml()))
+    assert again.data == sc.data

@@ -1,0 +1,153 @@
+"""Checks of several elements in one flow (``[[airfoil]]``, a list): the further elements' keys.
+
+The first table is checked as the one ``[airfoil]`` of a single-element
+scenario (:func:`unsteady.inputs.scenario.resolve`); the further ones here.
+Each further element has its own ``shape``, ``chord``, ``elements``, its
+``position = [x, z]`` (m, its leading edge from the first's, in the first's
+chord axes at zero pitch) and ``incidence`` (deg, nose-up relative to the
+first's chord).  Whether the elements overlap is checked on the built
+camber lines (:func:`element_problems`).
+"""
+
+from __future__ import annotations
+
+import math
+
+from ..core.errors import InputError
+from .checks import integer, number, text, unknown_keys
+
+__all__ = ["check_further_elements", "element_problems", "MAX_ELEMENTS", "MAX_INCIDENCE_DEG"]
+
+#: At most this many elements in one flow.
+MAX_ELEMENTS = 8
+#: |incidence| (deg) accepted for a further element.
+MAX_INCIDENCE_DEG = 45.0
+#: Nearest approach of two camber lines, in mean element lengths (c/N) of each: closer and the
+#: lumped vortices of one sit on the collocation points of the other (common practice).
+GAP_ELEMENTS = 0.5
+
+_KEYS = {"shape", "chord", "elements", "position", "incidence", "flap_hinge", "lesp_critical", "thick"}
+
+
+def check_further_elements(items, base_dir, chord_range):
+    """The further elements ``items`` (raw tables 2, 3, ... of ``[[airfoil]]``); returns (resolved list, errors)."""
+    from .sections import section_from_shape
+    errors, out = [], []
+    if len(items) + 1 > MAX_ELEMENTS:
+        return [], [InputError("airfoil", f"gives {len(items) + 1} elements; at most {MAX_ELEMENTS} are allowed")]
+    for i, af in enumerate(items, start=1):
+        p = f"airfoil[{i}]."
+        if not isinstance(af, dict):
+            errors.append(InputError(f"airfoil[{i}]", "must be a table ([[airfoil]])"))
+            continue
+        errors += unknown_keys(af, _KEYS, p)
+        el = {"shape": af.get("shape", "flat")}
+
+        def grab(fn, *a, **k):
+            try:
+                return fn(*a, **k)
+            except InputError as e:
+                errors.append(e)
+                return None
+
+        if "chord" not in af:
+            errors.append(InputError(p + "chord", "is required (m, > 0)"))
+        else:
+            el["chord"] = grab(number, p + "chord", af["chord"], ge=chord_range[0], le=chord_range[1], unit="m")
+        el["elements"] = grab(integer, p + "elements", af.get("elements", 40), ge=4, le=1000)
+        if grab(text, p + "shape", el["shape"]) is not None:
+            try:
+                section_from_shape(el["shape"], base_dir)
+            except InputError as e:
+                errors.append(InputError(p + "shape", e.message))
+        pos = af.get("position")
+        if pos is None:
+            errors.append(InputError(p + "position", "is required: [x, z] (m), the element's leading edge from "
+                                                     "the first element's, x aft and z up"))
+        elif (not isinstance(pos, list) or len(pos) != 2
+              or not all(isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+                         for v in pos)):
+            errors.append(InputError(p + "position", f"must be [x, z], two numbers in metres, got {pos!r}"))
+        else:
+            el["position"] = [float(pos[0]), float(pos[1])]
+        el["incidence"] = grab(number, p + "incidence", af.get("incidence", 0.0), ge=-MAX_INCIDENCE_DEG,
+                               le=MAX_INCIDENCE_DEG, unit="deg (nose-up relative to the first element's chord)")
+        if "thick" in af and af["thick"] is not False:
+            errors.append(InputError(p + "thick", "surface panels are not supported with several elements: "
+                                                  "each element is a camber line (leave thick out)"))
+        if "flap_hinge" in af:
+            errors.append(InputError(p + "flap_hinge", "a flap on a further element is not supported by this "
+                                                       "version: give flap_hinge on the first element only"))
+        if "lesp_critical" in af:
+            errors.append(InputError(p + "lesp_critical", "leading-edge shedding on a further element is not "
+                                                          "supported by this version: give lesp_critical on "
+                                                          "the first element only"))
+        out.append(el)
+    return out, errors
+
+
+def placed_nodes(section, n, chord, incidence_deg, position):
+    """Camber-line nodes (x, z) (m) of an element, leading edge first, in the first element's
+    chord axes at zero pitch with the origin at its leading edge (cosine spacing of ``n``)."""
+    import numpy as np
+    x = 0.5 * (1.0 - np.cos(np.pi * np.arange(n + 1) / n))
+    z = np.asarray(section.camber(x), float)
+    a = math.radians(incidence_deg)
+    ca, sa = math.cos(a), math.sin(a)
+    # nose-up turn about the leading edge (the body frame's convention, vortex.bodies.to_inertial)
+    return (position[0] + chord * (x * ca + z * sa), position[1] + chord * (-x * sa + z * ca))
+
+
+def _orient(a, b, c):
+    return (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])
+
+
+def segments_meet(p, q, r, s):
+    """Whether the closed segments pq and rs meet (orientation test, common practice)."""
+    d1, d2, d3, d4 = _orient(r, s, p), _orient(r, s, q), _orient(p, q, r), _orient(p, q, s)
+    if d1 * d2 < 0 and d3 * d4 < 0:
+        return True
+
+    def on(a, b, c):
+        return min(a[0], b[0]) <= c[0] <= max(a[0], b[0]) and min(a[1], b[1]) <= c[1] <= max(a[1], b[1])
+
+    return ((d1 == 0 and on(r, s, p)) or (d2 == 0 and on(r, s, q)) or
+            (d3 == 0 and on(p, q, r)) or (d4 == 0 and on(p, q, s)))
+
+
+def crossing_pair(lines, clearance):
+    """The first pair (i, j) (0-based) of polylines ``lines`` [(x, z), ...] that cross, touch or come
+    nearer than ``clearance[i] + clearance[j]`` (m) node to node; None when all are apart."""
+    import numpy as np
+    for i in range(len(lines)):
+        xa, za = lines[i]
+        for j in range(i + 1, len(lines)):
+            xb, zb = lines[j]
+            gap = np.sqrt((xa[:, None] - xb[None, :]) ** 2 + (za[:, None] - zb[None, :]) ** 2).min()
+            if gap < clearance[i] + clearance[j]:
+                return i, j
+            for k in range(xa.size - 1):
+                p, q = (xa[k], za[k]), (xa[k + 1], za[k + 1])
+                for m in range(xb.size - 1):
+                    if segments_meet(p, q, (xb[m], zb[m]), (xb[m + 1], zb[m + 1])):
+                        return i, j
+    return None
+
+
+def element_problems(first, further, base_dir):
+    """Errors of the placed elements (resolved tables): a pair that crosses or comes too near, both named."""
+    from .sections import section_from_shape
+    tables = [dict(first, position=[0.0, 0.0], incidence=0.0)] + list(further)
+    lines, clear = [], []
+    for el in tables:
+        sec = section_from_shape(el["shape"], base_dir)
+        lines.append(placed_nodes(sec, el["elements"], el["chord"], el["incidence"], el["position"]))
+        clear.append(GAP_ELEMENTS * el["chord"] / el["elements"])
+    pair = crossing_pair(lines, clear)
+    if pair is None:
+        return []
+    i, j = pair
+    return [InputError(f"airfoil[{j}].position",
+                       f"element {j + 1} (airfoil[{j}]) overlaps or touches element {i + 1} (airfoil[{i}]): "
+                       f"their camber lines must stay at least {GAP_ELEMENTS:g} element lengths (chord / "
+                       f"elements) apart; move airfoil[{j}].position or change its incidence")]
