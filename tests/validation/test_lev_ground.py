@@ -72,6 +72,12 @@ class MirrorPairSolver(VortexSolver):
     for the held attitude of this test: the assembly at zero pitch and height).
     """
 
+    def __init__(self, *args, **kw):
+        super().__init__(*args, **kw)
+        # the pair stands for one body over the ground, which has no second element to guard:
+        # the several-elements crossing guard (vortex.elements.CrossingGuard) stays off
+        self.guard = None
+
     def _convect(self, s):
         idx = self._soft_indices() if self.soft_sites else np.zeros(0, dtype=int)
         m = self.models[1].geometry
