@@ -81,7 +81,7 @@ def running_mean(y, k):
 
 
 def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), dt=None, chord_time=0.0,
-                 settle_s=0.0, running_mean_s=None):
+                 settle_s=0.0, running_mean_s=None, impulsive_start=False):
     """Headline numbers of a history (keys as in the public interface).
 
     Parameters
@@ -109,6 +109,11 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
         this many seconds (needs ``dt``; a run that sheds from the leading
         edge ripples from step to step, :mod:`unsteady.analysis.shedding`);
         ``cl_max_steps`` keeps the largest single row.
+    impulsive_start : bool, optional
+        The run starts impulsively (``run.start = "impulsive"``): the speed
+        jumps from rest at the first row, an impulse of the apparent-mass force
+        like an instantaneous motion, so the rows of :data:`IMPULSE_WINDOW`
+        after the first are left out of the peaks too (needs ``dt``), and said so.
     """
     cl = np.asarray(history["cl"], dtype=float)
     t = np.asarray(history["t"], dtype=float)
@@ -117,6 +122,14 @@ def make_summary(history, *, steps, wall_time_s, extra=None, impulse_times=(), d
     if times:
         keep = ~impulse_mask(t, times, dt, chord_time)
     s = {"version": __version__, "steps": int(steps), "wall_time_s": float(wall_time_s)}
+    if impulsive_start and dt and t.size > 1:
+        start = impulse_mask(t, [float(t[0])], dt, chord_time)
+        if (keep & ~start).any():
+            keep = keep & ~start
+            s["start_note"] = ("the run starts impulsively: the first rows carry the apparent-mass "
+                               "impulse of the start from rest, so the peaks leave out the first "
+                               f"{IMPULSE_WINDOW[1]:g} steps or {IMPULSE_WINDOW[2]:g} chord of travel, "
+                               "whichever is longer")
     if settle_s > 0.0 and t.size:
         settled = t >= t[0] + settle_s
         if (keep & settled).any():

@@ -161,7 +161,8 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
     summary = make_summary(history, steps=steps, wall_time_s=wall_time_s, extra=extra,
                            impulse_times=singular_times(sc), dt=sc.dt,
                            chord_time=sc.chord / sc.speed, settle_s=settle,
-                           running_mean_s=running_mean_s(history, sc))
+                           running_mean_s=running_mean_s(history, sc),
+                           impulsive_start=sc.data["run"].get("start") == "impulsive")
     travelled = float(history["chords"][-1] - history["chords"][0]) if len(history["t"]) else 0.0
     summary.update(model=model.name, **model.summary(), chords_travelled=travelled)
     if error:
