@@ -268,3 +268,33 @@ def test_every_png_is_marked_as_written_by_unsteady(run, tmp_path):
     assert plots.written_by_unsteady(tmp_path / "h.png")
     (tmp_path / "other.png").write_bytes(b"\x89PNG\r\n\x1a\n not ours")
     assert not plots.written_by_unsteady(tmp_path / "other.png")
+
+
+def test_gust_loads_picture_shows_newtons_and_root_bending_with_the_dimensional_caution(tmp_path, captured):
+    # issue 15 item 1: lift in newtons (n m g) and the elliptic-loading root bending moment
+    # (Prandtl's lifting line: lift/2 at 4 s / (3 pi) from the root) drawn beside the load factor
+    from unsteady.core.cautions import DIMENSIONAL_CAUTION
+    sc = unsteady.load_scenario({
+        "title": "Gust test plate",
+        "flow": {"speed": 15.0, "density": 1.2},
+        "airfoil": {"shape": "flat", "chord": 0.25, "elements": 8},
+        "aircraft": {"mass": 3.0, "wing_area": 0.55, "span": 1.8},
+        "gust": {"profile": "one-minus-cosine", "amplitude": 1.0, "length": 2.0, "arrival": 0.02},
+        "run": {"chords": 8, "wake": "frozen"}})
+    res = unsteady.simulate(sc)
+    plots.plot_gust_loads(res, plots.Path("gust-loads.png"))
+    fig = captured["gust-loads.png"]
+    ys = [ln.get_ydata() for ln in _lines(fig) if len(ln.get_ydata()) == len(res.history["t"])]
+    assert any(np.allclose(y, res.history["lift_N"]) for y in ys)
+    assert any(np.allclose(y, res.history["root_bending_Nm"]) for y in ys)
+    labels = " ".join(ax.get_ylabel() for ax in fig.axes)
+    assert "lift (N)" in labels and "root bending moment (N m)" in labels
+    texts = " ".join(t.get_text().replace("\n", " ") for t in fig.texts)
+    assert DIMENSIONAL_CAUTION.split()[0] in texts and "inertia relief" in texts
+    # without newtons in the history the picture keeps its two panels and no dimensional caution
+    captured.clear()
+    del res.history["lift_N"], res.history["root_bending_Nm"]
+    plots.plot_gust_loads(res, plots.Path("gust-loads.png"))
+    fig = captured["gust-loads.png"]
+    assert len(fig.axes) == 2
+    assert "inertia relief" not in " ".join(t.get_text().replace("\n", " ") for t in fig.texts)

@@ -108,3 +108,36 @@ def test_extreme_ground_effect_is_measured_and_said():
     assert "ground.height" in _keys(res.summary["warnings"])
     sc, res = _run({**near, "ground": {"height": 0.05}})
     assert "warnings" not in res.summary
+
+
+def test_wake_inside_a_thick_outline_is_found_where_the_chord_band_misses_it():
+    # NACA 0012 outline from the 4-digit thickness formula (Abbott & von Doenhoff, Theory of
+    # Wing Sections, 1959, eq. 6.2): half-thickness 0.06 c near 30 % of the chord. A wake vortex
+    # 4 % of the chord above the chord line there is inside the section though outside the 2 %
+    # band used on a camber line; one 8 % above is outside both.
+    import math
+    from types import SimpleNamespace
+    import numpy as np
+    from unsteady.analysis.verdict import inside_outline, wake_through_airfoil
+    beta = np.linspace(0.0, math.pi, 60)
+    xc = 0.5 * (1.0 - np.cos(beta))
+    yt = 5 * 0.12 * (0.2969 * np.sqrt(xc) - 0.1260 * xc - 0.3516 * xc ** 2 + 0.2843 * xc ** 3
+                     - 0.1015 * xc ** 4)
+    xs = np.concatenate([xc[::-1], xc[1:]])          # lower trailing edge -> leading edge -> upper
+    zs = np.concatenate([-yt[::-1], yt[1:]])
+    sc = SimpleNamespace(chord=0.2, pivot=0.25)
+    c, p = sc.chord, sc.pivot
+
+    def snaps(zeta_over_c, thick):
+        d = {"t": np.array([0.1]), "offsets": np.array([0, 1]), "alpha": np.array([0.0]),
+             "h": np.array([0.0]), "x": np.array([(0.3 - p) * c]), "z": np.array([zeta_over_c * c])}
+        if thick:
+            d.update(x_surface=xs, z_surface=zs)
+        return d
+    assert wake_through_airfoil(snaps(0.04, thick=False), sc) is None
+    assert wake_through_airfoil(snaps(0.04, thick=True), sc) == 0.1
+    assert wake_through_airfoil(snaps(0.08, thick=True), sc) is None
+    assert wake_through_airfoil(snaps(-0.05, thick=True), sc) == 0.1
+    # the crossing rule itself: a unit square (worked by hand)
+    sq = (np.array([0.0, 1.0, 1.0, 0.0]), np.array([0.0, 0.0, 1.0, 1.0]))
+    assert list(inside_outline([0.5, 1.5, 0.5, -0.1], [0.5, 0.5, 1.2, 0.5], *sq)) == [True, False, False, False]

@@ -33,7 +33,8 @@ What is measured (limits marked common practice where no source is named):
    of the headline peaks).
 7. **The wake passes through the airfoil** (vortex model, free wake): a
    wake vortex of a snapshot lies on the chord (within 2 % of the chord of
-   it, between 2 % and 98 % of the chord), where the discrete vortices
+   it, between 2 % and 98 % of the chord), or for a thick section
+   (surface panels) inside its outline, where the discrete vortices
    induce unbounded velocities and the loads stop meaning anything.
    Leading-edge vortices are left out, and once the leading edge has shed
    the check is not made: in separated flow vortices travel along the
@@ -203,11 +204,14 @@ def measured_warnings(history, sc, summary, snapshots=None):
 
 
 def wake_through_airfoil(snapshots, sc):
-    """The first snapshot time (s) at which a wake vortex lies on the chord, else None.
+    """The first snapshot time (s) at which a wake vortex lies on the airfoil, else None.
 
     Wake positions are taken to body coordinates (the inverse of
-    :func:`unsteady.vortex.bodies.to_inertial`); a vortex counts when
-    |zeta| < WAKE_BAND c and xi lies between 2 % and 98 % of the chord.
+    :func:`unsteady.vortex.bodies.to_inertial`). On a camber line a vortex
+    counts when |zeta| < WAKE_BAND c and xi lies between 2 % and 98 % of
+    the chord; on a thick section (snapshots with ``x_surface``,
+    ``z_surface``, the panel mid-points in chord fractions) when it lies
+    inside the outline (:func:`inside_outline`), whatever the thickness.
     """
     t = np.asarray(snapshots.get("t", ()), dtype=float)
     off = np.asarray(snapshots.get("offsets", ()), dtype=np.int64)
@@ -216,6 +220,10 @@ def wake_through_airfoil(snapshots, sc):
     x, z = np.asarray(snapshots["x"], float), np.asarray(snapshots["z"], float)
     c, p = sc.chord, sc.pivot
     lo, hi = (0.02 - p) * c, (0.98 - p) * c
+    xs, zs = snapshots.get("x_surface"), snapshots.get("z_surface")
+    outline = None
+    if xs is not None and zs is not None and len(xs) > 2 and len(xs) == len(zs):
+        outline = ((np.asarray(xs, float) - p) * c, np.asarray(zs, float) * c)
     lev = snapshots.get("lev")
     lev = np.asarray(lev, bool) if lev is not None and len(lev) == len(snapshots["x"]) else None
     for k in range(t.size):
@@ -226,12 +234,29 @@ def wake_through_airfoil(snapshots, sc):
         dx, dz = x[a:b], z[a:b] - h
         xi = dx * math.cos(al) - dz * math.sin(al)
         zeta = dx * math.sin(al) + dz * math.cos(al)
-        inside = (np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)
+        if outline is not None:
+            inside = inside_outline(xi, zeta, *outline)
+        else:
+            inside = (np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)
         if lev is not None:
             inside &= ~lev[a:b]
         if np.any(inside):
             return float(t[k])
     return None
+
+
+def inside_outline(px, pz, xo, zo):
+    """True for each point (px, pz) inside the closed polygon (xo, zo) (the last point joins the
+    first): the even-odd crossing rule of a ray cast in +x (common practice in computational
+    geometry)."""
+    px, pz = np.asarray(px, float)[:, None], np.asarray(pz, float)[:, None]
+    x0, z0 = np.asarray(xo, float)[None, :], np.asarray(zo, float)[None, :]
+    x1, z1 = np.roll(x0, -1, axis=1), np.roll(z0, -1, axis=1)
+    spans = (z0 > pz) != (z1 > pz)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        xc = x0 + (pz - z0) * (x1 - x0) / (z1 - z0)
+    crossings = spans & (px < xc)
+    return (np.count_nonzero(crossings, axis=1) % 2) == 1
 
 
 def warning_lines(pairs, source):

@@ -39,6 +39,17 @@ LAWS: dict[str, type["Law"]] = {}
 #: Class decorator: add a :class:`Law` subclass to :data:`LAWS` under ``name``.
 register_law = registrar(LAWS, "motion law")
 
+#: Largest |time| (s) a law may name (start, time, a table's t): past an hour and more no run goes.
+TIME_LIMIT = 1.0e4
+#: Largest frequency (Hz) of a sine law: beyond the flapping and vibration of any flying wing.
+FREQUENCY_LIMIT = 1.0e3
+#: Largest reduced frequency k = omega c / (2 U) of a sine law; k of a few is already strongly
+#: unsteady, and k = 20 needs about 130 steps a chord of travel (common practice).
+REDUCED_FREQUENCY_LIMIT = 20.0
+#: Smallest smoothing time (s) of a rounded ramp (0 = sharp corners): below it the default step,
+#: a tenth of the smoothing, would ask for millions of steps.
+SMOOTHING_MIN = 1.0e-6
+
 
 @dataclass(frozen=True)
 class LawContext:
@@ -55,12 +66,17 @@ class LawContext:
         Chord c, m (for a reduced frequency).
     base_dir : pathlib.Path or None
         Folder that relative file paths are taken from.
+    limit : (float, str) or None
+        Largest magnitude of the moved quantity in its scenario unit, and
+        that unit (``(180, "deg")`` for pitch): the SCALED keys and a table's
+        values beyond it are refused by :func:`law_problems`.  None: not checked.
     """
 
     scale: float = 1.0
     speed: float | None = None
     chord: float | None = None
     base_dir: pathlib.Path | None = None
+    limit: tuple | None = None
 
 
 class Law:
@@ -101,6 +117,9 @@ class Law:
     OPTIONAL: dict = {}
     TEXT: tuple = ()
     SCALED: tuple = ()
+    #: key -> (lowest, highest, unit) of the plain numbers (not SCALED: those take the context's
+    #: limit), checked by the base before :meth:`check`; a key given as None is not checked.
+    BOUNDS: dict = {}
 
     def __init__(self, spec: Mapping, context: LawContext = LawContext()):
         self.spec = dict(spec)
@@ -187,6 +206,7 @@ class Step(Law):
 
     KEYS = ("value", "time")
     SCALED = ("value",)
+    BOUNDS = {"time": (-TIME_LIMIT, TIME_LIMIT, "s")}
 
     def singular_times(self):
         return [float(self.spec["time"])] if self.scaled["value"] != 0.0 else []
@@ -240,14 +260,19 @@ class Ramp(Law):
     KEYS = ("from", "to", "start", "duration")
     OPTIONAL = {"smoothing": 0.0}
     SCALED = ("from", "to")
+    BOUNDS = {"start": (-TIME_LIMIT, TIME_LIMIT, "s"), "duration": (None, TIME_LIMIT, "s"),
+              "smoothing": (None, TIME_LIMIT, "s")}
 
     @classmethod
     def check(cls, spec):
         if spec["duration"] <= 0:
-            raise InputError("duration", f"must be above 0 s, got {spec['duration']}")
+            raise InputError("duration", f"must be above 0 s (and at most {TIME_LIMIT:g} s), got {spec['duration']}")
         if spec["smoothing"] < 0:
             raise InputError("smoothing", f"must be 0 (sharp corners) or a positive time in seconds, "
                                           f"got {spec['smoothing']}")
+        if 0 < spec["smoothing"] < SMOOTHING_MIN:
+            raise InputError("smoothing", f"must be 0 (sharp corners) or from {SMOOTHING_MIN:g} to "
+                                          f"{TIME_LIMIT:g} s, got {spec['smoothing']:g}")
 
     def __init__(self, spec, context=LawContext()):
         super().__init__(spec, context)
@@ -298,6 +323,9 @@ class Sine(Law):
     KEYS = ("amplitude",)
     OPTIONAL = {"frequency": None, "reduced_frequency": None, "mean": 0.0, "phase": 0.0}
     SCALED = ("amplitude", "mean")
+    BOUNDS = {"frequency": (None, FREQUENCY_LIMIT, "Hz"),
+              "reduced_frequency": (None, REDUCED_FREQUENCY_LIMIT, "(k = omega c / (2 U))"),
+              "phase": (-360.0, 360.0, "deg")}
 
     @classmethod
     def check(cls, spec):
@@ -306,9 +334,9 @@ class Sine(Law):
             key = "frequency" if f is None else "reduced_frequency"
             raise InputError(key, "give exactly one of frequency (Hz) and reduced_frequency (k = omega c / (2 U))")
         if f is not None and f <= 0:
-            raise InputError("frequency", f"must be above 0 Hz, got {f}")
+            raise InputError("frequency", f"must be above 0 Hz (and at most {FREQUENCY_LIMIT:g} Hz), got {f}")
         if k is not None and k <= 0:
-            raise InputError("reduced_frequency", f"must be above 0, got {k}")
+            raise InputError("reduced_frequency", f"must be above 0 (and at most {REDUCED_FREQUENCY_LIMIT:g}), got {k}")
 
     def __init__(self, spec, context=LawContext()):
         super().__init__(spec, context)
@@ -493,9 +521,49 @@ def _one(spec, context, *, stop_early):
     full.update({key: spec.get(key, default) for key, default in cls.OPTIONAL.items()})
     try:
         cls.check(full)
-        return [], cls(full, context)
+        _bounded(cls, full, context)
+        law = cls(full, context)
+        if context.limit is not None and isinstance(law, Table):
+            _table_bounded(law, context)
+        return [], law
     except InputError as exc:
         return [exc], None
+
+
+def _range_text(lo, hi, unit):
+    u = f" {unit}" if unit else ""
+    if lo is None:
+        return f"at most {hi:g}{u}"
+    return f"from {lo:g} to {hi:g}{u}"
+
+
+def _bounded(cls, full, context):
+    """The base's range rules: each BOUNDS key within its range, each SCALED key within the
+    context's limit (when given); raises InputError with the range in the message."""
+    for key, (lo, hi, unit) in cls.BOUNDS.items():
+        v = full.get(key)
+        if v is None:
+            continue
+        if (lo is not None and v < lo) or v > hi:
+            raise InputError(key, f"must be {_range_text(lo, hi, unit)}, got {v:g}")
+    if context.limit is not None:
+        top, unit = context.limit
+        for key in cls.SCALED:
+            v = full.get(key)
+            if v is not None and abs(v) > top:
+                raise InputError(key, f"must be {_range_text(-top, top, unit)}, got {v:g}")
+
+
+def _table_bounded(law, context):
+    """A table's times within +-TIME_LIMIT and its values within the context's limit."""
+    top, unit = context.limit
+    if law.t_first < -TIME_LIMIT or law.t_last > TIME_LIMIT:
+        raise InputError("file", f"{law.path}: times must be {_range_text(-TIME_LIMIT, TIME_LIMIT, 's')}, "
+                                 f"got {law.t_first:g} to {law.t_last:g}")
+    q = np.abs(law._q) / (law.scale if law.scale else 1.0)
+    if q.size and float(np.max(q)) > top:
+        raise InputError("file", f"{law.path}: values must be {_range_text(-top, top, unit)}, "
+                                 f"got {float(np.max(q)):g} in magnitude")
 
 
 def _all(spec, context, *, stop_early):
@@ -553,16 +621,18 @@ def build_law(spec, *, scale=1.0, speed=None, chord=None, base_dir=None) -> Law:
     return law
 
 
-def law_problems(spec, *, speed=None, chord=None, base_dir=None) -> list[InputError]:
+def law_problems(spec, *, speed=None, chord=None, base_dir=None, limit=None) -> list[InputError]:
     """Every problem of a law table (or list of them), without raising.
 
     Same checks and keys as :func:`build_law`, collected: all key and type
     problems of each table, or else its first rule problem (and, for a table
     file or a reduced frequency, the problem of building it).  An empty list
-    means :func:`build_law` will succeed with the same arguments.
+    means :func:`build_law` will succeed with the same arguments.  ``limit``
+    = (largest magnitude, unit) of the moved quantity in its scenario unit
+    bounds the SCALED keys and a table's values too.
     """
     context = LawContext(scale=1.0, speed=speed, chord=chord,
-                         base_dir=None if base_dir is None else pathlib.Path(base_dir))
+                         base_dir=None if base_dir is None else pathlib.Path(base_dir), limit=limit)
     problems, _ = _all(spec, context, stop_early=False)
     return problems
 

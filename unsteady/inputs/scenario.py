@@ -42,6 +42,13 @@ STEPS_PER_SMOOTHING = 32
 SPEED_RANGE = (0.01, 340.0)       # m/s
 DENSITY_RANGE = (0.01, 2.0)       # kg/m^3
 CHORD_RANGE = (1e-3, 20.0)        # m
+PITCH_LIMIT_DEG = 180.0           # |pitch| of a motion law: a half turn either way
+PLUNGE_LIMIT_CHORDS = 100.0       # |plunge| of a motion law, chords
+RUN_DURATION_LIMIT = 3600.0       # s: an hour of flight
+RUN_CHORDS_LIMIT = 1.0e5          # chord lengths travelled
+DT_RANGE = (1e-7, 10.0)           # s
+FAR_WAKE_LIMIT = 1000.0           # chords
+CORE_RADIUS_LIMIT = 0.5           # chords: a vortex core no wider than the section
 
 
 def memory_estimate(steps, elements):
@@ -461,13 +468,17 @@ def resolve(raw, base_dir, stem="scenario"):
     motion = {"pivot": grab(number, "motion.pivot", mo.get("pivot", 0.25), ge=-0.5, le=1.5,
                             unit="(fraction of chord aft of the leading edge)")}
     from .motion import law_problems
+    n_before_motion = len(errors)
     for q in ("pitch", "plunge", "flap"):
         if q in mo:
             spec = mo[q]
             if not isinstance(spec, (dict, list)):
                 errors.append(InputError(f"motion.{q}", "must be a law table like { law = \"sine\", ... } or a list of them"))
                 continue
-            for e in law_problems(spec, speed=speed, chord=chord, base_dir=base_dir):
+            limit = {"pitch": (PITCH_LIMIT_DEG, "deg"),
+                     "plunge": (PLUNGE_LIMIT_CHORDS * chord, f"m ({PLUNGE_LIMIT_CHORDS:g} chords)")
+                     if chord else None}.get(q)          # the flap has its own limit (inputs/flap.py)
+            for e in law_problems(spec, speed=speed, chord=chord, base_dir=base_dir, limit=limit):
                 k = e.key if e.key.startswith("[") else "." + e.key
                 errors.append(InputError(f"motion.{q}{k}", e.message))
             motion[q] = spec
@@ -476,6 +487,7 @@ def resolve(raw, base_dir, stem="scenario"):
                                                 f"{FLAP_HINGE_RANGE[0]:g} to {FLAP_HINGE_RANGE[1]:g}) or remove "
                                                 "motion.flap"))
     out["motion"] = motion
+    motion_errors = errors[n_before_motion:]      # a refused law gives no default step
 
     # [run]
     ru = raw.get("run", {})
@@ -486,16 +498,16 @@ def resolve(raw, base_dir, stem="scenario"):
     if ("duration" in ru) == ("chords" in ru):
         errors.append(InputError("run.duration", "give exactly one of run.duration (s) or run.chords (chord lengths travelled)"))
     elif "duration" in ru:
-        run["duration"] = grab(number, "run.duration", ru["duration"], gt=0.0, unit="s")
+        run["duration"] = grab(number, "run.duration", ru["duration"], gt=0.0, le=RUN_DURATION_LIMIT, unit="s")
     else:
-        ch = grab(number, "run.chords", ru["chords"], gt=0.0)
+        ch = grab(number, "run.chords", ru["chords"], gt=0.0, le=RUN_CHORDS_LIMIT)
         if ch is not None:
             run["chords"] = ch
             if speed and chord:
                 run["duration"] = ch * chord / speed
     if "dt" in ru:
-        run["dt"] = grab(number, "run.dt", ru["dt"], gt=0.0, unit="s")
-    elif speed and chord and step_elements:
+        run["dt"] = grab(number, "run.dt", ru["dt"], ge=DT_RANGE[0], le=DT_RANGE[1], unit="s")
+    elif speed and chord and step_elements and len(motion_errors) == 0:
         f_max = max(fastest_frequency(mo.get(q), speed, chord) for q in ("pitch", "plunge", "flap"))
         sigma = min((x for x in (shortest_smoothing(mo.get(q)) for q in ("pitch", "plunge", "flap"))
                      if x > 0.0), default=0.0)
@@ -509,11 +521,14 @@ def resolve(raw, base_dir, stem="scenario"):
                                  "airfoil.lesp_critical or run the vortex model"))
     run["shed_offset"] = grab(number, "run.shed_offset", ru.get("shed_offset", 0.3), ge=0.05, le=1.0)
     if "core_radius" in ru:
-        run["core_radius"] = grab(number, "run.core_radius", ru["core_radius"], gt=0.0, unit="m")
+        run["core_radius"] = grab(number, "run.core_radius", ru["core_radius"], gt=0.0,
+                                  le=CORE_RADIUS_LIMIT * chord if chord else None,
+                                  unit=f"m (at most {CORE_RADIUS_LIMIT:g} chord)")
     # Beyond far_wake chords the wake is merged chord by chord into lumps that
     # drift with the air (solver.VortexSolver): in 10 s of turbulence, 20-40
     # chords changed the peak load factor by about 1e-5 (tools/bench_gusts.py)
     run["far_wake"] = grab(number, "run.far_wake", ru.get("far_wake", DEFAULT_FAR_WAKE), gt=1.0,
+                           le=FAR_WAKE_LIMIT,
                            unit="chords (distance behind the airfoil beyond which the wake is merged)")
     if run.get("duration") and run.get("dt"):
         steps = run["duration"] / run["dt"]

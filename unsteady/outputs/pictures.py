@@ -21,7 +21,7 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Rectangle
 
 from ..analysis.lag import ALPHA_EFF_LIMIT_DEG
-from ..core.cautions import GUST_CAUTION, PICTURE_CAUTION, PICTURE_SHEDDING_CAUTION
+from ..core.cautions import DIMENSIONAL_CAUTION, GUST_CAUTION, PICTURE_CAUTION, PICTURE_SHEDDING_CAUTION
 from ..core.files import atomic_path
 from ..core.version import __version__
 from .notices import run_warnings
@@ -689,14 +689,19 @@ def plot_lag(result, path):
 
 @picture("gust-loads.png")
 def plot_gust_loads(result, path):
-    """gust-loads.png: gust at the leading edge and load factor, with the peak, the gust-formula
-    estimate and the full gust-load caution (written only for runs with ``n``)."""
+    """gust-loads.png: gust at the leading edge, load factor (with the peak and the gust-formula
+    estimate) and, where the history has ``lift_N``, the aircraft's lift in newtons with the
+    half-wing root bending moment (``root_bending_Nm``, with ``[aircraft] span``) on a second
+    axis; the full gust-load caution and, beside the newtons, the dimensional-load caution
+    (written only for runs with ``n``)."""
     h, s = result.history, result.summary
     if "n" not in h or not len(h["n"]):
         return False
-    fig = new_figure(8, 5.4)
-    ax1 = house_style(fig.add_subplot(2, 1, 1))
-    ax2 = house_style(fig.add_subplot(2, 1, 2, sharex=ax1))
+    dimensional = "lift_N" in h and len(h["lift_N"]) == len(h["t"])
+    rows = 3 if dimensional else 2
+    fig = new_figure(8, 7.4 if dimensional else 5.4)
+    ax1 = house_style(fig.add_subplot(rows, 1, 1))
+    ax2 = house_style(fig.add_subplot(rows, 1, 2, sharex=ax1))
     t = h["t"]
     if "w_gust" in h:
         ax1.plot(t, h["w_gust"], color=LOOK["trace"], lw=1.2, label="vertical gust w")
@@ -713,7 +718,39 @@ def plot_gust_loads(result, path):
         ax2.axhline(1.0 + s["dn_formula"], color=LOOK["second"], lw=0.9, ls="--",
                     label=f"gust formula 1 + {s['dn_formula']:.3f} (mu_g = {s['mass_ratio_mu_g']:.1f})")
     ax2.set_ylabel("load factor n", fontsize=8)
-    ax2.set_xlabel("time t (s)", fontsize=9)
+    notes = _warning_notes(result)
+    caution = GUST_CAUTION
+    if dimensional:
+        ax3 = house_style(fig.add_subplot(rows, 1, 3, sharex=ax1))
+        ax3.plot(t, h["lift_N"], color=LOOK["trace"], lw=1.4, label="lift of the aircraft (N)")
+        if "lift_max_N" in s:
+            i = int(np.nanargmax(h["lift_N"]))
+            ax3.plot([t[i]], [s["lift_max_N"]], "o", color=LOOK["second"], ms=4,
+                     label=f"peak lift {s['lift_max_N']:.4g} N")
+        ax3.set_ylabel("lift (N)", fontsize=8)
+        handles, labels = ax3.get_legend_handles_labels()
+        if "root_bending_Nm" in h:
+            ax4 = ax3.twinx()
+            ax4.plot(t, h["root_bending_Nm"], color=LOOK["ccw"], lw=1.0, ls="--",
+                     label="root bending, one half-wing (N m)")
+            lo, hi = ax3.get_ylim()
+            factor = float(np.nanmax(h["root_bending_Nm"]) / np.nanmax(h["lift_N"])) \
+                if np.nanmax(h["lift_N"]) > 0 else 1.0
+            ax4.set_ylim(lo * factor, hi * factor)    # the same curve scaled: elliptic loading
+            ax4.set_ylabel("root bending moment (N m)", fontsize=8, color=LOOK["ccw"])
+            ax4.tick_params(labelsize=7, colors=LOOK["ccw"])
+            for k, sp in ax4.spines.items():
+                sp.set_color(LOOK["rule"])
+                sp.set_visible(k == "right")
+            if "root_bending_max_Nm" in s:
+                handles.append(Line2D([], [], color=LOOK["ccw"], lw=1.0, ls="--"))
+                labels.append(f"root bending, one half-wing (peak {s['root_bending_max_Nm']:.4g} N m)")
+        ax3.legend(handles, labels, fontsize=7, frameon=False, loc="best")
+        ax3.set_xlabel("time t (s)", fontsize=9)
+        notes = [f"newtons: {DIMENSIONAL_CAUTION}"] + notes
+    else:
+        ax2.set_xlabel("time t (s)", fontsize=9)
     house_legend(ax2)
-    return finish_figure(fig, path, _title(result, "gust loads"), _warning_notes(result), caution=GUST_CAUTION,
-                         left=0.8, bottom=0.6, gap=0.18, rows=2)
+    return finish_figure(fig, path, _title(result, "gust loads"), notes, caution=caution,
+                         left=0.8, right=0.8 if dimensional else 0.3, bottom=0.6,
+                         gap=0.32 if dimensional else 0.18, rows=rows)
