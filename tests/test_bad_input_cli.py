@@ -324,7 +324,7 @@ CASES = [
          {"run.chords": DEL, "run.duration": 1e300}),
     Case("chords-many", "run.chords", "must be > 0 and <= 100000", {"run.chords": 1e300}),
     Case("core-radius-wide", "run.core_radius", "<= 0.1 m (at most 0.5 chord)", {"run.core_radius": 1e3}),
-    Case("far-wake-far", "run.far_wake", "must be > 1 and <= 1000", {"run.far_wake": 1e300}),
+    Case("far-wake-far", "run.far_wake", "must be > 1 and <= 100000", {"run.far_wake": 1e300}),
     Case("wake", "run.wake", "must be one of 'free', 'frozen'", {"run.wake": "rolling"}),
     Case("start", "run.start", "must be one of 'steady', 'impulsive'", {"run.start": "sudden"}),
     Case("model", "run.model", "must be one of 'vortex'", {"run.model": "panel"}),

@@ -31,7 +31,7 @@ def one_cosine(steps=2000, far_wake=None):
          "gust": {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 6.25, "arrival": 0.05},
          "run": {"chords": steps / 20.0, "wake": "free"},
          "output": {"plots": False}}
-    d["run"]["far_wake"] = 1e9 if far_wake is None else far_wake   # None: whole wake free
+    d["run"]["far_wake"] = 1e5 if far_wake is None else far_wake   # None: whole wake free (the largest run.far_wake)
     return unsteady.load_scenario(d)
 
 
@@ -41,7 +41,7 @@ def turbulence(duration, far_wake="scenario"):
     if far_wake != "scenario":
         data = dict(sc.raw)
         run = dict(data["run"], duration=duration)
-        run["far_wake"] = 1e9 if far_wake is None else far_wake   # None: whole wake free
+        run["far_wake"] = 1e5 if far_wake is None else far_wake   # None: whole wake free (the largest run.far_wake)
         data["run"] = run
         sc = unsteady.load_scenario(data, base_dir=sc.base_dir)
     return sc

@@ -47,7 +47,7 @@ PLUNGE_LIMIT_CHORDS = 100.0       # |plunge| of a motion law, chords
 RUN_DURATION_LIMIT = 3600.0       # s: an hour of flight
 RUN_CHORDS_LIMIT = 1.0e5          # chord lengths travelled
 DT_RANGE = (1e-7, 10.0)           # s
-FAR_WAKE_LIMIT = 1000.0           # chords
+FAR_WAKE_LIMIT = RUN_CHORDS_LIMIT  # chords: as far as the longest run flies (nothing merged)
 CORE_RADIUS_LIMIT = 0.5           # chords: a vortex core no wider than the section
 
 
