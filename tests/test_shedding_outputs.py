@@ -72,6 +72,9 @@ def test_verdict_suggests_lesp_critical_without_it(attached):
     assert len(lines) == 1
     assert lines[0].startswith("warning: <dict>: motion.pitch: ")
     assert "airfoil.lesp_critical" in lines[0] and f"{LESP_TYPICAL:g}" in lines[0]
+    # it says when |LESP| first passed the typical value: where a shedding run would start
+    t_first = float(res.history["t"][np.flatnonzero(np.abs(res.history["lesp"]) > LESP_TYPICAL)[0]])
+    assert f"first past it at t = {t_first:.4g} s" in lines[0]
     # the attached-flow limits still speak in an attached run
     assert any("reduced pitch rate" in w for w in res.summary["warnings"])
 

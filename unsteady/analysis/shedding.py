@@ -74,13 +74,18 @@ def shedding_summary(history, sc):
 
 
 def lesp_warning(history, sc):
-    """``(message, t)`` when a run without ``lesp_critical`` passes :data:`LESP_TYPICAL`, else None."""
+    """The warning line when a run without ``lesp_critical`` passes :data:`LESP_TYPICAL`, else None;
+    it names when |LESP| first passed that value (where a shedding run would start to shed)."""
     if critical_value(sc) is not None or "lesp" not in history:
         return None
     s = shedding_summary(history, sc)
     if s.get("lesp_max", 0.0) <= LESP_TYPICAL:
         return None
+    a = np.abs(np.asarray(history["lesp"], dtype=float))
+    first = np.flatnonzero(np.isfinite(a) & (a > LESP_TYPICAL))
+    passed = (f"; first past it at t = {float(np.asarray(history['t'])[first[0]]):.4g} s"
+              if first.size else "")
     return (f"the leading-edge suction parameter |LESP| reached {s['lesp_max']:.3g} at "
             f"t = {s['t_lesp_max']:.4g} s, beyond the about {LESP_TYPICAL:g} at which thin sections "
-            f"typically shed a leading-edge vortex (Ramesh et al. 2014, from memory): the flow would "
+            f"typically shed a leading-edge vortex (Ramesh et al. 2014, from memory{passed}): the flow would "
             f"separate at the leading edge; set airfoil.lesp_critical to let the vortex model shed there")
