@@ -31,7 +31,39 @@ def _deflect(xi, zeta, xi_h, zeta_h, beta):
     return x + xi_h, z + zeta_h
 
 
-class HingedFlapCamber:
+class HeldDeflection:
+    """The deflection rules shared by the flap bodies (camber line and surface panels).
+
+    A subclass sets ``law`` (beta(t), rad, with its exact rate), ``_beta_points``
+    (the deflection its points were built at, or None) and ``_beta_matrix``
+    (the one of the last factorization, or None), and ``_set(beta)``.
+    """
+
+    def deflection(self, t):
+        """beta(t), rad (trailing edge down): the law's value."""
+        return float(self.law.value(t))
+
+    def flap_rate(self, t):
+        """beta'(t), rad/s."""
+        return float(self.law.rate(t))
+
+    def _held(self, t):
+        """The deflection the points use: beta(t), or the one in use while they differ by under BETA_TOL."""
+        beta = self.deflection(t)
+        if self._beta_points is not None and abs(beta - self._beta_points) <= BETA_TOL:
+            return self._beta_points
+        return beta
+
+    def changed(self, t):
+        """True (once) when beta(t) differs from the deflection of the last factorization."""
+        beta = self._held(t)
+        if beta == self._beta_matrix:
+            return False
+        self._beta_matrix = beta
+        return True
+
+
+class HingedFlapCamber(HeldDeflection):
     """A camber line with a plain flap hinged at a node (the body rules of the solver).
 
     The elements from node ``k`` (the hinge) to the trailing edge rotate
@@ -69,17 +101,6 @@ class HingedFlapCamber:
     def n(self) -> int:
         return self.base.n
 
-    def deflection(self, t):
-        """beta(t), rad (trailing edge down): the law's value."""
-        return float(self.law.value(t))
-
-    def _held(self, t):
-        """The deflection the points use: beta(t), or the one in use while they differ by under BETA_TOL."""
-        beta = self.deflection(t)
-        if self._beta_points is not None and abs(beta - self._beta_points) <= BETA_TOL:
-            return self._beta_points
-        return beta
-
     def _set(self, beta):
         if beta == self._beta_points:
             return
@@ -114,14 +135,6 @@ class HingedFlapCamber:
         """Vortex points, collocation points and collocation normals at time ``t`` (deflected)."""
         self._set(self._held(t))
         return self._points
-
-    def changed(self, t):
-        """True (once) when beta(t) differs from the deflection of the last factorization."""
-        beta = self._held(t)
-        if beta == self._beta_matrix:
-            return False
-        self._beta_matrix = beta
-        return True
 
     def trailing_edge(self, t):
         """The deflected trailing edge (xi, zeta) in the body frame."""

@@ -39,13 +39,13 @@ import math
 import numpy as np
 
 from ..inputs.thick import flap_outline, turn_nodes
-from .flap import BETA_TOL
+from .flap import HeldDeflection
 from .panels import SurfaceGeometry, SurfacePanels
 
 __all__ = ["HingedFlapPanels", "build_flap_surface"]
 
 
-class HingedFlapPanels:
+class HingedFlapPanels(HeldDeflection):
     """Surface panels with a plain flap hinged at chord fraction ``hinge`` (the body rules of the solver).
 
     Parameters
@@ -82,12 +82,6 @@ class HingedFlapPanels:
         self._set(float(law.value(0.0)))
 
     # -- shape ---------------------------------------------------------
-    def _held(self, t):
-        beta = float(self.law.value(t))
-        if self._beta_points is not None and abs(beta - self._beta_points) <= BETA_TOL:
-            return self._beta_points
-        return beta
-
     def _set(self, beta):
         if beta == self._beta_points:
             return
@@ -128,25 +122,9 @@ class HingedFlapPanels:
 
     leading_edge_suction = False
 
-    def deflection(self, t):
-        """beta(t), rad (trailing edge down)."""
-        return float(self.law.value(t))
-
-    def flap_rate(self, t):
-        """beta'(t), rad/s."""
-        return float(self.law.rate(t))
-
     def points(self, t):
         self._set(self._held(t))
         return self.panels.points(t)
-
-    def changed(self, t):
-        """True (once) when beta(t) differs from the deflection of the last factorization."""
-        beta = self._held(t)
-        if beta == self._beta_matrix:
-            return False
-        self._beta_matrix = beta
-        return True
 
     def trailing_edge(self, t):
         self._set(self._held(t))
