@@ -11,11 +11,13 @@ __all__ = ["check_ground_section", "lowest_below_axis"]
 
 
 def lowest_below_axis(ctx):
-    """Depth (m) of the camber line's (with ``thick``: the lower surface's) lowest point below its pitch axis
-    at t = 0 (pitch and flap at t = 0),
-    or None when the section or a law cannot be built (their own checks report why)."""
+    """Depth (m) of the lowest point below the pitch axis at t = 0 (pitch and flap at t = 0) of the camber
+    line (with ``thick``: the lower surface) and of every further element of ``[[airfoil]]`` (placed by
+    :func:`unsteady.inputs.elements.placed_nodes`), or None when a section or a law cannot be built
+    (their own checks report why)."""
     import numpy as np
 
+    from .elements import placed_nodes
     from .motion import build_law
     from .sections import section_from_shape
     af, mo = ctx.get("airfoil", {}), ctx.get("motion", {})
@@ -43,6 +45,13 @@ def lowest_below_axis(ctx):
         x[aft] = xh + dx * math.cos(beta) + dz * math.sin(beta)
         z[aft] = zh - dx * math.sin(beta) + dz * math.cos(beta)
     xi, zeta = (x - pivot) * chord, z * chord
+    for el in af.get("_more") or ():           # further elements, in the first's chord axes
+        try:
+            xe, ze = placed_nodes(section_from_shape(el["shape"], ctx.get("_base_dir")), 400, el["chord"],
+                                  el["incidence"], el["position"])
+        except (InputError, ValueError, KeyError, TypeError):
+            return None
+        xi, zeta = np.append(xi, xe - pivot * chord), np.append(zeta, ze)
     zz = -xi * math.sin(alpha) + zeta * math.cos(alpha)
     return float(-zz.min())
 
@@ -67,13 +76,12 @@ def check_ground_section(value, ctx):
         errors.append(InputError("ground", "is computed by the vortex model only (the images of its vortices); "
                                            "the linear model has no ground effect: set run.model = \"vortex\" "
                                            "or remove [ground]"))
-    if ctx.get("airfoil", {}).get("_more"):
-        errors.append(InputError("ground", "with several elements ([[airfoil]]) is not supported by this "
-                                           "version: give one [airfoil] table or remove [ground]"))
     depth = lowest_below_axis(ctx)
     if depth is not None and out["height"] <= depth:
-        part = "lower surface" if ctx.get("airfoil", {}).get("thick") else "camber line"
-        errors.append(InputError("ground.height", f"is {out['height']:g} m, but the {part}'s lowest point is "
-                                                  f"{depth:.4g} m below its pitch axis at t = 0: the airfoil "
-                                                  f"would start in the ground; give more than {depth:.4g} m"))
+        af = ctx.get("airfoil", {})
+        part = ("the elements' lowest point" if af.get("_more") else
+                f"the {'lower surface' if af.get('thick') else 'camber line'}'s lowest point")
+        errors.append(InputError("ground.height", f"is {out['height']:g} m, but {part} is {depth:.4g} m below "
+                                                  f"the pitch axis at t = 0: the airfoil would start in the "
+                                                  f"ground; give more than {depth:.4g} m"))
     return out, errors

@@ -322,7 +322,8 @@ class VortexModel(Model):
 
         gust = self.gust if self.gust is not None and self.gust.present_at_start else None
         VortexSolver(self._elements(tail_turn), _Fixed(alpha, 0.0), speed=sc.speed, density=sc.density,
-                     dt=sc.dt, steps=0, start="steady", gust=gust).run([_Last()])
+                     dt=sc.dt, steps=0, start="steady", gust=gust,
+                     ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([_Last()])
         return rows[-1]["cl"], rows[-1]["cm_pivot"]
 
     def _elements(self, tail_turn):
