@@ -103,3 +103,24 @@ def test_the_tail_touching_the_ground_stops_the_run_with_the_step_named():
     zeta = TAIL["position"][1] - TAIL["chord"] * math.sin(math.radians(TAIL["incidence"]))
     assert res.history["ground_clearance_m"][-1] == pytest.approx(
         0.15 + (-xi * math.sin(a) + zeta * math.cos(a)), abs=1e-9)
+
+
+def test_pitch_freedom_trims_over_the_ground_with_the_ground_in_the_flow():
+    # Trim (common practice: lift = weight, zero moment about the centre of gravity) solved on the
+    # flow with the ground's images: level flight from the first row, and the ground's extra lift
+    # (the lumped-vortex result Gamma_g / Gamma_inf = (1/4 + 4 (h/c)^2) / (4 (h/c)^2) > 1, Katz &
+    # Plotkin 2001, see test_ground_classical.py) lowers the trimmed attitude below free air's.
+    def case(ground):
+        r = {"flow": {"speed": 15.0, "density": 1.2},
+             "airfoil": [{"shape": "naca2412", "thick": False, "chord": 0.25, "elements": 16},
+                         {"shape": "flat", "chord": 0.12, "elements": 8, "position": [0.9, 0.05],
+                          "incidence": -2.0}],
+             "aircraft": {"mass": 3.0, "wing_area": 0.55, "pitch_inertia": 0.15, "cg": 0.3},
+             "run": {"chords": 2}, "output": {"dir": "/tmp/never-written", "plots": False}}
+        if ground is not None:
+            r["ground"] = {"height": ground}
+        return simulate(load_scenario(r))
+    low, free = case(0.12), case(None)
+    h = low.history
+    assert abs(h["n"][0] - 1.0) < 1e-8 and abs(h["cm_pivot"][0]) < 1e-8
+    assert low.summary["alpha_trim_deg"] < free.summary["alpha_trim_deg"] - 0.1
