@@ -199,6 +199,9 @@ def test_touching_the_ground_stops_the_run_with_the_step_and_time(tmp_path, caps
     n = len(res.history["t"])
     assert 0 < n < load_scenario(d).steps + 1
     assert res.history["ground_clearance_m"][-1] > 0.0
+    # held steady at the run's lowest heights the plate would be in the ground: no quasi-steady lift, said so
+    assert not np.isfinite(res.history["cl_quasi_steady"]).any()
+    assert "touch the ground" in res.summary["lag"]["note"] and "t90" not in res.summary["lag"]
     # through the command line: exit 1, the message, the steps computed kept
     import tomli_w
     path = tmp_path / "flare.toml"

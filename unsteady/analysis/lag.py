@@ -57,24 +57,32 @@ def effective_alpha(history, sc, gust=None):
     return effective_angle_history(history, sc.speed, sc.chord, sc.pivot, gust if sc.data.get("gust") else None)
 
 
-def add_quasi_steady(history, sc, gust=None):
+def add_quasi_steady(history, sc, gust=None, steady=None):
     """Add the columns ``alpha_eff_deg`` and ``cl_quasi_steady`` to a history (in place).
 
     cl_qs = 2 pi (alpha_eff - alpha_L0): the steady thin-airfoil lift at the
     instantaneous effective angle (Abbott & von Doenhoff, Theory of Wing
     Sections, 1959, ch. 4), alpha_L0 the section's zero-lift angle; with a
     flap, plus Glauert's steady flap lift dcl/dbeta beta (H. Glauert, 1926;
-    :func:`unsteady.theory.flap.glauert_flap`).
+    :func:`unsteady.theory.flap.glauert_flap`).  Where the run model gives
+    its own steady lift (``steady(alpha_eff, height) -> array``, rule 7 of
+    :class:`unsteady.simulation.models.Model`: a thick section, several
+    elements, a ground) that replaces 2 pi (alpha_eff - alpha_L0); its flap
+    sits at its deflection at t = 0, so Glauert's term adds the change since.
     """
     from ..linear.model import section_constants
     alpha_L0, _cm0 = section_constants(sc.section)
     ae = effective_alpha(history, sc, gust)
     history["alpha_eff_deg"] = np.degrees(ae)
-    history["cl_quasi_steady"] = 2.0 * np.pi * (ae - alpha_L0)
+    own = steady(ae, history["height_m"]) if steady is not None else None
+    history["cl_quasi_steady"] = 2.0 * np.pi * (ae - alpha_L0) if own is None else own
     if "flap_hinge" in sc.data["airfoil"] and "flap_deg" in history:
         from ..theory.flap import glauert_flap
         dcl, _dcm = glauert_flap(sc.data["airfoil"]["flap_hinge"])
-        history["cl_quasi_steady"] = history["cl_quasi_steady"] + dcl * np.radians(history["flap_deg"])
+        beta = np.radians(history["flap_deg"])
+        if own is not None and len(beta):
+            beta = beta - beta[0]
+        history["cl_quasi_steady"] = history["cl_quasi_steady"] + dcl * beta
     return history
 
 
@@ -214,6 +222,10 @@ def lag_summary(history, sc):
             "parameter), but trailing-edge stall and viscous effects are not modelled"]
     kind, par = _motion_kind(sc)
     out["motion"] = kind or "other"
+    if len(t) and not np.isfinite(qs).any():
+        out["note"] = ("no quasi-steady lift: at the run's effective angles and heights the body held "
+                       "steady would touch the ground, so the lag metrics are left out")
+        return out
     if kind == "transient" and len(t) > 1:
         t_begin, lead = par
         # the last sample before the change (a step's value at its own time is the new one)

@@ -118,6 +118,12 @@ class Model:
     6. ``summary() -> dict`` gives the model's own summary keys (time step,
        start, wake options); ``snapshot_extras() -> dict`` what it adds to
        ``Result.snapshots`` (default: nothing).
+    7. ``quasi_steady_cl(alpha_eff, height) -> array or None`` (optional):
+       the model's own steady lift at the effective angles ``alpha_eff``
+       (rad) with the pitch axis at heights ``height`` (m), for a body whose
+       steady lift thin-airfoil theory does not give (thick, several
+       elements, a ground); None (the default) keeps 2 pi (alpha_eff -
+       alpha_L0) (:func:`unsteady.analysis.lag.add_quasi_steady`).
 
     What the base class and the runner own, for every model: ``on_start(model)``
     before the march and ``on_end(model)`` after it, also when it diverges
@@ -150,6 +156,10 @@ class Model:
 
     def _march(self, observers):
         raise NotImplementedError
+
+    def quasi_steady_cl(self, alpha_eff, height):
+        """The model's own quasi-steady lift (rule 7); None: thin-airfoil theory's."""
+        return None
 
     def summary(self):
         """The model's own summary keys (rule 6)."""
@@ -309,6 +319,70 @@ class VortexModel(Model):
                      dt=sc.dt, steps=0, start="steady", gust=gust,
                      ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([obs])
         return obs.cl
+
+    def quasi_steady_cl(self, alpha_eff, height):
+        """Steady lift of this body at the effective angles ``alpha_eff`` (rad), rows of a history (rule 7).
+
+        For a thick section, several elements or a ground, where 2 pi (alpha_eff - alpha_L0) of
+        thin-airfoil theory is not this body's steady lift (a 12 % section's slope is about 9 %
+        higher; a tail adds its lift and its downwash; the ground raises the lift as it nears): the
+        settled lift of the model's own steady start (:meth:`steady_cl` without the gust, a flap at
+        its deflection at t = 0) at Chebyshev nodes over the run's range of angles (and of the pitch
+        axis's height over a ground), between them a Chebyshev polynomial in the angle (and in
+        1 / clearance), whose error is far below the model's own (the steady lift is smooth in
+        both; common practice of table interpolation).  None for a single camber line in free air;
+        NaN throughout where a steady solve over the ground at one of the nodes would put the body in
+        it (no steady state exists there; :func:`unsteady.analysis.lag.lag_summary` says so).
+        """
+        import numpy.polynomial.chebyshev as cheb
+        if not (self.thick or isinstance(self.body, list) or self.ground is not None):
+            return None
+        a = np.asarray(alpha_eff, float)
+        ok = np.isfinite(a)
+        if not ok.any():
+            return None
+        lo, hi = float(a[ok].min()), float(a[ok].max())
+        n_a = 7 if hi - lo > 1e-9 else 1
+        a_nodes = 0.5 * (lo + hi) + 0.5 * (hi - lo) * np.cos(np.pi * (np.arange(n_a) + 0.5) / n_a)
+
+        def steady(alpha, ground):
+            obs = _LastCl()
+            VortexSolver(self.body, _Fixed(float(alpha), 0.0), speed=self.sc.speed, density=self.sc.density,
+                         dt=self.sc.dt, steps=0, start="steady", ground=ground).run([obs])
+            return obs.cl
+
+        def fit_in_alpha(values):
+            if n_a == 1:
+                return lambda x: np.full_like(x, values[0])
+            x = (2.0 * a_nodes - lo - hi) / (hi - lo)
+            coef = cheb.chebfit(x, values, n_a - 1)
+            return lambda y: cheb.chebval((2.0 * y - lo - hi) / (hi - lo), coef)
+
+        out = np.full(a.shape, np.nan)
+        if self.ground is None:
+            out[ok] = fit_in_alpha([steady(x, None) for x in a_nodes])(a[ok])
+            return out
+        # over the ground: the axis's clearance g = h - z_ground; nodes in 1 / g, where the lift is smoothest
+        g = np.asarray(height, float) - self.ground.z
+        ok &= np.isfinite(g) & (g > 0)
+        inv = 1.0 / g[ok]
+        i_lo, i_hi = float(inv.min()), float(inv.max())
+        n_g = 7 if i_hi - i_lo > 1e-9 * i_hi else 1
+        i_nodes = 0.5 * (i_lo + i_hi) + 0.5 * (i_hi - i_lo) * np.cos(np.pi * (np.arange(n_g) + 0.5) / n_g)
+        from ..vortex.solver import GroundContact
+        try:
+            rows = np.array([[steady(x, Ground(-1.0 / q)) for x in a_nodes] for q in i_nodes])   # (n_g, n_a)
+        except GroundContact:
+            return out
+        by_alpha = np.array([fit_in_alpha(r)(a[ok]) for r in rows])                        # (n_g, m)
+        if n_g == 1:
+            out[ok] = by_alpha[0]
+            return out
+        xg = (2.0 * i_nodes - i_lo - i_hi) / (i_hi - i_lo)
+        coef = cheb.chebfit(xg, by_alpha, n_g - 1)                                         # (n_g, m)
+        basis = cheb.chebvander((2.0 * inv - i_lo - i_hi) / (i_hi - i_lo), n_g - 1)        # (m, n_g)
+        out[ok] = np.einsum("mk,km->m", basis, coef)
+        return out
 
     def steady_loads(self, alpha, tail_turn):
         """(cl, cm about the pitch axis) of the solver's steady start at attitude alpha (rad) with the

@@ -122,7 +122,7 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
     summary = _summarise(model, history, builtin, rec.count - 1, time.perf_counter() - t_wall, error)
     snapshots = snaps.arrays()
     snapshots.update(model.snapshot_extras())
-    add_quasi_steady(history, sc, gust)           # quasi-steady column, lag metrics, validity flag
+    add_quasi_steady(history, sc, gust, steady=model.quasi_steady_cl)   # quasi-steady column, lag, validity
     summary["lag"] = lag_summary(history, sc)
     lines = list(sc.warnings) + list(summary.get("warnings", []))
     lines += warning_lines(measured_warnings(history, sc, summary, snapshots), sc.source)
