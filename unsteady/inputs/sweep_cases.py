@@ -163,8 +163,15 @@ def possible_numbers(case_sc):
     from .gusts import gust_list
     d = case_sc.data
     out = list(ALWAYS_NUMBERS)
-    if d.get("airfoil", {}).get("lesp_critical") is not None:
+    from .elements import lesp_criticals
+    crits = lesp_criticals(d.get("airfoil", {}))
+    if len(crits) == 1 and crits[0] is not None:
         out += LEV_NUMBERS
+    elif len(crits) > 1:                 # several elements: each one's peak LESP, each shedding one's onset
+        out += [f"{k}_{i}" for i in range(1, len(crits) + 1) for k in ("lesp_max", "t_lesp_max")]
+        if any(c is not None for c in crits):
+            out += [k for k in LEV_NUMBERS if k != "lesp_critical" or crits[0] is not None]
+            out += [f"{k}_{i}" for i, c in enumerate(crits, start=1) if c is not None for k in LEV_NUMBERS]
     gusts = gust_list(d.get("gust"))
     if gusts:
         out += GUST_NUMBERS

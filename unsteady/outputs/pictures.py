@@ -23,6 +23,7 @@ from matplotlib.patches import Rectangle
 from ..analysis.lag import ALPHA_EFF_LIMIT_DEG
 from ..core.cautions import DIMENSIONAL_CAUTION, GUST_CAUTION, PICTURE_CAUTION, PICTURE_SHEDDING_CAUTION
 from ..core.files import atomic_path
+from ..inputs.elements import sheds_anywhere
 from ..core.version import __version__
 from .notices import run_warnings
 
@@ -262,7 +263,7 @@ _warning_notes, _title = warning_notes, run_title
 def run_caution(result):
     """The short caution of a run's pictures and films (its own for a run that sheds from the leading edge)."""
     sc = result.scenario
-    if sc is not None and sc.data.get("airfoil", {}).get("lesp_critical") is not None:
+    if sc is not None and sheds_anywhere(sc.data.get("airfoil", {})):      # any element's leading edge
         return PICTURE_SHEDDING_CAUTION
     return CAUTION
 
