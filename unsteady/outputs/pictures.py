@@ -417,8 +417,13 @@ def mark_onset(ax, result, y="cl"):
         return False
     i = int(np.argmin(np.abs(np.asarray(h["t"]) - t0)))
     ax.axvline(t0, color=LOOK["lev"], lw=0.8, ls=(0, (4, 2)), zorder=1)
+    # several elements: name the ones whose leading edge sheds first
+    first = [k[len("lev_onset_t_"):] for k, v in (result.summary or {}).items()
+             if k.startswith("lev_onset_t_") and v == t0]
+    who = (f"leading edge of element {' and '.join(first)} sheds" if len(first) == 1 else
+           f"leading edges of elements {' and '.join(first)} shed" if first else "leading edge sheds")
     ax.plot([t0], [h[y][i]], "D", color=LOOK["paper"], mec=LOOK["lev"], mew=1.3, ms=5, zorder=5,
-            label=f"leading edge sheds ({t0:.4g} s)")
+            label=f"{who} ({t0:.4g} s)")
     house_legend(ax)
     return True
 
