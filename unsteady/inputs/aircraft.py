@@ -79,15 +79,6 @@ def check_pitch_freedom(value, ctx):
         errors.append(InputError("aircraft.aspect_ratio", "cannot be used with pitch freedom: the wing's "
                                                           "finite-span correction would also scale the tail's "
                                                           "lift and moment; remove aircraft.aspect_ratio"))
-    from .elements import lesp_criticals
-    shedding = [i for i, c in enumerate(lesp_criticals(af)) if c is not None]
-    if shedding:
-        key = "airfoil.lesp_critical" if shedding[0] == 0 else f"airfoil[{shedding[0]}].lesp_critical"
-        errors.append(InputError("aircraft.cg", f"pitch freedom with leading-edge shedding ({key}) is not "
-                                                "supported by this version: the trim solves on the attached "
-                                                "steady flow, and no test checks the free pitch against a "
-                                                "shedding flow; remove the lesp_critical keys or "
-                                                "aircraft.pitch_inertia and aircraft.cg"))
     pivot = mo.get("pivot")
     if "cg" in out and isinstance(pivot, (int, float)) and pivot != 0.25 and abs(pivot - out["cg"]) > 1e-12:
         errors.append(InputError("motion.pivot", f"is {pivot:g}, but with pitch freedom the aircraft turns "
