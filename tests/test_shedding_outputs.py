@@ -215,3 +215,22 @@ chords = 1.0
     assert "element 1 from t = " in p.stdout and "element 2 never (lesp_critical = 50)" in p.stdout
     s = json.loads((tmp_path / "out" / "summary.json").read_text())
     assert s["lev_onset_t_2"] is None and s["lev_onset_t"] == s["lev_onset_t_1"]
+
+
+@pytest.mark.parametrize("crits", [(0.18, 0.2), (None, 0.2), (0.18, None)])
+def test_sweep_numbers_cover_what_shedding_elements_give(crits):
+    # the envelope check's list of numbers (sweep_cases.possible_numbers) against real runs of a pair
+    from unsteady.apps import sweep
+    from unsteady.inputs.sweep_cases import possible_numbers
+    first, second = {"chord": C, "elements": 16}, {"chord": C, "elements": 16, "position": [1.5 * C, 1.5 * C]}
+    for el, c in zip((first, second), crits):
+        if c is not None:
+            el["lesp_critical"] = c
+    sc = unsteady.load_scenario({
+        "flow": {"speed": U, "density": 1.2}, "airfoil": [first, second],
+        "motion": {"pivot": 0.0, "pitch": {"law": "ramp", "from": 0.0, "to": 45.0, "start": 0.0,
+                                           "duration": 0.04, "smoothing": 0.01}},
+        "run": {"chords": 1.0}, "output": {"plots": False}})
+    got = set(sweep.run_case({"raw": sc.raw, "base_dir": str(sc.base_dir), "source": sc.source})["summary"])
+    assert {"lev_onset_t", "lesp_max_2"} <= got
+    assert got <= set(possible_numbers(sc)), got - set(possible_numbers(sc))
