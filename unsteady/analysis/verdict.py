@@ -49,7 +49,10 @@ What is measured (limits marked common practice where no source is named):
    edge would shed a vortex; the warning suggests ``lesp_critical``.  With
    ``lesp_critical`` the model sheds, so 1, 2 and 5 (the attached-flow
    limits) no longer apply and are not given; the caution of such a run
-   says that the critical value is a model parameter.
+   says that the critical value is a model parameter.  With several
+   elements each one without a ``lesp_critical`` of its own is judged on
+   its ``lesp_<i>`` and named; 1 and 2 (the first element's effective
+   angle) go with the first element's key, 5 (the total lift) with any.
 9. **Extreme ground effect** (``[ground]``): the camber line closer to the
    ground than :data:`GROUND_NEAR` (5 %) of the chord, where the section's
    thickness and the ground's boundary layer set the flow under it.
@@ -62,7 +65,7 @@ import math
 import numpy as np
 
 from ..inputs.estimates import angle_text, motion_key
-from .shedding import critical_value, lesp_warning
+from .shedding import critical_value, element_criticals, lesp_warnings
 from .summary import impulse_mask, running_mean
 
 #: |cl| beyond which a real section would have stalled (common practice, see module docstring).
@@ -113,7 +116,8 @@ def measured_warnings(history, sc, summary, snapshots=None):
     # the leading edge has left attached flow on purpose: the LESP verdict, 8, replaces it)
     lag = summary["lag"]
     v = lag["validity"]
-    sheds = critical_value(sc) is not None
+    sheds = critical_value(sc) is not None          # the first element's (its effective angle)
+    sheds_any = any(c is not None for c in element_criticals(sc))
     a_max = abs(lag.get("peak_effective_alpha_deg", 0.0))
     if not sheds and a_max > v["alpha_eff_limit_deg"]:
         i = int(np.nanargmax(np.abs(history["alpha_eff_deg"])))
@@ -129,8 +133,8 @@ def measured_warnings(history, sc, summary, snapshots=None):
                     f"attached-flow run leaves out"))
 
     # 8: the leading-edge suction parameter past a typical critical value, without shedding
-    lesp = lesp_warning(history, sc)
-    if lesp is not None:
+    # (per element: each one without lesp_critical of its own, named when there are several)
+    for lesp in lesp_warnings(history, sc):
         out.append((gust_key or mkey, lesp))
 
     times = [T for T in sc.kinematics.singular_times() if t[0] <= T <= t[-1]]
@@ -153,7 +157,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
         keep &= t >= summary["peaks_from_s"]
     if keep.any() and np.isfinite(cl[keep]).any():
         i = np.nonzero(keep)[0][int(np.nanargmax(np.abs(cl[keep])))]
-        if abs(cl[i]) > CL_MAX_TYPICAL and not sheds:
+        if abs(cl[i]) > CL_MAX_TYPICAL and not sheds_any:
             msg = (f"the section lift coefficient reached {cl[i]:.3g} at t = {t[i]:.4g} s, beyond the "
                    f"about {CL_MAX_TYPICAL:g} a real section carries before it stalls (common practice)")
             if "n" in history and np.isfinite(history["n"][i]) and cl[i] != cl[0]:
