@@ -48,6 +48,7 @@ import numpy as np
 from ..core.errors import InputError
 from ..inputs.aircraft import G
 from ..linear.kernels import heave_step
+from ..vortex.solver import SolverDiverged
 from .heave import HeaveMotion
 
 __all__ = ["PitchHeaveMotion", "HeldAttitudeHeave", "heave_only_comparison", "pitch_step"]
@@ -56,6 +57,22 @@ __all__ = ["PitchHeaveMotion", "HeldAttitudeHeave", "heave_only_comparison", "pi
 MAX_TRIM_ALPHA_DEG = 20.0
 MAX_TAIL_TURN_DEG = 30.0
 MAX_TAIL_FLAP_DEG = 20.0
+#: A run whose attitude leaves the trim by more than this (deg) stops (:class:`PitchRunaway`).
+RUNAWAY_DEG = 90.0
+
+
+class PitchRunaway(SolverDiverged):
+    """The attitude left the trim by more than :data:`RUNAWAY_DEG`: the run stops there, the steps
+    before it kept (``Result.error``; ``unsteady run`` exits 1)."""
+
+    def __init__(self, step, t, change_deg):
+        RuntimeError.__init__(self, f"the attitude left the trim by {change_deg:.3g} degrees at step {step} "
+                                    f"(t = {t:.6g} s), beyond {RUNAWAY_DEG:g}: the explicit pitch step grows "
+                                    f"without bound when the tail's apparent pitch inertia (about pi rho "
+                                    f"(c_t/2)^2 l_t^2 per span) is not a small part of aircraft.pitch_inertia "
+                                    f"per span, and a statically unstable aircraft diverges; raise "
+                                    f"aircraft.pitch_inertia, or move aircraft.cg forward")
+        self.step, self.t, self.cause = step, t, "pitch runaway"
 
 
 def pitch_step(m_coef, theta, theta_dot, acc_prev, first, dt):
@@ -178,6 +195,8 @@ class PitchHeaveMotion(HeaveMotion):
         self.a_prev = a
         self.pa_rows.append(math.degrees(m))
         self.tail_rows.append(float(loads[f"cl_{self.n_el}"]) * self.q * self.c * self.span)
+        if not abs(self.theta - self.alpha_trim) <= math.radians(RUNAWAY_DEG):
+            raise PitchRunaway(int(round(t / dt)), t, math.degrees(abs(self.theta - self.alpha_trim)))
 
     def pitch(self, t):
         raise NotImplementedError("pitch freedom runs with the vortex model only")
