@@ -444,7 +444,8 @@ def plot_wake(result, path, k=-1):
     c = float(sc.chord)
     from . import fields
     outlines = fields.element_outlines(sc, s["alpha"][k], s["h"][k],
-                                       flap=fields.flap_at(sc, result.history, float(s["t"][k])))
+                                       flap=fields.flap_at(sc, result.history, float(s["t"][k])),
+                                       more_flaps=fields.element_flaps_at(sc, result.history, float(s["t"][k])))
     xo, zo = np.concatenate([o[0] for o in outlines]), np.concatenate([o[1] for o in outlines])
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c
