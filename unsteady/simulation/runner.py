@@ -222,6 +222,8 @@ def _further_realisations(sc, seeds, progress):
         g = data["gust"][0] if isinstance(data["gust"], list) else data["gust"]
         g["seed"] = int(seed)
         g.pop("realisations", None)
+        if "pitch_inertia" in (data.get("aircraft") or {}):
+            data["aircraft"]["heave_only_run"] = False     # only the statistics are kept
         one = dataclasses.replace(sc, data=data, warnings=())
         res = simulate(one, progress=progress, label=f"realisation {i}/{len(seeds) + 1}")
         st = record_statistics(res.history, one) if not res.error else None
