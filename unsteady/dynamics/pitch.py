@@ -177,6 +177,17 @@ class PitchHeaveMotion(HeaveMotion):
         self.theta = self.alpha_trim
         return self
 
+    def trimmed(self):
+        """The sentence saying what the trim set (the summary's ``trimmed``)."""
+        if self.elevator:
+            return (f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail's flap (last element, an "
+                    f"elevator) deflected {math.degrees(self.tail_flap_trim):+.4g} deg (trailing edge down "
+                    f"positive), the tail at its given incidence: lift equal to the weight, zero moment about "
+                    f"the centre of gravity")
+        return (f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail (last element) turned "
+                f"{math.degrees(self.tail_trim):+.4g} deg from its given incidence: lift equal to the weight, "
+                f"zero moment about the centre of gravity")
+
     def state(self, t):
         self._offset()
         return self.theta, self.theta_dot, self.h, self.h_dot
@@ -210,16 +221,9 @@ class PitchHeaveMotion(HeaveMotion):
     def summary(self, history):
         out = super().summary(history)
         if self.elevator:
-            out.update(trimmed=(f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail's flap (last "
-                                f"element, an elevator) deflected {math.degrees(self.tail_flap_trim):+.4g} deg "
-                                f"(trailing edge down positive), the tail at its given incidence: lift equal "
-                                f"to the weight, zero moment about the centre of gravity"),
-                       tail_flap_trim_deg=math.degrees(self.tail_flap_trim))
+            out.update(trimmed=self.trimmed(), tail_flap_trim_deg=math.degrees(self.tail_flap_trim))
         else:
-            out.update(trimmed=(f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail (last element) "
-                                f"turned {math.degrees(self.tail_trim):+.4g} deg from its given incidence: lift "
-                                f"equal to the weight, zero moment about the centre of gravity"),
-                       tail_trim_deg=math.degrees(self.tail_trim))
+            out.update(trimmed=self.trimmed(), tail_trim_deg=math.degrees(self.tail_trim))
         out["pitch_inertia_per_span"] = self.I_span
         p = history.get("pitch_deg")
         if p is not None and len(p):

@@ -147,6 +147,27 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
     return Result(history, summary, snapshots, sc, error=error)
 
 
+def trim_of(scenario):
+    """What the trim of pitch freedom sets (the summary's ``trimmed`` sentence), without running the
+    scenario; None without pitch freedom.  For ``unsteady check``.
+
+    Raises
+    ------
+    InputError
+        (key ``aircraft.cg``) when no trim exists within the limits
+        (:meth:`~unsteady.dynamics.pitch.PitchHeaveMotion.trim`).
+    """
+    sc = scenario if isinstance(scenario, Scenario) else load_scenario(scenario)
+    ac = sc.data.get("aircraft")
+    if not ac or "pitch_inertia" not in ac:
+        return None
+    gust = build_gust_field(sc) if sc.data.get("gust") else None
+    motion = PitchHeaveMotion(sc, sc.kinematics)
+    model = models.get(sc.data["run"].get("model", "vortex"))(sc, gust, motion)
+    motion.trim(model.steady_loads)
+    return motion.trimmed()
+
+
 def _summarise(model, history, builtin, steps, wall_time_s, error):
     """Fill the built-in observers' columns and build the summary (before the lag block)."""
     for o in builtin:
