@@ -45,10 +45,9 @@ import math
 
 import numpy as np
 
-from ..core.errors import InputError
+from ..core.errors import InputError, RunStopped
 from ..inputs.aircraft import G
 from ..linear.kernels import heave_step
-from ..vortex.solver import SolverDiverged
 from .heave import HeaveMotion
 
 __all__ = ["PitchHeaveMotion", "HeldAttitudeHeave", "heave_only_comparison", "pitch_step"]
@@ -61,18 +60,18 @@ MAX_TAIL_FLAP_DEG = 20.0
 RUNAWAY_DEG = 90.0
 
 
-class PitchRunaway(SolverDiverged):
+class PitchRunaway(RunStopped):
     """The attitude left the trim by more than :data:`RUNAWAY_DEG`: the run stops there, the steps
     before it kept (``Result.error``; ``unsteady run`` exits 1)."""
 
     def __init__(self, step, t, change_deg):
         RuntimeError.__init__(self, f"the attitude left the trim by {change_deg:.3g} degrees at step {step} "
-                                    f"(t = {t:.6g} s), beyond {RUNAWAY_DEG:g}: the explicit pitch step grows "
-                                    f"without bound when the tail's apparent pitch inertia (about pi rho "
+                                    f"(t = {t:.6g} s), beyond {RUNAWAY_DEG:g}: most likely the explicit pitch step, "
+                                    f"which grows without bound when the tail's apparent pitch inertia (about pi rho "
                                     f"(c_t/2)^2 l_t^2 per span) is not a small part of aircraft.pitch_inertia "
                                     f"per span, and a statically unstable aircraft diverges; raise "
                                     f"aircraft.pitch_inertia, or move aircraft.cg forward")
-        self.step, self.t, self.cause = step, t, "pitch runaway"
+        self.step, self.t = step, t
 
 
 def pitch_step(m_coef, theta, theta_dot, acc_prev, first, dt):

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..core.errors import RunStopped
 from ..dynamics.heave import HeaveMotion
 from ..inputs import scenario
 from ..inputs.gusts import build_gust_field
@@ -176,7 +177,7 @@ class Model:
                 o.on_start(self)
         try:
             self._march(observers)
-        except SolverDiverged as exc:
+        except (SolverDiverged, RunStopped) as exc:    # a motion's runaway too (dynamics.pitch)
             return str(exc)
         finally:
             for o in observers:
