@@ -436,7 +436,8 @@ def test_gust_envelope_table_has_units_verdicts_formula_and_loads(tmp_path):
 @pytest.mark.parametrize("name, extra", [("drone-gust-1cos", ["run.model=linear"]),
                                          ("drone-turbulence", ["run.model=linear", "run.duration=20"]),
                                          ("pitch-up", ["run.model=linear"]), ("flapping-plate", ["run.model=linear"]),
-                                         ("perching-lev", ["run.chords=2", "airfoil.elements=12"])])
+                                         ("perching-lev", ["run.chords=2", "airfoil.elements=12"]),
+                                         ("drone-tail-gust-pitch", ["run.chords=12"])])
 def test_possible_numbers_cover_what_the_runs_give(name, extra):
     """The envelope check's list of numbers (sweep_cases.possible_numbers) against real runs."""
     import unsteady

@@ -15,6 +15,10 @@ def main(args):
     if "sweep" in sc.data:
         from ..inputs.sweep_cases import check_cases
         check_cases(sc)
+    from ..simulation.runner import trim_of
+    trimmed = trim_of(sc)                    # pitch freedom: refused here when no trim exists
     print(f"{args.scenario}: ok ({sc.steps} steps of {sc.dt:.4g} s, {sc.elements} elements, "
           f"{sc.data['run']['wake']} wake)")
+    if trimmed:
+        print(f"trim: {trimmed}")
     return 0

@@ -55,6 +55,19 @@ def main(args):
                          f"{s['lesp_critical_' + i]:g})" if s["lev_onset_t_" + i] is not None else
                          f"element {i} never (lesp_critical = {s['lesp_critical_' + i]:g})" for i in several]
                 print(f"leading edges shed: {'; '.join(parts)}; caution: {SHEDDING_CAUTION}")
+        if "heave_only" in s and "dn_peak" in s["heave_only"]:
+            ho = s["heave_only"]
+            ratio = s.get("dn_ratio_pitch_to_heave_only")
+            tl = s.get("tail_load_ratio_pitch_to_heave_only")
+            print(f"pitch freedom: load factor {s['n_min']:.3f} .. {s['n_max']:.3f} free to pitch, "
+                  f"{ho['n_min']:.3f} .. {ho['n_max']:.3f} with the attitude held at the trim (heave only)"
+                  + (f"; peak increment ratio {ratio:.3f}" if ratio is not None else "")
+                  + (f"; tail load {s['tail_load_min_N']:.4g} .. {s['tail_load_max_N']:.4g} N against "
+                     f"{ho['tail_load_min_N']:.4g} .. {ho['tail_load_max_N']:.4g} N heave only"
+                     if "tail_load_max_N" in s and "tail_load_max_N" in ho else "")
+                  + (f" (peak change ratio {tl:.3f})" if tl is not None else ""))
+        if "trimmed" in s:
+            print(f"trim: {s['trimmed']}")
         if "lift_max_N" in s:
             print(f"loads: lift up to {s['lift_max_N']:.4g} N"
                   + (f", root bending of a half-wing up to {s['root_bending_max_Nm']:.4g} N m (elliptic "

@@ -22,5 +22,10 @@ class OutputError(Exception):
     """
 
 
+class RunStopped(RuntimeError):
+    """A motion stopped the march (its state ran away): the rows so far are kept and the run ends
+    with ``Result.error`` set, like a diverged solver (``unsteady run`` exits 1)."""
+
+
 class Interrupted(KeyboardInterrupt):
     """The process was asked to stop (SIGTERM); unwinds like Ctrl-C so that temporaries are removed."""

@@ -23,11 +23,20 @@ part of I').
 
 The start is trimmed (:meth:`PitchHeaveMotion.trim`): level flight, lift
 equal to the weight and zero moment about the centre of gravity, solved by
-Newton's method for the attitude and the incidence of the last element (an
-all-moving tail) on the run model's own steady loads.  No trim (no
-solution within 20 iterations, an attitude beyond 20 degrees or a tail
-turned beyond 30 degrees from its given incidence) stops the run with a
-clear message before anything is written.
+Newton's method (a 2 x 2 system, its Jacobian by forward differences) on
+the run model's own steady loads for the attitude and either the incidence
+of the last element (an all-moving tail) or, when the last element has a
+flap (``flap_hinge``), that flap's deflection (an elevator; the tail keeps
+its given incidence).  No trim (no solution within 20 iterations, an
+attitude beyond 20 degrees, a tail turned beyond 30 degrees from its given
+incidence or an elevator beyond 20 degrees) stops the run with a clear
+message before anything is written.
+
+:class:`HeldAttitudeHeave` is the heave-only companion of a gust run: the
+same aircraft, trim and tail, with the attitude held at the trim (the
+classical gust-load assumption of heave alone, K. G. Pratt & W. G. Walker,
+NACA Report 1206, 1954); the runner flies it beside the free-pitch run and
+compares the peaks (:func:`heave_only_comparison`).
 """
 
 from __future__ import annotations
@@ -36,16 +45,33 @@ import math
 
 import numpy as np
 
-from ..core.errors import InputError
+from ..core.errors import InputError, RunStopped
 from ..inputs.aircraft import G
 from ..linear.kernels import heave_step
 from .heave import HeaveMotion
 
-__all__ = ["PitchHeaveMotion", "pitch_step"]
+__all__ = ["PitchHeaveMotion", "HeldAttitudeHeave", "heave_only_comparison", "pitch_step"]
 
-#: Largest trimmed attitude and tail turn accepted (deg).
+#: Largest trimmed attitude, tail turn and tail-flap (elevator) deflection accepted (deg).
 MAX_TRIM_ALPHA_DEG = 20.0
 MAX_TAIL_TURN_DEG = 30.0
+MAX_TAIL_FLAP_DEG = 20.0
+#: A run whose attitude leaves the trim by more than this (deg) stops (:class:`PitchRunaway`).
+RUNAWAY_DEG = 90.0
+
+
+class PitchRunaway(RunStopped):
+    """The attitude left the trim by more than :data:`RUNAWAY_DEG`: the run stops there, the steps
+    before it kept (``Result.error``; ``unsteady run`` exits 1)."""
+
+    def __init__(self, step, t, change_deg):
+        RuntimeError.__init__(self, f"the attitude left the trim by {change_deg:.3g} degrees at step {step} "
+                                    f"(t = {t:.6g} s), beyond {RUNAWAY_DEG:g}: most likely the explicit pitch step, "
+                                    f"which grows without bound when the tail's apparent pitch inertia (about pi rho "
+                                    f"(c_t/2)^2 l_t^2 per span) is not a small part of aircraft.pitch_inertia "
+                                    f"per span, and a statically unstable aircraft diverges; raise "
+                                    f"aircraft.pitch_inertia, or move aircraft.cg forward")
+        self.step, self.t = step, t
 
 
 def pitch_step(m_coef, theta, theta_dot, acc_prev, first, dt):
@@ -77,16 +103,28 @@ class PitchHeaveMotion(HeaveMotion):
         ac = sc.data["aircraft"]
         self.I_span = ac["pitch_inertia"] / self.span          # I'
         self.m_per_cm = self.q * self.c * self.c / self.I_span  # theta'' per unit cm_cg
-        self.n_el = len(sc.data["airfoil"]["_more"]) + 1
+        more = sc.data["airfoil"]["_more"]
+        self.n_el = len(more) + 1
+        #: True when the last element has a flap: the trim deflects it (an elevator) instead of turning the tail
+        self.elevator = "flap_hinge" in more[-1]
         self.tail_trim = 0.0
+        self.tail_flap_trim = None
         self.theta = 0.0
         self.theta_dot = 0.0
         self.m_prev = None
         self.pa_rows = []
         self.tail_rows = []
 
+    @property
+    def tail_control(self):
+        """(tail_turn, tail_flap) of the trim, rad, as the model's ``set_tail_turn`` takes them."""
+        return self.tail_trim, self.tail_flap_trim
+
     def trim(self, steady_loads):
-        """Trim on ``steady_loads(alpha, tail_turn) -> (cl, cm_cg)`` of the run model (rad, rad).
+        """Trim on ``steady_loads(alpha, tail_turn[, tail_flap]) -> (cl, cm_cg)`` of the run model (rad).
+
+        The unknowns are the attitude and the tail's turn, or with an elevator
+        (:attr:`elevator`) its deflection (the tail's incidence as given).
 
         Raises
         ------
@@ -95,9 +133,17 @@ class PitchHeaveMotion(HeaveMotion):
         """
         x = np.array([math.radians(2.0), 0.0])
         cl_w = self.cl_level
+        if self.elevator:
+            def loads(v):
+                return steady_loads(float(v[0]), 0.0, float(v[1]))
+            limit, what = MAX_TAIL_FLAP_DEG, "the tail's flap (elevator) deflected"
+        else:
+            def loads(v):
+                return steady_loads(float(v[0]), float(v[1]))
+            limit, what = MAX_TAIL_TURN_DEG, "the tail turned"
 
         def f(v):
-            cl, cm = steady_loads(float(v[0]), float(v[1]))
+            cl, cm = loads(v)
             return np.array([cl - cl_w, cm])
 
         fx = f(x)
@@ -110,22 +156,36 @@ class PitchHeaveMotion(HeaveMotion):
             except np.linalg.LinAlgError:
                 break
             x = x + step
-            fx = f(x)
             if not np.isfinite(x).all() or abs(x[0]) > 1.0 or abs(x[1]) > 1.0:
                 break
+            fx = f(x)
             if abs(fx[0]) < 1e-9 * max(1.0, cl_w) and abs(fx[1]) < 1e-9:
                 ok = True
                 break
-        if not ok or abs(math.degrees(x[0])) > MAX_TRIM_ALPHA_DEG or abs(math.degrees(x[1])) > MAX_TAIL_TURN_DEG:
-            raise InputError("aircraft.cg", f"no trim: no attitude within {MAX_TRIM_ALPHA_DEG:g} degrees with the "
-                                            f"tail turned within {MAX_TAIL_TURN_DEG:g} degrees carries the weight "
+        if not ok or abs(math.degrees(x[0])) > MAX_TRIM_ALPHA_DEG or abs(math.degrees(x[1])) > limit:
+            raise InputError("aircraft.cg", f"no trim: no attitude within {MAX_TRIM_ALPHA_DEG:g} degrees with "
+                                            f"{what} within {limit:g} degrees carries the weight "
                                             f"(cl {cl_w:.3f}) with zero moment about the centre of gravity; "
                                             f"move aircraft.cg, the tail's position or incidence, or change "
                                             f"the speed or mass")
         self.alpha_offset = self.alpha_trim = float(x[0])
-        self.tail_trim = float(x[1])
+        if self.elevator:
+            self.tail_flap_trim = float(x[1])
+        else:
+            self.tail_trim = float(x[1])
         self.theta = self.alpha_trim
         return self
+
+    def trimmed(self):
+        """The sentence saying what the trim set (the summary's ``trimmed``)."""
+        if self.elevator:
+            return (f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail's flap (last element, an "
+                    f"elevator) deflected {math.degrees(self.tail_flap_trim):+.4g} deg (trailing edge down "
+                    f"positive), the tail at its given incidence: lift equal to the weight, zero moment about "
+                    f"the centre of gravity")
+        return (f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail (last element) turned "
+                f"{math.degrees(self.tail_trim):+.4g} deg from its given incidence: lift equal to the weight, "
+                f"zero moment about the centre of gravity")
 
     def state(self, t):
         self._offset()
@@ -145,6 +205,8 @@ class PitchHeaveMotion(HeaveMotion):
         self.a_prev = a
         self.pa_rows.append(math.degrees(m))
         self.tail_rows.append(float(loads[f"cl_{self.n_el}"]) * self.q * self.c * self.span)
+        if not abs(self.theta - self.alpha_trim) <= math.radians(RUNAWAY_DEG):
+            raise PitchRunaway(int(round(t / dt)), t, math.degrees(abs(self.theta - self.alpha_trim)))
 
     def pitch(self, t):
         raise NotImplementedError("pitch freedom runs with the vortex model only")
@@ -157,11 +219,11 @@ class PitchHeaveMotion(HeaveMotion):
 
     def summary(self, history):
         out = super().summary(history)
-        out.update(trimmed=(f"attitude {math.degrees(self.alpha_trim):.4g} deg and the tail (last element) "
-                            f"turned {math.degrees(self.tail_trim):+.4g} deg from its given incidence: lift "
-                            f"equal to the weight, zero moment about the centre of gravity"),
-                   tail_trim_deg=math.degrees(self.tail_trim),
-                   pitch_inertia_per_span=self.I_span)
+        if self.elevator:
+            out.update(trimmed=self.trimmed(), tail_flap_trim_deg=math.degrees(self.tail_flap_trim))
+        else:
+            out.update(trimmed=self.trimmed(), tail_trim_deg=math.degrees(self.tail_trim))
+        out["pitch_inertia_per_span"] = self.I_span
         p = history.get("pitch_deg")
         if p is not None and len(p):
             out["pitch_change_max_deg"] = float(np.nanmax(np.abs(np.asarray(p) - math.degrees(self.alpha_trim))))
@@ -170,3 +232,88 @@ class PitchHeaveMotion(HeaveMotion):
             out["tail_load_max_N"] = float(np.nanmax(tl))
             out["tail_load_min_N"] = float(np.nanmin(tl))
         return out
+
+
+class HeldAttitudeHeave(HeaveMotion):
+    """The heave-only companion of a free-pitch run: free heave with the attitude held at the trim.
+
+    The same aircraft, trim and tail as ``pitched`` (a trimmed
+    :class:`PitchHeaveMotion`): the attitude stays at its ``alpha_trim``
+    (no pitch freedom), the heave follows :class:`HeaveMotion`, and the tail's
+    load is recorded as in the free-pitch run (the classical gust-load
+    assumption of heave alone: K. G. Pratt & W. G. Walker, NACA Report 1206,
+    1954).  The run starts level to the trim's tolerance, as the free-pitch one.
+
+    Attributes
+    ----------
+    columns : list of str
+        ``n``, ``height_accel_m_s2`` and ``tail_load_N``.
+    """
+
+    columns = ["n", "height_accel_m_s2", "tail_load_N"]
+
+    def __init__(self, sc, kinematics, pitched):
+        super().__init__(sc, kinematics)
+        self.alpha_offset = self.alpha_trim = pitched.alpha_trim
+        self.n_el = pitched.n_el
+        self.tail_rows = []
+
+    def after_step(self, t, dt, loads):
+        super().after_step(t, dt, loads)
+        self.tail_rows.append(float(loads[f"cl_{self.n_el}"]) * self.q * self.c * self.span)
+
+    def pitch(self, t):
+        raise NotImplementedError("the heave-only companion runs with the vortex model only")
+
+    def finish(self, history):
+        super().finish(history)
+        history["tail_load_N"] = np.asarray(self.tail_rows[:len(history["t"])], dtype=float)
+
+
+def _dn_peak(n_max, n_min):
+    """The peak load-factor increment: the larger excursion from level flight, up or down."""
+    return max(n_max - 1.0, 1.0 - n_min)
+
+
+def heave_only_comparison(pitched, held, rows):
+    """The summary block comparing the free-pitch run with its heave-only companion.
+
+    Parameters
+    ----------
+    pitched, held : dict
+        ``n_max``, ``n_min`` (headline peaks, the same rows left out in both) and the
+        ``tail_load_N`` column of each run.
+    rows : int
+        Rows of the companion run (fewer than the free-pitch run's when it stopped early).
+
+    Returns
+    -------
+    dict
+        ``heave_only`` {n_max, n_min, t_n_max, dn_peak, tail_load_max_N, tail_load_min_N,
+        dtail_load_peak_N}, ``dn_ratio_pitch_to_heave_only`` (peak load-factor increment, the
+        larger of n_max - 1 and 1 - n_min, with pitch over without) and
+        ``tail_load_ratio_pitch_to_heave_only`` (the peak change of the tail load from its
+        trimmed value, with pitch over without).
+    """
+    out = {}
+    block = {k: held[k] for k in ("n_max", "n_min", "t_n_max") if held.get(k) is not None}
+    dn_h = dn_p = None
+    if "n_max" in block and "n_min" in block:
+        dn_h = block["dn_peak"] = _dn_peak(block["n_max"], block["n_min"])
+    if pitched.get("n_max") is not None and pitched.get("n_min") is not None:
+        dn_p = _dn_peak(pitched["n_max"], pitched["n_min"])
+    tl_h, tl_p = np.asarray(held["tail_load_N"], float), np.asarray(pitched["tail_load_N"], float)
+    dtl_h = dtl_p = None
+    if tl_h.size and np.isfinite(tl_h).any():
+        block["tail_load_max_N"] = float(np.nanmax(tl_h))
+        block["tail_load_min_N"] = float(np.nanmin(tl_h))
+        dtl_h = block["dtail_load_peak_N"] = float(np.nanmax(np.abs(tl_h - tl_h[0])))
+    if tl_p.size and np.isfinite(tl_p).any():
+        dtl_p = float(np.nanmax(np.abs(tl_p - tl_p[0])))
+    block["rows"] = int(rows)
+    out["heave_only"] = block
+    if dn_h and dn_p is not None:
+        out["dn_ratio_pitch_to_heave_only"] = dn_p / dn_h
+    if dtl_h and dtl_p is not None:
+        out["tail_load_ratio_pitch_to_heave_only"] = dtl_p / dtl_h
+    return out

@@ -41,6 +41,8 @@ def lift_scale(aspect_ratio):
 
 #: Keys of pitch freedom (a wing with its tail: dynamics.pitch).
 PITCH_FREEDOM = ("pitch_inertia", "cg")
+#: Optional key of pitch freedom: with a gust, also fly the aircraft with its attitude held at the trim.
+HEAVE_ONLY_KEY = "heave_only_run"
 #: Ranges of the pitch-freedom keys: the inertia from a gram-scale flier to a large transport
 #: (kg m^2), the centre of gravity in reference chords aft of the first element's leading edge.
 PITCH_RANGES = {"pitch_inertia": (1e-8, 1e8), "cg": (-0.5, 1.5)}
@@ -71,10 +73,19 @@ def check_pitch_freedom(value, ctx):
         errors.append(InputError("motion.pitch", "cannot be prescribed with pitch freedom: the attitude is "
                                                  "trimmed and then free; remove motion.pitch or "
                                                  "aircraft.pitch_inertia and aircraft.cg"))
-    if "flap" in mo or "flap_hinge" in af:
-        errors.append(InputError("aircraft.cg", "pitch freedom with a flap is not supported by this version: "
-                                                "the trim turns the last element (an all-moving tail); remove "
-                                                "the flap"))
+    more = af.get("_more") or []
+    tail = more[-1] if more and isinstance(more[-1], dict) else {}
+    if "flap_hinge" in tail and "flap_deflection" in tail:
+        errors.append(InputError(f"airfoil[{len(more)}].flap_deflection",
+                                 "is set by the trim with pitch freedom (the tail's flap is the elevator: "
+                                 "lift equal to the weight, zero moment about the centre of gravity); "
+                                 "remove it"))
+    if "heave_only_run" in value and not isinstance(value["heave_only_run"], bool):
+        errors.append(InputError("aircraft.heave_only_run", f"must be true or false (default true: with a gust, "
+                                                            f"also fly the aircraft with its attitude held at the "
+                                                            f"trim), got {value['heave_only_run']!r}"))
+    elif "heave_only_run" in value:
+        out["heave_only_run"] = value["heave_only_run"]
     if "aspect_ratio" in value:
         errors.append(InputError("aircraft.aspect_ratio", "cannot be used with pitch freedom: the wing's "
                                                           "finite-span correction would also scale the tail's "
@@ -92,11 +103,16 @@ def check_aircraft_section(value, ctx):
     """Check ``[aircraft]``: mass (kg), wing_area (m^2), optional aspect_ratio and span (m); (resolved, [InputError])."""
     if not isinstance(value, dict):
         return value, [InputError("aircraft", "must be a table [aircraft] with mass (kg) and wing_area (m^2)")]
-    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio", "span", *PITCH_FREEDOM}, "aircraft.")
+    errors = unknown_keys(value, {"mass", "wing_area", "aspect_ratio", "span", *PITCH_FREEDOM, HEAVE_ONLY_KEY},
+                          "aircraft.")
     out = {}
     if any(k in value for k in PITCH_FREEDOM):      # pitch freedom (dynamics.pitch)
         out, errs = check_pitch_freedom(value, ctx)
         errors += errs
+    elif HEAVE_ONLY_KEY in value:
+        errors.append(InputError("aircraft.heave_only_run", "belongs to pitch freedom (the heave-only companion "
+                                                            "run of an aircraft free to pitch): give "
+                                                            "aircraft.pitch_inertia and aircraft.cg, or remove it"))
     for key, unit in (("mass", "kg"), ("wing_area", "m^2")):
         if key not in value:
             errors.append(InputError(f"aircraft.{key}", f"is required ({unit}, > 0)"))

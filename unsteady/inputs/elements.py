@@ -5,8 +5,12 @@ scenario (:func:`unsteady.inputs.scenario.resolve`); the further ones here.
 Each further element has its own ``shape``, ``chord``, ``elements``, its
 ``position = [x, z]`` (m, its leading edge from the first's, in the first's
 chord axes at zero pitch) and ``incidence`` (deg, nose-up relative to the
-first's chord).  Whether the elements overlap is checked on the built
-camber lines (:func:`element_problems`).
+first's chord).  Each may carry a plain trailing-edge flap of its own:
+``flap_hinge`` (fraction of its chord, the first element's range) held at
+``flap_deflection`` (deg, trailing edge down positive, default 0; the
+first element's flap follows ``[motion] flap`` instead).  Whether the
+elements overlap is checked on the built camber lines, flaps deflected
+(:func:`element_problems`).
 """
 
 from __future__ import annotations
@@ -27,11 +31,18 @@ MAX_INCIDENCE_DEG = 45.0
 #: lumped vortices of one sit on the collocation points of the other (common practice).
 GAP_ELEMENTS = 0.5
 
-_KEYS = {"shape", "chord", "elements", "position", "incidence", "flap_hinge", "lesp_critical", "thick"}
+_KEYS = {"shape", "chord", "elements", "position", "incidence", "flap_hinge", "flap_deflection",
+         "lesp_critical", "thick"}
+#: |flap_deflection| (deg) accepted for a further element's held flap: the limit of ``[motion] flap``
+#: (inputs.flap.FLAP_MAX_DEG); past FLAP_WARN_DEG the check warns, as for the first element's flap.
+MAX_FLAP_DEFLECTION_DEG = 60.0
 
 
-def check_further_elements(items, base_dir, chord_range):
-    """The further elements ``items`` (raw tables 2, 3, ... of ``[[airfoil]]``); returns (resolved list, errors)."""
+def check_further_elements(items, base_dir, chord_range, warnings=None):
+    """The further elements ``items`` (raw tables 2, 3, ... of ``[[airfoil]]``); returns (resolved list, errors).
+
+    Warnings (a held flap past ``FLAP_WARN_DEG``) are appended to ``warnings`` when given."""
+    from .flap import FLAP_HINGE_RANGE, FLAP_WARN_DEG
     from .sections import section_from_shape
     errors, out = [], []
     if len(items) + 1 > MAX_ELEMENTS:
@@ -77,8 +88,23 @@ def check_further_elements(items, base_dir, chord_range):
             errors.append(InputError(p + "thick", "surface panels are not supported with several elements: "
                                                   "each element is a camber line (leave thick out)"))
         if "flap_hinge" in af:
-            errors.append(InputError(p + "flap_hinge", "a flap on a further element is not supported by this "
-                                                       "version: give flap_hinge on the first element only"))
+            el["flap_hinge"] = grab(number, p + "flap_hinge", af["flap_hinge"], gt=FLAP_HINGE_RANGE[0],
+                                    lt=FLAP_HINGE_RANGE[1], unit="(fraction of the element's chord aft of its "
+                                                                  "leading edge)")
+        if "flap_deflection" in af:
+            if "flap_hinge" not in af:
+                errors.append(InputError(p + "flap_deflection", "needs a flap on this element: give "
+                                                                f"{p}flap_hinge (fraction of its chord, "
+                                                                f"{FLAP_HINGE_RANGE[0]:g} to {FLAP_HINGE_RANGE[1]:g})"
+                                                                " or remove flap_deflection"))
+            else:
+                beta = grab(number, p + "flap_deflection", af["flap_deflection"], ge=-MAX_FLAP_DEFLECTION_DEG,
+                            le=MAX_FLAP_DEFLECTION_DEG, unit="deg (trailing edge down positive)")
+                el["flap_deflection"] = beta
+                if beta is not None and abs(beta) > FLAP_WARN_DEG and warnings is not None:
+                    warnings.append(InputError(p + "flap_deflection", f"is {beta:g} degrees: beyond about "
+                                               f"{FLAP_WARN_DEG:g} degrees the flow separates from a plain flap, "
+                                               "which this attached-flow model does not represent"))
         if "lesp_critical" in af:
             # this element's own critical leading-edge suction parameter (Ramesh et al., J. Fluid
             # Mech. 751, 2014); absent: its leading edge never sheds
@@ -100,12 +126,24 @@ def sheds_anywhere(airfoil):
     return any(c is not None for c in lesp_criticals(airfoil))
 
 
-def placed_nodes(section, n, chord, incidence_deg, position):
+def placed_nodes(section, n, chord, incidence_deg, position, flap=None):
     """Camber-line nodes (x, z) (m) of an element, leading edge first, in the first element's
-    chord axes at zero pitch with the origin at its leading edge (cosine spacing of ``n``)."""
+    chord axes at zero pitch with the origin at its leading edge (cosine spacing of ``n``);
+    ``flap`` = (hinge fraction, deflection in deg, trailing edge down) turns the nodes aft of
+    the hinge about it (a node is put on the hinge)."""
     import numpy as np
     x = 0.5 * (1.0 - np.cos(np.pi * np.arange(n + 1) / n))
+    if flap is not None:
+        x = np.unique(np.append(x, float(flap[0])))
     z = np.asarray(section.camber(x), float)
+    if flap is not None and flap[1]:
+        xh = float(flap[0])
+        zh = float(np.asarray(section.camber(np.array([xh])), float)[0])
+        b = math.radians(flap[1])
+        aft = x > xh
+        dx, dz = x[aft] - xh, z[aft] - zh
+        x[aft] = xh + dx * math.cos(b) + dz * math.sin(b)
+        z[aft] = zh - dx * math.sin(b) + dz * math.cos(b)
     a = math.radians(incidence_deg)
     ca, sa = math.cos(a), math.sin(a)
     # nose-up turn about the leading edge (the body frame's convention, vortex.bodies.to_inertial)
@@ -155,7 +193,9 @@ def element_problems(first, further, base_dir):
     lines, clear = [], []
     for el in tables:
         sec = section_from_shape(el["shape"], base_dir)
-        lines.append(placed_nodes(sec, el["elements"], el["chord"], el["incidence"], el["position"]))
+        flap = (el["flap_hinge"], el.get("flap_deflection", 0.0)) if el is not tables[0] and "flap_hinge" in el \
+            else None
+        lines.append(placed_nodes(sec, el["elements"], el["chord"], el["incidence"], el["position"], flap=flap))
         clear.append(GAP_ELEMENTS * el["chord"] / el["elements"])
     errors = []
     for j, el in enumerate(tables[1:], start=1):

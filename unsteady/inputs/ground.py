@@ -47,8 +47,9 @@ def lowest_below_axis(ctx):
     xi, zeta = (x - pivot) * chord, z * chord
     for el in af.get("_more") or ():           # further elements, in the first's chord axes
         try:
+            flap = (el["flap_hinge"], el.get("flap_deflection") or 0.0) if "flap_hinge" in el else None
             xe, ze = placed_nodes(section_from_shape(el["shape"], ctx.get("_base_dir")), 400, el["chord"],
-                                  el["incidence"], el["position"])
+                                  el["incidence"], el["position"], flap=flap)
         except (InputError, ValueError, KeyError, TypeError):
             return None
         xi, zeta = np.append(xi, xe - pivot * chord), np.append(zeta, ze)

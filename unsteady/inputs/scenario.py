@@ -357,6 +357,7 @@ def resolve(raw, base_dir, stem="scenario"):
     _load_plugins()
     errors = []
     out = {}
+    warn_list = []                           # warnings of the core sections' checks (InputError)
 
     def grab(fn, *a, **k):
         try:
@@ -417,6 +418,11 @@ def resolve(raw, base_dir, stem="scenario"):
         errors.append(InputError("airfoil.panels", "was renamed: write airfoil.elements (vortex elements on "
                                                    "the camber line, 4 to 1000)"))
         af = {k: v for k, v in af.items() if k != "panels"}
+    if "flap_deflection" in af:              # a further element's key (inputs.elements)
+        errors.append(InputError("airfoil.flap_deflection", "is for a further element's flap; the first "
+                                                            "element's flap follows motion.flap: give "
+                                                            "motion.flap = { law = \"constant\", value = ... }"))
+        af = {k: v for k, v in af.items() if k != "flap_deflection"}
     errors += unknown_keys(af, {"shape", "chord", "elements", "lesp_critical", "thick", "flap_hinge"}, "airfoil.")
     airfoil = {"shape": af.get("shape", "flat")}
     if "chord" not in af:
@@ -445,7 +451,7 @@ def resolve(raw, base_dir, stem="scenario"):
         errors += errs
     if further is not None:                  # several elements (inputs.elements)
         from .elements import check_further_elements
-        more, errs = check_further_elements(further, base_dir, CHORD_RANGE)
+        more, errs = check_further_elements(further, base_dir, CHORD_RANGE, warn_list)
         errors += errs
         if airfoil.get("thick"):
             errors.append(InputError("airfoil.thick", "surface panels are not supported with several elements "
@@ -562,7 +568,7 @@ def resolve(raw, base_dir, stem="scenario"):
     # registered sections
     ctx = dict(out)
     ctx["_base_dir"] = base_dir
-    ctx["_warnings"] = []          # checkers append InputError(key, message) for warnings
+    ctx["_warnings"] = list(warn_list)   # checkers append InputError(key, message) for warnings
     for name, checker in _SECTIONS.items():
         if name in raw:
             value, errs = checker(raw[name], ctx)

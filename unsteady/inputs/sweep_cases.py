@@ -156,6 +156,11 @@ AIRCRAFT_NUMBERS = ("n_max", "t_n_max", "n_min", "t_n_min", "alpha_trim_deg", "c
                     "mass_ratio_mu_g", "lift_slope_per_rad", "dn_max", "dn_min", "lift_max_N")
 SPAN_NUMBERS = ("root_bending_max_Nm",)
 FORMULA_NUMBERS = ("dn_formula", "gust_alleviation_factor", "dn_ratio")
+#: pitch freedom (dynamics.pitch): the trim, the pitch response, the tail load; with a gust the
+#: heave-only companion's ratios (its block's numbers are not flattened into the table)
+PITCH_NUMBERS = ("tail_trim_deg", "tail_flap_trim_deg", "pitch_inertia_per_span", "pitch_change_max_deg",
+                 "tail_load_max_N", "tail_load_min_N")
+HEAVE_ONLY_NUMBERS = ("dn_ratio_pitch_to_heave_only", "tail_load_ratio_pitch_to_heave_only")
 TURBULENCE_NUMBERS = ("n_rms", "A_bar", "N0", "N0_cut_off_Hz", "n_rms_std", "A_bar_std", "N0_std")
 
 
@@ -183,6 +188,10 @@ def possible_numbers(case_sc):
         out += AIRCRAFT_NUMBERS
         if "span" in d["aircraft"]:
             out += SPAN_NUMBERS
+        if "pitch_inertia" in d["aircraft"]:
+            out += PITCH_NUMBERS
+            if gusts and d["aircraft"].get("heave_only_run", True):
+                out += HEAVE_ONLY_NUMBERS
         if len(gusts) == 1 and gusts[0].get("direction", "vertical") == "vertical":
             if gusts[0]["profile"] == "one-minus-cosine":
                 out += FORMULA_NUMBERS

@@ -22,6 +22,7 @@ __all__ = [
     "snapshot_count",
     "core_radii",
     "airfoil_outline",
+    "element_flaps_at",
     "flap_at",
     "ground_height",
     "chord_line",
@@ -272,15 +273,27 @@ def airfoil_outline(section, chord, pivot, alpha, h, n=81, x_shift=0.0, flap=Non
     return x + x_shift, z
 
 
-def element_outlines(sc, alpha, h, n=81, x_shift=0.0, flap=None):
+def element_outlines(sc, alpha, h, n=81, x_shift=0.0, flap=None, more_flaps=None):
     """Closed outlines (x, z) (m) of every element of the run at pitch ``alpha``, height ``h``: the
-    first (with its flap) and, with ``[[airfoil]]``, each further one at its position and incidence."""
+    first (with its flap) and, with ``[[airfoil]]``, each further one at its position and incidence;
+    ``more_flaps`` (one per further element, ``(hinge, beta)`` or None; :func:`element_flaps_at`)
+    turns a further element's outline aft of its hinge."""
     out = [airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, n=n, x_shift=x_shift, flap=flap)]
     from ..inputs.sections import section_from_shape
-    for el in sc.data["airfoil"].get("_more", ()):
-        xu, zu, xl, zl = section_from_shape(el["shape"], sc.base_dir).outline(n)
-        xf = np.concatenate([xu, xl[::-1]]) * el["chord"]
-        zf = np.concatenate([zu, zl[::-1]]) * el["chord"]
+    for i, el in enumerate(sc.data["airfoil"].get("_more", ())):
+        section = section_from_shape(el["shape"], sc.base_dir)
+        xu, zu, xl, zl = section.outline(n)
+        xf = np.concatenate([xu, xl[::-1]])
+        zf = np.concatenate([zu, zl[::-1]])
+        fl = more_flaps[i] if more_flaps is not None and i < len(more_flaps) else None
+        if fl is not None and fl[1] != 0.0:
+            hinge, beta = float(fl[0]), float(fl[1])
+            z_h = float(np.asarray(section.camber(np.array([hinge])), float)[0])
+            aft = xf > hinge
+            dx, dz = xf[aft] - hinge, zf[aft] - z_h
+            xf[aft] = hinge + dx * math.cos(beta) + dz * math.sin(beta)
+            zf[aft] = z_h - dx * math.sin(beta) + dz * math.cos(beta)
+        xf, zf = xf * el["chord"], zf * el["chord"]
         xi, zeta = to_inertial(xf, zf, math.radians(el["incidence"]), 0.0)   # turned about its leading edge
         x, z = to_inertial(xi + el["position"][0] - sc.pivot * sc.chord, zeta + el["position"][1],
                            float(alpha), float(h))
@@ -294,6 +307,22 @@ def flap_at(sc, history, t):
         return None
     beta = float(np.interp(float(t), history["t"], history["flap_deg"]))
     return float(sc.data["airfoil"]["flap_hinge"]), math.radians(beta)
+
+
+def element_flaps_at(sc, history, t):
+    """One entry per further element of ``[[airfoil]]``: ``(hinge, beta)`` of its flap at time t (beta in
+    rad, from its ``flap_deg_<i>`` history column), or None; None without further elements."""
+    more = [] if sc is None else sc.data.get("airfoil", {}).get("_more") or []
+    if not more:
+        return None
+    out = []
+    for i, el in enumerate(more, start=2):
+        col = history.get(f"flap_deg_{i}")
+        if "flap_hinge" not in el or col is None or not len(col):
+            out.append(None)
+            continue
+        out.append((float(el["flap_hinge"]), math.radians(float(np.interp(float(t), history["t"], col)))))
+    return out
 
 
 def ground_height(sc):

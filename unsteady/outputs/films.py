@@ -837,8 +837,8 @@ class FilmRenderer:
                                         flap=fields.flap_at(f.sc, f.hist, t))
         self.foil.set_xy(np.column_stack([xo, zo]))
         if self.more_foils:
-            for p, (xe, ze) in zip(self.more_foils, fields.element_outlines(f.sc, alpha, hv, n=61,
-                                                                            x_shift=sh)[1:]):
+            for p, (xe, ze) in zip(self.more_foils, fields.element_outlines(
+                    f.sc, alpha, hv, n=61, x_shift=sh, more_flaps=fields.element_flaps_at(f.sc, f.hist, t))[1:]):
                 p.set_xy(np.column_stack([xe, ze]))
         if self.cp_line is not None:
             self.cp_line.set_data(*self._pressure_line(t, alpha, hv, sh))

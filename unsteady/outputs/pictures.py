@@ -450,7 +450,8 @@ def plot_wake(result, path, k=-1):
     c = float(sc.chord)
     from . import fields
     outlines = fields.element_outlines(sc, s["alpha"][k], s["h"][k],
-                                       flap=fields.flap_at(sc, result.history, float(s["t"][k])))
+                                       flap=fields.flap_at(sc, result.history, float(s["t"][k])),
+                                       more_flaps=fields.element_flaps_at(sc, result.history, float(s["t"][k])))
     xo, zo = np.concatenate([o[0] for o in outlines]), np.concatenate([o[1] for o in outlines])
     x0 = float(xo.min()) - NEAR_WAKE_AHEAD * c
     x1 = float(xo.max()) + NEAR_WAKE_CHORDS * c
@@ -717,9 +718,15 @@ def plot_gust_loads(result, path):
     house_legend(ax1)
     ax2.plot(t, h["n"], color=LOOK["trace"], lw=1.4, label="load factor n (vortex model)")
     ax2.axhline(1.0, color=LOOK["muted"], lw=0.7, ls=":")
+    if "n_heave_only" in h and np.isfinite(h["n_heave_only"]).any():   # pitch freedom's companion run
+        ho = s.get("heave_only") or {}
+        ax2.plot(t, h["n_heave_only"], color=LOOK["ccw"], lw=1.0, ls="--",
+                 label="attitude held at the trim (heave only)"
+                       + (f", peak {ho['n_max']:.3f}" if "n_max" in ho else ""))
     if "n_max" in s:
         ax2.plot([s["t_n_max"]], [s["n_max"]], "o", color=LOOK["second"], ms=4,
-                 label=f"peak n = {s['n_max']:.3f}")
+                 label=f"peak n = {s['n_max']:.3f}"
+                       + (" (free to pitch)" if "n_heave_only" in h else ""))
     if "dn_formula" in s:
         ax2.axhline(1.0 + s["dn_formula"], color=LOOK["second"], lw=0.9, ls="--",
                     label=f"gust formula 1 + {s['dn_formula']:.3f} (mu_g = {s['mass_ratio_mu_g']:.1f})")

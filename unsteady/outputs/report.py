@@ -288,6 +288,8 @@ def _element_words(a, c_ref=None):
         s += f", modelled with {a['elements']} {kind}"
     if a.get("flap_hinge") is not None:
         s += f"; a plain flap hinged at {fmt(100 * a['flap_hinge'])} % of the chord"
+        if c_ref is not None and a.get("flap_deflection") is not None:
+            s += f", held at {fmt(a['flap_deflection'])} deg (trailing edge down positive)"
     if a.get("lesp_critical") is not None:
         s += f"; the leading edge sheds vortices when the suction parameter LESP exceeds {fmt(a['lesp_critical'])}"
     return s

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..core.errors import RunStopped
 from ..dynamics.heave import HeaveMotion
 from ..inputs import scenario
 from ..inputs.gusts import build_gust_field
@@ -177,7 +178,7 @@ class Model:
                 o.on_start(self)
         try:
             self._march(observers)
-        except SolverDiverged as exc:
+        except (SolverDiverged, RunStopped) as exc:    # a motion's runaway too (dynamics.pitch)
             return str(exc)
         finally:
             for o in observers:
@@ -310,7 +311,9 @@ class VortexModel(Model):
             ("ground_clearance_m",) if self.ground is not None else ()) + (
             tuple(f"{q}_{i}" for i in range(1, len(more) + 2) for q in ("cl", "cd", "cm")) if more else ()) + (
             tuple(f"lesp_{i}" for i in range(1, len(more) + 2)) if more else ()) + (
-            tuple(f"gamma_lev_{i}" for i, c in enumerate(crit, start=1) if c is not None) if more else ())
+            tuple(f"gamma_lev_{i}" for i, c in enumerate(crit, start=1) if c is not None) if more else ()) + (
+            tuple(f"{q}_{i}" for i, el in enumerate(more or (), start=2) if "flap_hinge" in el
+                  for q in ("flap_deg", "ch")))
         self._pressure = None
 
     def steady_cl(self, alpha, alpha_dot):
@@ -388,9 +391,10 @@ class VortexModel(Model):
         out[ok] = np.einsum("mk,km->m", basis, coef)
         return out
 
-    def steady_loads(self, alpha, tail_turn):
+    def steady_loads(self, alpha, tail_turn, tail_flap=None):
         """(cl, cm about the pitch axis) of the solver's steady start at attitude alpha (rad) with the
-        last element turned by ``tail_turn`` (rad): what the trim of pitch freedom solves on."""
+        last element turned by ``tail_turn`` (rad) and, when given, its flap deflected by ``tail_flap``
+        (rad, trailing edge down): what the trim of pitch freedom solves on."""
         sc = self.sc
         rows = []
 
@@ -399,18 +403,19 @@ class VortexModel(Model):
                 rows.append(s.loads)
 
         gust = self.gust if self.gust is not None and self.gust.present_at_start else None
-        VortexSolver(self._elements(tail_turn), _Fixed(alpha, 0.0), speed=sc.speed, density=sc.density,
-                     dt=sc.dt, steps=0, start="steady", gust=gust,
+        VortexSolver(self._elements(tail_turn, tail_flap), _Fixed(alpha, 0.0), speed=sc.speed,
+                     density=sc.density, dt=sc.dt, steps=0, start="steady", gust=gust,
                      ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([_Last()])
         return rows[-1]["cl"], rows[-1]["cm_pivot"]
 
-    def _elements(self, tail_turn):
+    def _elements(self, tail_turn, tail_flap=None):
         first = self.body[0] if isinstance(self.body, list) else self.body
-        return [first] + build_elements(self.sc, tail_turn)[1:]
+        return [first] + build_elements(self.sc, tail_turn, tail_flap)[1:]
 
-    def set_tail_turn(self, tail_turn):
-        """March with the last element turned by ``tail_turn`` (rad): the trimmed all-moving tail."""
-        self.body = self._elements(tail_turn)
+    def set_tail_turn(self, tail_turn, tail_flap=None):
+        """March with the last element turned by ``tail_turn`` (rad) and, when given, its flap at
+        ``tail_flap`` (rad): the trimmed tail (all-moving, or its flap)."""
+        self.body = self._elements(tail_turn, tail_flap)
 
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import copy
 import dataclasses
+import math
 import time
 
 from ..analysis.lag import add_quasi_steady, lag_summary
@@ -13,7 +14,7 @@ from ..analysis.summary import make_summary
 from ..analysis.turbulence import record_statistics, realisation_seeds_of, startup_interval, turbulence_summary
 from ..analysis.verdict import measured_warnings, warning_lines
 from ..dynamics.heave import HeaveMotion
-from ..dynamics.pitch import PitchHeaveMotion
+from ..dynamics.pitch import HeldAttitudeHeave, PitchHeaveMotion, heave_only_comparison
 from ..inputs.gusts import build_gust_field
 from ..inputs.scenario import Scenario, load_scenario
 from . import models
@@ -105,7 +106,7 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
     model = cls(sc, gust, heave if heave is not None else PrescribedMotion(sc.kinematics))
     if pitching:
         heave.trim(model.steady_loads)
-        model.set_tail_turn(heave.tail_trim)
+        model.set_tail_turn(*heave.tail_control)
     elif heave is not None:
         heave.trim(model.steady_cl)
     builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
@@ -120,6 +121,8 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
     error = model.run(step_obs)
     history = rec.history()
     summary = _summarise(model, history, builtin, rec.count - 1, time.perf_counter() - t_wall, error)
+    if pitching and gust is not None and ac.get("heave_only_run", True) and not error:
+        summary.update(_heave_only_companion(sc, cls, gust, heave, history, summary, progress))
     snapshots = snaps.arrays()
     snapshots.update(model.snapshot_extras())
     add_quasi_steady(history, sc, gust, steady=model.quasi_steady_cl)   # quasi-steady column, lag, validity
@@ -142,6 +145,27 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
         if hasattr(o, "summary"):
             summary.update(o.summary(history))
     return Result(history, summary, snapshots, sc, error=error)
+
+
+def trim_of(scenario):
+    """What the trim of pitch freedom sets (the summary's ``trimmed`` sentence), without running the
+    scenario; None without pitch freedom.  For ``unsteady check``.
+
+    Raises
+    ------
+    InputError
+        (key ``aircraft.cg``) when no trim exists within the limits
+        (:meth:`~unsteady.dynamics.pitch.PitchHeaveMotion.trim`).
+    """
+    sc = scenario if isinstance(scenario, Scenario) else load_scenario(scenario)
+    ac = sc.data.get("aircraft")
+    if not ac or "pitch_inertia" not in ac:
+        return None
+    gust = build_gust_field(sc) if sc.data.get("gust") else None
+    motion = PitchHeaveMotion(sc, sc.kinematics)
+    model = models.get(sc.data["run"].get("model", "vortex"))(sc, gust, motion)
+    motion.trim(model.steady_loads)
+    return motion.trimmed()
 
 
 def _summarise(model, history, builtin, steps, wall_time_s, error):
@@ -171,6 +195,45 @@ def _summarise(model, history, builtin, steps, wall_time_s, error):
 
 
 
+def _heave_only_companion(sc, cls, gust, pitched, history, summary, progress):
+    """Fly the trimmed aircraft of a free-pitch gust run again with its attitude held at the trim
+    (:class:`~unsteady.dynamics.pitch.HeldAttitudeHeave`: same model, step, gust, tail); adds the
+    columns ``n_heave_only`` and ``tail_load_heave_only_N`` to ``history`` (NaN past the rows it
+    computed) and returns the comparison block (:func:`~unsteady.dynamics.pitch.heave_only_comparison`)."""
+    import numpy as np
+    t_wall = time.perf_counter()
+    held = HeldAttitudeHeave(sc, sc.kinematics, pitched)
+    model = cls(sc, gust, held)
+    model.set_tail_turn(*pitched.tail_control)
+    rec = HistoryRecorder(sc.steps, sc.speed, sc.chord, list(model.COLUMNS))
+    obs = [rec] + ([StepProgress(sc.steps, label="heave-only run")] if progress else [])
+    error = model.run(obs)
+    only = rec.history()
+    held.finish(only)
+    rows = len(only["t"])
+    k = len(history["t"])
+    for src, dst in (("n", "n_heave_only"), ("tail_load_N", "tail_load_heave_only_N")):
+        col = np.full(k, np.nan)
+        m = min(k, rows)
+        col[:m] = only[src][:m]
+        history[dst] = col
+    peaks = make_summary(only, steps=rows - 1, wall_time_s=0.0, impulse_times=singular_times(sc), dt=sc.dt,
+                         chord_time=sc.chord / sc.speed, running_mean_s=running_mean_s(only, sc),
+                         settle_s=startup_interval(sc) if gust.present_at_start else 0.0,
+                         impulsive_start=sc.data["run"].get("start") == "impulsive")
+    out = heave_only_comparison({"n_max": summary.get("n_max"), "n_min": summary.get("n_min"),
+                                 "tail_load_N": history.get("tail_load_N", [])},
+                                {**peaks, "tail_load_N": only["tail_load_N"]}, rows)
+    out["heave_only"]["alpha_deg"] = math.degrees(pitched.alpha_trim)
+    out["heave_only"]["note"] = ("the same trimmed aircraft, gust, model and step with the attitude held at "
+                                 "the trim (heave only); dn_peak is the larger of n_max - 1 and 1 - n_min, "
+                                 "the tail-load ratio compares the peak changes from the trimmed tail load")
+    out["heave_only"]["wall_time_s"] = time.perf_counter() - t_wall
+    if error:
+        out["heave_only"]["error"] = error
+    return out
+
+
 def _further_realisations(sc, seeds, progress):
     """The load-factor statistics of the scenario flown again in the turbulence of each seed
     (same model and step); ([statistics], [notes of realisations that gave none])."""
@@ -180,6 +243,8 @@ def _further_realisations(sc, seeds, progress):
         g = data["gust"][0] if isinstance(data["gust"], list) else data["gust"]
         g["seed"] = int(seed)
         g.pop("realisations", None)
+        if "pitch_inertia" in (data.get("aircraft") or {}):
+            data["aircraft"]["heave_only_run"] = False     # only the statistics are kept
         one = dataclasses.replace(sc, data=data, warnings=())
         res = simulate(one, progress=progress, label=f"realisation {i}/{len(seeds) + 1}")
         st = record_statistics(res.history, one) if not res.error else None

@@ -7,7 +7,11 @@ its ``incidence`` about its leading edge and set with that leading edge at
 ``position`` = (x, z) from the first's leading edge, in the first's chord
 axes at zero pitch (x aft, z up).  All move as one rigid assembly; each
 sheds its own wake from its own trailing edge (one Kelvin row per element,
-:class:`~unsteady.vortex.solver.VortexSolver`).
+:class:`~unsteady.vortex.solver.VortexSolver`).  A further element with
+``flap_hinge`` is a hinged-flap camber line
+(:class:`~unsteady.vortex.flap.HingedFlapCamber`, a node on its hinge) held
+at its ``flap_deflection``; its loads row carries the hinge moment ``ch``,
+on its own flap chord, which the combined row gives as ``ch_<i>``.
 
 Combining the loads (common practice: forces add, moments transfer by
 their arms).  With q = rho U^2 / 2, c_r the reference chord and element
@@ -81,6 +85,8 @@ def combine_loads(rows, bodies, alpha, h):
         # about R: M_R = M_P - (z_R - h) Fx + x_R Fz, all over q c_r^2
         cm_i = cmp_i - (z_r - h) / c_r * cd_i + x_r / c_r * cl_i
         out[f"cl_{i}"], out[f"cd_{i}"], out[f"cm_{i}"] = cl_i, cd_i, cm_i
+        if i > 1 and "ch" in row:                # a further element's own flap (on its own flap chord)
+            out[f"ch_{i}"] = row["ch"]
         cl, cd, cm, cmp = cl + cl_i, cd + cd_i, cm + cm_i, cmp + cmp_i
         bound += row["gamma_bound_m2_s"]
     out["gamma_wake_m2_s"] = rows[0]["gamma_wake_m2_s"] + rows[0]["gamma_bound_m2_s"] - bound
@@ -99,21 +105,35 @@ def combine_loads(rows, bodies, alpha, h):
     return out
 
 
-def build_elements(sc, tail_turn=0.0):
+def build_elements(sc, tail_turn=0.0, tail_flap=None):
     """The placed camber lines of a ``[[airfoil]]`` scenario, first element first (each a Body in the
     assembly's frame, metres about the pitch axis, ``sc.pivot``); ``tail_turn`` (rad, nose-up) is
-    added to the last element's incidence (the trim of an all-moving tail, dynamics.pitch)."""
-    from ..inputs.sections import camber_elements, section_from_shape
+    added to the last element's incidence (the trim of an all-moving tail, dynamics.pitch).
+
+    A further element with ``flap_hinge`` is a :class:`~unsteady.vortex.flap.HingedFlapCamber`
+    held at its ``flap_deflection`` (deg), the last element's at ``tail_flap`` (rad, trailing edge
+    down) instead when given (the trim of a tail's flap, dynamics.pitch)."""
+    from ..inputs.sections import camber_elements, hinge_nodes, section_from_shape
     from .bodies import build_body
+    from .flap import HeldLaw, HingedFlapCamber
     first = build_body(sc)
     bodies = [first]
     p_ref = sc.pivot * sc.chord
     more = sc.data["airfoil"]["_more"]
     for k, el in enumerate(more):
         sec = section_from_shape(el["shape"], sc.base_dir)
+        last = k == len(more) - 1
+        turn = tail_turn if last else 0.0
+        if "flap_hinge" in el:
+            nodes, j = hinge_nodes(el["elements"], el["flap_hinge"])
+            b = Body.from_section(sec, el["elements"], el["chord"], 0.0, x_nodes=nodes)
+            placed = place_element(b, math.radians(el["incidence"]) + turn, el["position"], p_ref)
+            beta = (tail_flap if last and tail_flap is not None
+                    else math.radians(el.get("flap_deflection", 0.0)))
+            bodies.append(HingedFlapCamber(placed, j, HeldLaw(beta)))
+            continue
         nodes = camber_elements(sec, el["elements"]).x_nodes
         b = Body.from_section(sec, el["elements"], el["chord"], 0.0, x_nodes=nodes)
-        turn = tail_turn if k == len(more) - 1 else 0.0
         bodies.append(place_element(b, math.radians(el["incidence"]) + turn, el["position"], p_ref))
     return bodies
 

@@ -17,7 +17,7 @@ import numpy as np
 from ..inputs.sections import hinge_nodes
 from .bodies import Body, BodyPoints, rotate, to_inertial
 
-__all__ = ["hinge_nodes", "HingedFlapCamber", "build_flap_body", "BETA_TOL"]
+__all__ = ["hinge_nodes", "HingedFlapCamber", "HeldLaw", "build_flap_body", "BETA_TOL"]
 
 #: Changes of the deflection below this (rad) keep the flap's points and the factored matrix
 #: as they are: a smoothed law creeps towards its end values for many steps, and a
@@ -29,6 +29,26 @@ def _deflect(xi, zeta, xi_h, zeta_h, beta):
     """Points of the flap rotated by beta (trailing edge down) about the hinge, in the body frame."""
     x, z = to_inertial(xi - xi_h, zeta - zeta_h, beta, 0.0)
     return x + xi_h, z + zeta_h
+
+
+class HeldLaw:
+    """A deflection held still at ``beta`` (rad): the law of a further element's flap
+    (``[[airfoil]] flap_deflection``), with the law interface the flap bodies read."""
+
+    def __init__(self, beta):
+        self.beta = float(beta)
+
+    def value(self, t):
+        return self.beta + 0.0 * np.asarray(t, float) if np.ndim(t) else self.beta
+
+    def rate(self, t):
+        return 0.0 * np.asarray(t, float) if np.ndim(t) else 0.0
+
+    def accel(self, t):
+        return self.rate(t)
+
+    def singular_times(self):
+        return []
 
 
 class HeldDeflection:

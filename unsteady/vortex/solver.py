@@ -590,6 +590,9 @@ class VortexSolver:
                  "leading_edge_sites": self._le_sites}
         if hasattr(self.models[0], "deflection"):
             extra["flap_deg"] = math.degrees(self.models[0].deflection(s.t))
+        for i, m in enumerate(self.models[1:], start=2):    # a further element's own flap
+            if hasattr(m, "deflection"):
+                extra[f"flap_deg_{i}"] = math.degrees(m.deflection(s.t))
         if self.ground is not None:
             extra["ground_clearance_m"] = s.clearance
         state = StepState(n=s.n, t=s.t, alpha=s.alpha, alpha_dot=s.alpha_dot, h=s.h, h_dot=s.h_dot,
