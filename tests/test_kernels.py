@@ -64,3 +64,93 @@ def test_normal_influence_matches_velocity_dot_normal():
         e[j] = 1.0
         u, w = twin_velocity(xt, zt, xs, zs, e, 0.0)
         assert np.allclose(a[:, j], u * nx + w * nz, rtol=1e-12, atol=1e-14)
+
+
+# -- several elements: a core per (target group, source group), vortex.elements.CrossCores ----------------
+
+def twin_grouped(xt, zt, gt, xs, zs, gamma, gs, core4, core4_img, z_g=None):
+    """Plain-NumPy sum with the core looked up per pair (Vatistas et al. 1991, n = 2), images optional."""
+    dx = xt[:, None] - xs[None, :]
+    dz = zt[:, None] - zs[None, :]
+    r2 = dx * dx + dz * dz
+    f = gamma[None, :] / (2 * np.pi * np.sqrt(r2 * r2 + core4[gt[:, None], gs[None, :]]))
+    u, w = (-f * dz).sum(axis=1), (f * dx).sum(axis=1)
+    if z_g is not None:
+        dzi = zt[:, None] - (2 * z_g - zs[None, :])
+        r2 = dx * dx + dzi * dzi
+        f = -gamma[None, :] / (2 * np.pi * np.sqrt(r2 * r2 + core4_img[gt[:, None], gs[None, :]]))
+        u, w = u + (-f * dzi).sum(axis=1), w + (f * dx).sum(axis=1)
+    return u, w
+
+
+def _groups(rng, n_t, n_s):
+    core4 = rng.uniform(0.0, 0.1, size=(2, 4)) ** 4
+    core4_img = rng.uniform(0.0, 0.1, size=(2, 4)) ** 4
+    return (rng.integers(0, 2, n_t).astype(np.int64), rng.integers(0, 4, n_s).astype(np.int64),
+            core4, core4_img)
+
+
+@pytest.mark.parametrize("z_g", [None, -1.5])
+def test_grouped_velocity_matches_numpy_twin(z_g):
+    from unsteady.vortex.kernels import induced_velocity_grouped
+    rng = np.random.default_rng(5)
+    xt, zt = rng.normal(size=(2, 40))
+    xs, zs, g = rng.normal(size=(3, 70))
+    gt, gs, c4, c4i = _groups(rng, 40, 70)
+    u, w = np.empty(40), np.empty(40)
+    induced_velocity_grouped(xt, zt, gt, xs, zs, g, gs, c4, c4i, z_g is not None, z_g or 0.0, u, w)
+    ut, wt = twin_grouped(xt, zt, gt, xs, zs, g, gs, c4, c4i, z_g)
+    assert np.allclose(u, ut, rtol=1e-11, atol=1e-12 * np.abs(ut).max())
+    assert np.allclose(w, wt, rtol=1e-11, atol=1e-12 * np.abs(wt).max())
+
+
+@pytest.mark.parametrize("m", [90, 800])             # one block; WAKE_BLOCKS on threads
+@pytest.mark.parametrize("z_g", [None, -1.5])
+def test_wake_sum_once_per_pair_matches_the_full_sum(z_g, m):
+    # the wake on itself through one core, each pair once (antisymmetric kernel), plus the bound
+    # vortices through their group's core: against the full NumPy sum (a vortex on itself adds nothing
+    # but, with the ground, its own image)
+    from unsteady.vortex.kernels import wake_velocities_grouped
+    rng = np.random.default_rng(6)
+    nb, r_c = 25, 0.07
+    wx, wz, wg = rng.normal(size=(3, m))
+    bx, bz, bg = rng.normal(size=(3, nb))
+    bgroup = rng.integers(0, 2, nb).astype(np.int64)
+    wgroup = rng.integers(0, 4, m).astype(np.int64)
+    c4, c4i = rng.uniform(0.0, 0.1, size=(2, 2, 4)) ** 4
+    u, w = np.empty(m), np.empty(m)
+    wake_velocities_grouped(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, c4, c4i, z_g is not None,
+                            z_g or 0.0, u, w)
+    full4 = np.full((1, 1), r_c ** 4)
+    zero = np.zeros(m, np.int64)
+    uw, ww = twin_grouped(wx, wz, zero, wx, wz, wg, zero, full4, full4, z_g)
+    # the bound vortices: the core of (bound group, wake group), i.e. the transposed lookup
+    ub, wb = twin_grouped(wx, wz, wgroup, bx, bz, bg, bgroup, c4.T.copy(), c4i.T.copy(), z_g)
+    for got, want in ((u, uw + ub), (w, ww + wb)):
+        assert np.allclose(got, want, rtol=1e-10, atol=1e-12 * np.abs(want).max())
+
+
+def test_wake_blocks_cover_the_rows_with_equal_pairs():
+    # the threaded wake sum's fixed row blocks: every row once, pair counts within one row of equal
+    from unsteady.vortex.kernels import WAKE_BLOCKS, _pair_blocks
+    m = 1000
+    e = _pair_blocks(m, WAKE_BLOCKS)
+    assert e[0] == 0 and e[-1] == m and np.all(np.diff(e) > 0)
+    pairs = np.array([sum(m - 1 - i for i in range(a, b)) for a, b in zip(e[:-1], e[1:])])
+    assert np.abs(pairs - m * (m - 1) / 2 / WAKE_BLOCKS).max() <= m
+
+
+@pytest.mark.parametrize("z_g", [None, -1.5])
+def test_grouped_normal_influence_is_velocity_dot_normal(z_g):
+    from unsteady.vortex.kernels import normal_influence_grouped
+    rng = np.random.default_rng(7)
+    xt, zt = rng.normal(size=(2, 20))
+    th = rng.uniform(0, 2 * np.pi, 20)
+    nx, nz = np.cos(th), np.sin(th)
+    xs, zs = rng.normal(size=(2, 6))
+    gt, gs, c4, c4i = _groups(rng, 20, 6)
+    a = np.empty((20, 6))
+    normal_influence_grouped(xt, zt, nx, nz, gt, xs, zs, gs, c4, c4i, z_g is not None, z_g or 0.0, a)
+    for j in range(6):
+        u, w = twin_grouped(xt, zt, gt, xs[j:j + 1], zs[j:j + 1], np.ones(1), gs[j:j + 1], c4, c4i, z_g)
+        assert np.allclose(a[:, j], u * nx + w * nz, rtol=1e-11, atol=1e-13)

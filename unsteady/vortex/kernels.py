@@ -286,7 +286,10 @@ def induced_velocity_grouped(xt, zt, gt, xs, zs, gamma, gs, core4, core4_img, gr
         w[i] = sw * inv_2pi
 
 
-@njit(fastmath=True, cache=True, error_model="numpy")
+#: blocks of rows of the threaded wake sum (fixed, so that the result does not depend on the threads)
+WAKE_BLOCKS = 16
+
+
 def wake_velocities_grouped(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, z_g,
                             u, w):
     """Induced velocity (m/s) at every wake vortex: the wake on itself and the bound vortices, in one pass.
@@ -297,7 +300,47 @@ def wake_velocities_grouped(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, 
     both images, whose distance is symmetric in the pair).  The bound
     vortex k acts on wake vortex i through ``core4[bgroup[k], wgroup[i]]``
     (its image through ``core4_img``).  u, w are overwritten.
+
+    Large sums run on threads over ``WAKE_BLOCKS`` blocks of rows of equal
+    pair counts, each summing into its own buffer, the buffers added in
+    block order: the same arithmetic on any number of threads.  Small ones
+    take one block on one thread.
     """
+    m = wx.shape[0]
+    blocks = WAKE_BLOCKS if m * m // 2 >= PARALLEL_PAIRS else 1
+    su = np.empty((blocks, m))
+    sw = np.empty((blocks, m))
+    edges = _pair_blocks(m, blocks)
+    args = (wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, float(z_g), edges, su, sw)
+    if blocks > 1:
+        _wake_pairs_threads(*args)
+    else:
+        _wake_pairs_one(*args)
+    _add_blocks(su, sw, u, w)
+
+
+@njit(cache=True)
+def _pair_blocks(m, blocks):
+    """Row edges of ``blocks`` blocks with about equal numbers of pairs (row i has m - 1 - i)."""
+    edges = np.empty(blocks + 1, dtype=np.int64)
+    edges[0] = 0
+    total = m * (m - 1) / 2.0
+    i = 0
+    done = 0.0
+    for k in range(1, blocks):
+        target = total * k / blocks
+        while i < m and done < target:
+            done += m - 1 - i
+            i += 1
+        edges[k] = i
+    edges[blocks] = m
+    return edges
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _wake_pairs_rows(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, z_g, i0, i1,
+                     u, w):
+    """Rows i0 <= i < i1 of the pair sum into the buffers ``u, w`` (length m, zeroed here)."""
     m = wx.shape[0]
     nb = bx.shape[0]
     inv_2pi = 1.0 / TWO_PI
@@ -305,7 +348,7 @@ def wake_velocities_grouped(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, 
     for i in range(m):
         u[i] = 0.0
         w[i] = 0.0
-    for i in range(m):
+    for i in range(i0, i1):
         x_i = wx[i]
         z_i = wz[i]
         g_i = wg[i]
@@ -350,6 +393,34 @@ def wake_velocities_grouped(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, 
     for i in range(m):
         u[i] *= inv_2pi
         w[i] *= inv_2pi
+
+
+@njit(cache=True, error_model="numpy")
+def _wake_pairs_one(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, z_g, edges, su, sw):
+    for k in range(edges.shape[0] - 1):
+        _wake_pairs_rows(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, z_g,
+                         edges[k], edges[k + 1], su[k], sw[k])
+
+
+@njit(parallel=True, cache=True, error_model="numpy")
+def _wake_pairs_threads(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, z_g, edges,
+                        su, sw):
+    for k in prange(edges.shape[0] - 1):
+        _wake_pairs_rows(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, core4, core4_img, ground, z_g,
+                         edges[k], edges[k + 1], su[k], sw[k])
+
+
+@njit(cache=True)
+def _add_blocks(su, sw, u, w):
+    """u, w = the blocks' buffers added in block order."""
+    m = u.shape[0]
+    for i in range(m):
+        u[i] = su[0, i]
+        w[i] = sw[0, i]
+    for k in range(1, su.shape[0]):
+        for i in range(m):
+            u[i] += su[k, i]
+            w[i] += sw[k, i]
 
 
 @njit(fastmath=True, cache=True, error_model="numpy")
