@@ -55,3 +55,41 @@ def test_elements_round_trip_through_toml():
     sc = load_scenario(raw)
     again = load_scenario(tomllib.loads(sc.to_toml()))
     assert again.data == sc.data
+
+
+def _single_and_pair_runs():
+    from unsteady import simulate
+    base = {"flow": {"speed": 10.0, "density": 1.2}, "run": {"chords": 1.5, "wake": "free"},
+            "motion": {"pitch": {"law": "ramp", "from": 0.0, "to": 20.0, "start": 0.0, "duration": 0.02}},
+            "output": {"plots": False}}
+    wing = {"shape": "naca2412", "chord": C, "elements": 12}
+    singles = [dict(base, airfoil=wing), dict(base, airfoil=dict(wing, lesp_critical=0.1)),
+               dict(base, airfoil=wing, ground={"height": 0.1}), dict(base, airfoil=dict(wing, flap_hinge=0.75))]
+    pair = dict(base, airfoil=[wing, {"shape": "flat", "chord": 0.5 * C, "elements": 6,
+                                      "position": [2.5 * C, 0.0], "incidence": 0.0}])
+    return simulate, singles, pair
+
+
+def test_single_elements_never_take_the_cross_core_path(monkeypatch):
+    # Histories are bit-sensitive (the free wake is chaotic; common practice of this project, DEVELOPERS.md):
+    # the cross cores and the once-per-pair wake sum of several elements must never run for one element,
+    # whatever else it has (leading-edge shedding, a ground, a flap); two elements do take them.
+    from unsteady.vortex import kernels
+    simulate, singles, pair = _single_and_pair_runs()
+    calls = []
+
+    def spy(name):
+        real = getattr(kernels, name)
+
+        def wrapped(*a):
+            calls.append(name)
+            return real(*a)
+        return wrapped
+
+    for name in ("induced_velocity_grouped", "wake_velocities_grouped", "normal_influence_grouped"):
+        monkeypatch.setattr(kernels, name, spy(name))
+    for raw in singles:
+        simulate(load_scenario(raw))
+    assert calls == []
+    simulate(load_scenario(pair))
+    assert {"induced_velocity_grouped", "wake_velocities_grouped", "normal_influence_grouped"} <= set(calls)
