@@ -21,8 +21,8 @@ Sources, each named beside its check:
   vortices are force-free, so for them the two terms cancel).  Derived here from those
   two results.  The same per-element impulse is unsteady.vortex.elements.ElementImpulse,
   which uses the cores of the solver's own sums.
-- Vortex-blob regularisation (R. Krasny, J. Fluid Mech. 167, 1986; Katz & Plotkin 2001,
-  sec. 13.8): a wake vortex meets another element through a core no smaller than that
+- Vortex-blob regularisation (R. Krasny, J. Comput. Phys. 65, 1986; Katz & Plotkin 2001,
+  ch. 13; cited from memory): a wake vortex meets another element through a core no smaller than that
   element's bound-vortex spacing, max(r_c, 2 c_b / N_b) (common practice), both ways.
 """
 

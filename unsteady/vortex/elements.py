@@ -170,8 +170,10 @@ class CrossingGuard:
 def cross_core_radii(bodies, r_c):
     """Per element b, the core (m) through which another element's wake meets it: max(r_c, 2 c_b / N_b).
 
-    The usual vortex-blob regularisation (R. Krasny, J. Fluid Mech. 167, 1986;
-    J. Katz & A. Plotkin, *Low-Speed Aerodynamics*, 2nd ed., 2001, sec. 13.8):
+    The usual vortex-blob regularisation (R. Krasny, "Desingularization of
+    periodic vortex sheet roll-up", J. Comput. Phys. 65, 1986; J. Katz &
+    A. Plotkin, *Low-Speed Aerodynamics*, 2nd ed., 2001, ch. 13; both cited
+    from memory):
     a vortex passing close to lumped bound vortices must not resolve them one
     by one, so its core is no smaller than their spacing (about pi c / (2N)
     at mid-chord for cosine spacing, so 2 c / N; common practice), nor than
