@@ -1,11 +1,16 @@
 """Each element's pressure-route lift against its vortex-impulse lift, at the default step and finer.
 
-Usage: .venv/bin/python tools/check_element_routes.py [SCENARIO ...] [--halvings K] [--chords C] [--point-cores]
+Usage: .venv/bin/python tools/check_element_routes.py [SCENARIO ...] [--case gust|pitching] [--halvings K]
+                                                      [--chords C] [--point-cores] [--where]
 
-Without a scenario: a NACA 2412 wing of 0.25 m (30 elements) with a flat tail of
-0.12 m (15 elements) 0.9 m behind it and 0.05 m up, held at 3 degrees, through a
-1-cosine gust of 25 chords, 3 m/s (a case of our own; the wing's wake passes
-through the tail).  For each run: per element, the largest difference of the
+Without a scenario, a case of our own: ``gust`` (default), a NACA 2412 wing of
+0.25 m (30 elements) with a flat tail of 0.12 m (15 elements) 0.9 m behind it
+and 0.05 m up, held at 3 degrees, through a 1-cosine gust of 25 chords, 3 m/s
+(the wing's wake passes within 0.002 tail chords of the tail's vortices);
+``pitching``, the validation test's case (tests/validation/test_elements_classical.py):
+a wing of 20 elements and a tail of 0.48 chords (10 elements) 3 chords behind it
+in the wing's wake plane, pitching together 3 degrees about 3 at k = 0.3, so that
+the wake sweeps through the tail (``--chords`` default 10 there).  For each run: per element, the largest difference of the
 pressure-route ``cl_<i>`` and the impulse-route lift
 (:class:`unsteady.vortex.elements.ElementImpulse`) after the first five rows, in
 % of that element's peak |cl_<i>|, and the rms difference, at the default step,
@@ -29,7 +34,14 @@ WING = {"shape": "naca2412", "thick": False, "chord": 0.25, "elements": 30}
 TAIL = {"shape": "flat", "chord": 0.12, "elements": 15, "position": [0.9, 0.05], "incidence": -2.0}
 
 
-def builtin(chords):
+def builtin(chords, case="gust"):
+    if case == "pitching":
+        return {"flow": {"speed": 15.0, "density": 1.2},
+                "airfoil": [{"shape": "naca2412", "chord": 0.25, "elements": 20},
+                            {"shape": "flat", "chord": 0.12, "elements": 10, "position": [0.75, 0.0],
+                             "incidence": -2.0}],
+                "motion": {"pitch": {"law": "sine", "amplitude": 3.0, "reduced_frequency": 0.3, "mean": 3.0}},
+                "run": {"chords": chords, "wake": "free"}, "output": {"plots": False}}
     return {"flow": {"speed": 15.0, "density": 1.2}, "airfoil": [WING, TAIL],
             "motion": {"pitch": {"law": "constant", "value": 3.0}},
             "gust": {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 6.25, "arrival": 0.05},
@@ -82,7 +94,8 @@ def main():
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("scenarios", nargs="*")
     ap.add_argument("--halvings", type=int, default=2)
-    ap.add_argument("--chords", type=float, default=40.0)
+    ap.add_argument("--case", choices=("gust", "pitching"), default="gust")
+    ap.add_argument("--chords", type=float, default=None, help="default 40 (gust), 10 (pitching)")
     ap.add_argument("--point-cores", action="store_true")
     ap.add_argument("--where", action="store_true", help="also the five worst rows of each element")
     args = ap.parse_args()
@@ -92,7 +105,9 @@ def main():
         solver.VortexSolver.__init__ = functools.partialmethod(solver.VortexSolver.__init__, cross_core=False)
     label = " (point cores)" if args.point_cores else ""
     if not args.scenarios:
-        measure(builtin(args.chords), "wing + tail, 1-cosine gust" + label, args.halvings, not args.point_cores, args.where)
+        chords = args.chords or (10.0 if args.case == "pitching" else 40.0)
+        name = "wing + tail, 1-cosine gust" if args.case == "gust" else "wing + tail pitching, tail in the wake"
+        measure(builtin(chords, args.case), name + label, args.halvings, not args.point_cores, args.where)
     for path in args.scenarios:
         measure(path, path + label, args.halvings, not args.point_cores, args.where)
 
