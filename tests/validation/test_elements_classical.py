@@ -214,23 +214,28 @@ def route_gaps(bodies, rec, imp):
     return gaps
 
 
-def test_pressure_and_impulse_lift_agree_per_element_with_the_wake_through_the_tail():
+@pytest.fixture(scope="module")
+def wake_tail():
+    return wake_through_the_tail(True)
+
+
+def test_pressure_and_impulse_lift_agree_per_element_with_the_wake_through_the_tail(wake_tail):
     # Vortex impulse per element (Wu 1981; Saffman 1992, sec. 3.2; module docstring) against each
     # element's pressure-route lift while the wing's wake sweeps through the tail: within 1 % of each
     # element's peak at the default step (measured: wing 0.17 %, tail 0.66 %), with the wake meeting
     # the other element through its element-spacing core (vortex blob, Krasny 1986).  Without it (the
     # small core r_b = 0.1 U dt both ways) the tail's two routes part by more (measured 1.7 %): the
     # check has teeth.
-    gaps = route_gaps(*wake_through_the_tail(True))
+    gaps = route_gaps(*wake_tail)
     assert max(gaps) < 0.01, gaps
     bare = route_gaps(*wake_through_the_tail(False))
     assert bare[1] > 0.01, bare
 
 
-def test_kelvin_per_element_to_round_off_while_the_wake_sweeps_the_tail():
+def test_kelvin_per_element_to_round_off_while_the_wake_sweeps_the_tail(wake_tail):
     # Kelvin's circulation theorem (Katz & Plotkin 2001, sec. 2.7): each element's bound circulation
     # plus all it has shed stays its value at the start (steady start), to round-off, with the cross cores
-    bodies, rec, _ = wake_through_the_tail(True)
+    bodies, rec, _ = wake_tail
     n0 = bodies[0].n
     slices = (slice(0, n0), slice(n0, None))
     start = [rec.steps[0]["gamma"][sl].sum() for sl in slices]
