@@ -93,3 +93,21 @@ def test_single_elements_never_take_the_cross_core_path(monkeypatch):
     assert calls == []
     simulate(load_scenario(pair))
     assert {"induced_velocity_grouped", "wake_velocities_grouped", "normal_influence_grouped"} <= set(calls)
+
+
+def test_cross_cores_own_element_small_other_elements_their_spacing():
+    # a wake vortex meets its own element through r_b, another element b through max(r_c, 2 c_b / N_b)
+    # (vortex blob of about b's bound-vortex spacing; common practice), the same both ways (one table
+    # entry serves the vortex on b's points and b's bound vortices on the vortex); images count as
+    # another element's; soft (leading-edge) vortices take r_soft on their own element
+    from unsteady.vortex.elements import CrossCores
+    wing, tail = flat(20, C), flat(5, 0.4 * C)
+    r_c, r_b, r_soft = 0.004, 0.0004, 0.02
+    cc = CrossCores([wing, tail], [0, 1], r_c, r_b, r_soft)
+    r = cc.core4 ** 0.25
+    ri = cc.core4_img ** 0.25
+    assert np.allclose(cc.r_x, [max(r_c, 2 * C / 20), max(r_c, 2 * 0.4 * C / 5)])
+    assert np.allclose(r[:, :2], [[r_b, 2 * C / 20], [2 * 0.4 * C / 5, r_b]])
+    assert np.allclose(ri[:, :2], [[2 * C / 20] * 2, [2 * 0.4 * C / 5] * 2])
+    assert np.allclose(r[:, 2:], [[r_soft, max(r_soft, 2 * C / 20)], [max(r_soft, 2 * 0.4 * C / 5), r_soft]])
+    assert list(cc.wake_groups(np.array([0, 1, 1, 0]), soft=np.array([3]))) == [0, 1, 1, 2]

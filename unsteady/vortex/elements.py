@@ -33,7 +33,7 @@ import numpy as np
 
 from .bodies import Body, rotate, to_inertial
 
-__all__ = ["build_elements", "combine_loads", "place_element"]
+__all__ = ["CrossCores", "ElementImpulse", "build_elements", "combine_loads", "cross_core_radii", "place_element"]
 
 
 def place_element(body: Body, incidence: float, position, ref_pivot_m: float) -> Body:
