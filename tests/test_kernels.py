@@ -104,42 +104,6 @@ def test_grouped_velocity_matches_numpy_twin(z_g):
     assert np.allclose(w, wt, rtol=1e-11, atol=1e-12 * np.abs(wt).max())
 
 
-@pytest.mark.parametrize("m", [90, 800])             # one block; WAKE_BLOCKS on threads
-@pytest.mark.parametrize("z_g", [None, -1.5])
-def test_wake_sum_once_per_pair_matches_the_full_sum(z_g, m):
-    # the wake on itself through one core, each pair once (antisymmetric kernel), plus the bound
-    # vortices through their group's core: against the full NumPy sum (a vortex on itself adds nothing
-    # but, with the ground, its own image)
-    from unsteady.vortex.kernels import wake_velocities_grouped
-    rng = np.random.default_rng(6)
-    nb, r_c = 25, 0.07
-    wx, wz, wg = rng.normal(size=(3, m))
-    bx, bz, bg = rng.normal(size=(3, nb))
-    bgroup = rng.integers(0, 2, nb).astype(np.int64)
-    wgroup = rng.integers(0, 4, m).astype(np.int64)
-    c4, c4i = rng.uniform(0.0, 0.1, size=(2, 2, 4)) ** 4
-    u, w = np.empty(m), np.empty(m)
-    wake_velocities_grouped(wx, wz, wg, wgroup, r_c, bx, bz, bg, bgroup, c4, c4i, z_g is not None,
-                            z_g or 0.0, u, w)
-    full4 = np.full((1, 1), r_c ** 4)
-    zero = np.zeros(m, np.int64)
-    uw, ww = twin_grouped(wx, wz, zero, wx, wz, wg, zero, full4, full4, z_g)
-    # the bound vortices: the core of (bound group, wake group), i.e. the transposed lookup
-    ub, wb = twin_grouped(wx, wz, wgroup, bx, bz, bg, bgroup, c4.T.copy(), c4i.T.copy(), z_g)
-    for got, want in ((u, uw + ub), (w, ww + wb)):
-        assert np.allclose(got, want, rtol=1e-10, atol=1e-12 * np.abs(want).max())
-
-
-def test_wake_blocks_cover_the_rows_with_equal_pairs():
-    # the threaded wake sum's fixed row blocks: every row once, pair counts within one row of equal
-    from unsteady.vortex.kernels import WAKE_BLOCKS, _pair_blocks
-    m = 1000
-    e = _pair_blocks(m, WAKE_BLOCKS)
-    assert e[0] == 0 and e[-1] == m and np.all(np.diff(e) > 0)
-    pairs = np.array([sum(m - 1 - i for i in range(a, b)) for a, b in zip(e[:-1], e[1:])])
-    assert np.abs(pairs - m * (m - 1) / 2 / WAKE_BLOCKS).max() <= m
-
-
 @pytest.mark.parametrize("z_g", [None, -1.5])
 def test_grouped_normal_influence_is_velocity_dot_normal(z_g):
     from unsteady.vortex.kernels import normal_influence_grouped

@@ -320,7 +320,11 @@ class CrossCores:
 
     Groups: element b's points are group b; a wake vortex of element k is
     group k, or ``n + k`` when soft (n elements).  ``core4[b, g]`` and
-    ``core4_img[b, g]``: fourth powers of the cores (m^4).
+    ``core4_img[b, g]``: fourth powers of the cores (m^4).  The wake's sum on
+    itself is the single body's (one core ``r_c``): taken once per pair
+    (the kernel is antisymmetric) it would halve the square roots, but the
+    scattered updates kept numba from vectorizing it and it ran slower than
+    the full vectorized sum (tools/bench_elements.py docstring).
     """
 
     def __init__(self, bodies, site_body, r_c, r_b, r_soft):
@@ -338,6 +342,9 @@ class CrossCores:
                 img[b, n + k] = max(r_soft, self.r_x[b])
         self.core4 = np.ascontiguousarray(core ** 4)
         self.core4_img = np.ascontiguousarray(img ** 4)
+        #: the same, indexed [wake group, body] (a body's bound vortices on the wake)
+        self.core4_t = np.ascontiguousarray(self.core4.T)
+        self.core4_img_t = np.ascontiguousarray(self.core4_img.T)
         self.bound_group = np.repeat(np.arange(n, dtype=np.int64), [b.n for b in bodies])
         self.target_group = np.concatenate((self.bound_group, self.bound_group))   # collocation, vortex points
 
@@ -368,17 +375,20 @@ class CrossCores:
         return a[:, 0]
 
     def wake_velocities(self, store, U, r_c, gust, t, soft, z_g):
-        """:meth:`~unsteady.vortex.wake.VortexStore.velocities` with these cores, the wake's sum on
-        itself taken once per pair (:func:`~unsteady.vortex.kernels.wake_velocities_grouped`)."""
-        from .kernels import wake_velocities_grouped
+        """:meth:`~unsteady.vortex.wake.VortexStore.velocities` with these cores: the wake on itself
+        through ``r_c`` (the single body's sum), the bound vortices of body b on a wake vortex of group
+        g through ``core4[b, g]``."""
+        from .kernels import induced_velocity, induced_velocity_grouped
         m, nb = store.m, store.nb
         wx, wz, wg = store.wake()
         u, w = store.vel_u[:m], store.vel_w[:m]
-        wake_velocities_grouped(wx, wz, wg, self.wake_groups(store.site[:m], soft), r_c,
-                                store.x[:nb], store.z[:nb], store.g[:nb], self.bound_group,
-                                self.core4, self.core4_img, z_g is not None,
-                                0.0 if z_g is None else float(z_g), u, w)
-        u += U
+        bu, bw = store.bu[:m], store.bw[:m]
+        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground=z_g)
+        induced_velocity_grouped(wx, wz, self.wake_groups(store.site[:m], soft), store.x[:nb], store.z[:nb],
+                                 store.g[:nb], self.bound_group, self.core4_t, self.core4_img_t,
+                                 z_g is not None, 0.0 if z_g is None else float(z_g), bu, bw)
+        u += bu + U
+        w += bw
         if gust is not None:
             gu, gw = gust.velocity(wx, wz, t)
             u += gu
