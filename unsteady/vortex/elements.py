@@ -321,10 +321,8 @@ class CrossCores:
     Groups: element b's points are group b; a wake vortex of element k is
     group k, or ``n + k`` when soft (n elements).  ``core4[b, g]`` and
     ``core4_img[b, g]``: fourth powers of the cores (m^4).  The wake's sum on
-    itself is the single body's (one core ``r_c``): taken once per pair
-    (the kernel is antisymmetric) it would halve the square roots, but the
-    scattered updates kept numba from vectorizing it and it ran slower than
-    the full vectorized sum (tools/bench_elements.py docstring).
+    itself (one core ``r_c``) is taken once per pair
+    (:func:`~unsteady.vortex.kernels.wake_self_velocity`).
     """
 
     def __init__(self, bodies, site_body, r_c, r_b, r_soft):
@@ -376,14 +374,14 @@ class CrossCores:
 
     def wake_velocities(self, store, U, r_c, gust, t, soft, z_g):
         """:meth:`~unsteady.vortex.wake.VortexStore.velocities` with these cores: the wake on itself
-        through ``r_c`` (the single body's sum), the bound vortices of body b on a wake vortex of group
-        g through ``core4[b, g]``."""
-        from .kernels import induced_velocity, induced_velocity_grouped
+        through ``r_c``, each pair once (:func:`~unsteady.vortex.kernels.wake_self_velocity`), the
+        bound vortices of body b on a wake vortex of group g through ``core4[b, g]``."""
+        from .kernels import induced_velocity_grouped, wake_self_velocity
         m, nb = store.m, store.nb
         wx, wz, wg = store.wake()
         u, w = store.vel_u[:m], store.vel_w[:m]
         bu, bw = store.bu[:m], store.bw[:m]
-        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground=z_g)
+        wake_self_velocity(wx, wz, wg, r_c, u, w, ground=z_g)
         induced_velocity_grouped(wx, wz, self.wake_groups(store.site[:m], soft), store.x[:nb], store.z[:nb],
                                  store.g[:nb], self.bound_group, self.core4_t, self.core4_img_t,
                                  z_g is not None, 0.0 if z_g is None else float(z_g), bu, bw)
