@@ -72,7 +72,7 @@ def _single_and_pair_runs():
 
 def test_single_elements_never_take_the_cross_core_path(monkeypatch):
     # Histories are bit-sensitive (the free wake is chaotic; common practice of this project, DEVELOPERS.md):
-    # the cross cores of several elements (their grouped kernels) must never run for one element,
+    # the cross cores and the once-per-pair wake sum of several elements must never run for one element,
     # whatever else it has (leading-edge shedding, a ground, a flap); two elements do take them.
     from unsteady.vortex import kernels
     simulate, singles, pair = _single_and_pair_runs()
@@ -81,18 +81,18 @@ def test_single_elements_never_take_the_cross_core_path(monkeypatch):
     def spy(name):
         real = getattr(kernels, name)
 
-        def wrapped(*a):
+        def wrapped(*a, **k):
             calls.append(name)
-            return real(*a)
+            return real(*a, **k)
         return wrapped
 
-    for name in ("induced_velocity_grouped", "normal_influence_grouped"):
+    for name in ("induced_velocity_grouped", "normal_influence_grouped", "wake_self_velocity"):
         monkeypatch.setattr(kernels, name, spy(name))
     for raw in singles:
         simulate(load_scenario(raw))
     assert calls == []
     simulate(load_scenario(pair))
-    assert {"induced_velocity_grouped", "normal_influence_grouped"} <= set(calls)
+    assert {"induced_velocity_grouped", "normal_influence_grouped", "wake_self_velocity"} <= set(calls)
 
 
 def test_cross_cores_own_element_small_other_elements_their_spacing():
