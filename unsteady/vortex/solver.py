@@ -285,6 +285,13 @@ class VortexSolver:
         Default: one :class:`~unsteady.vortex.sites.TrailingEdgeSite` per body.
     ground : Ground, optional
         A flat fixed ground (see above); None: free air.
+    cross_core : bool
+        With several bodies, a wake vortex meets every body but its own,
+        both ways, through a core of that body's element spacing
+        (:class:`~unsteady.vortex.elements.CrossCores`), and the wake's sum
+        on itself takes each pair once; False (for comparison only): every
+        wake meets every body through ``body_core_radius``.  No effect on a
+        single body.
     """
 
     STAGES = ("_place", "_air_velocities", "_shed", "_solve", "_loads", "_observe",
