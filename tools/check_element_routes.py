@@ -69,6 +69,8 @@ def measure(raw, label, halvings, cross=True, where=False):
     if base.data["airfoil"].get("lesp_critical") is not None:
         raise SystemExit(f"{label}: leading-edge shedding is not covered here (its soft cores are not "
                          "in ElementImpulse)")
+    if base.data.get("ground"):
+        raise SystemExit(f"{label}: over the ground the vortices' impulse is not the force on the elements")
     dt0 = base.dt
     for k in range(halvings + 1):
         sc = load_scenario(raw, overrides={"run.dt": dt0 / 2 ** k}) if k else load_scenario(raw)
