@@ -19,7 +19,11 @@ Sources, each named beside its check:
   velocity B's vortices induce there (point vortices act on one another with equal
   and opposite forces, so the sum over the elements gives back the total; the shed
   vortices are force-free, so for them the two terms cancel).  Derived here from those
-  two results.
+  two results.  The same per-element impulse is unsteady.vortex.elements.ElementImpulse,
+  which uses the cores of the solver's own sums.
+- Vortex-blob regularisation (R. Krasny, J. Comput. Phys. 65, 1986; Katz & Plotkin 2001,
+  ch. 13; cited from memory): a wake vortex meets another element through a core no smaller than that
+  element's bound-vortex spacing, max(r_c, 2 c_b / N_b) (common practice), both ways.
 """
 
 import math
@@ -28,8 +32,8 @@ import numpy as np
 import pytest
 
 from unsteady import load_scenario, simulate
-from unsteady.vortex.elements import build_elements
-from unsteady.vortex.solver import VortexSolver
+from unsteady.vortex.elements import ElementImpulse, build_elements, cross_core_radii
+from unsteady.vortex.solver import VortexSolver, default_core_radii
 from unsteady.simulation.runner import PrescribedMotion
 
 C, U, RHO = 0.2, 10.0, 1.225
@@ -180,3 +184,63 @@ def test_pressure_and_impulse_loads_agree_per_element(wt):
     cl = np.array([s["loads"]["cl"] for s in rec.steps])[5:]
     cli = np.array([s["loads"]["cl_impulse"] for s in rec.steps])[5:]
     assert np.abs(cl - cli).max() < 0.01 * np.abs(cl).max()
+
+
+def wake_through_the_tail(cross_core):
+    """A wing and its tail pitching together (3 deg about 3 deg, k = 0.3), the tail in the plane of the
+    wing's wake, so that the wake sweeps through the tail; steady start, 10 chords, default step."""
+    wing = {"shape": "naca2412", "chord": C, "elements": 20}
+    tail = {"shape": "flat", "chord": 0.48 * C, "elements": 10, "position": [3.0 * C, 0.0], "incidence": -2.0}
+    sc = scenario([wing, tail], chords=10.0,
+                  tail_pitch={"law": "sine", "amplitude": 3.0, "reduced_frequency": 0.3, "mean": 3.0},
+                  extra={"run": {"chords": 10.0, "start": "steady", "wake": "free"}})
+    bodies = build_elements(sc)
+    r_c, r_b = default_core_radii(C, U, sc.dt)
+    imp = ElementImpulse(bodies, U, RHO, sc.dt, (r_c, r_b, cross_core_radii(bodies, r_c) if cross_core else None))
+    rec = Record()
+    VortexSolver(bodies, PrescribedMotion(sc.kinematics), speed=U, density=RHO, dt=sc.dt, steps=sc.steps,
+                 wake="free", cross_core=cross_core).run([rec, imp])
+    return bodies, rec, imp
+
+
+def route_gaps(bodies, rec, imp):
+    """Per element: the largest |pressure-route cl_i - impulse-route cl_i| after five rows, over its peak."""
+    lift = imp.lift
+    gaps = []
+    for b in range(len(bodies)):
+        cl = np.array([s["loads"][f"cl_{b + 1}"] for s in rec.steps])
+        d = cl[5:] - lift[5:, b]
+        gaps.append(np.abs(d[np.isfinite(d)]).max() / np.abs(cl[5:]).max())
+    return gaps
+
+
+@pytest.fixture(scope="module")
+def wake_tail():
+    return wake_through_the_tail(True)
+
+
+def test_pressure_and_impulse_lift_agree_per_element_with_the_wake_through_the_tail(wake_tail):
+    # Vortex impulse per element (Wu 1981; Saffman 1992, sec. 3.2; module docstring) against each
+    # element's pressure-route lift while the wing's wake sweeps through the tail: within 1 % of each
+    # element's peak at the default step (measured: wing 0.17 %, tail 0.66 %), with the wake meeting
+    # the other element through its element-spacing core (vortex blob, Krasny 1986).  Without it (the
+    # small core r_b = 0.1 U dt both ways) the tail's two routes part by more (measured 1.7 %): the
+    # check has teeth.
+    gaps = route_gaps(*wake_tail)
+    assert max(gaps) < 0.01, gaps
+    bare = route_gaps(*wake_through_the_tail(False))
+    assert bare[1] > 0.01, bare
+
+
+def test_kelvin_per_element_to_round_off_while_the_wake_sweeps_the_tail(wake_tail):
+    # Kelvin's circulation theorem (Katz & Plotkin 2001, sec. 2.7): each element's bound circulation
+    # plus all it has shed stays its value at the start (steady start), to round-off, with the cross cores
+    bodies, rec, _ = wake_tail
+    n0 = bodies[0].n
+    slices = (slice(0, n0), slice(n0, None))
+    start = [rec.steps[0]["gamma"][sl].sum() for sl in slices]
+    scale = max(abs(g) for g in start)
+    for st in rec.steps[1:]:
+        for b, sl in enumerate(slices):
+            total = st["gamma"][sl].sum() + st["gw"][st["site"] == b].sum()
+            assert abs(total - start[b]) < 1e-12 * scale, (b, total - start[b])

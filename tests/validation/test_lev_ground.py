@@ -73,9 +73,11 @@ class MirrorPairSolver(VortexSolver):
     """
 
     def __init__(self, *args, **kw):
-        super().__init__(*args, **kw)
-        # the pair stands for one body over the ground, which has no second element to guard:
-        # the several-elements crossing guard (vortex.elements.CrossingGuard) stays off
+        # the pair stands for one body over the ground, whose images meet it through the body's own
+        # cores: the several-elements cross cores (vortex.elements.CrossCores) stay off
+        super().__init__(*args, cross_core=False, **kw)
+        # and it has no second element to guard: the several-elements crossing guard
+        # (vortex.elements.CrossingGuard) stays off
         self.guard = None
 
     def _convect(self, s):

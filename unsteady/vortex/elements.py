@@ -37,7 +37,7 @@ import numpy as np
 
 from .bodies import Body, rotate, to_inertial
 
-__all__ = ["build_elements", "combine_loads", "place_element"]
+__all__ = ["CrossCores", "ElementImpulse", "build_elements", "combine_loads", "cross_core_radii", "place_element"]
 
 
 def place_element(body: Body, incidence: float, position, ref_pivot_m: float) -> Body:
@@ -198,3 +198,233 @@ class CrossingGuard:
             nxi, nzeta = -f[3], f[2]
             x[j] += shift * (nxi * ca + nzeta * sa)
             z[j] += shift * (-nxi * sa + nzeta * ca)
+
+
+def cross_core_radii(bodies, r_c):
+    """Per element b, the core (m) through which another element's wake meets it: max(r_c, 2 c_b / N_b).
+
+    The usual vortex-blob regularisation (R. Krasny, "Desingularization of
+    periodic vortex sheet roll-up", J. Comput. Phys. 65, 1986; J. Katz &
+    A. Plotkin, *Low-Speed Aerodynamics*, 2nd ed., 2001, ch. 13; both cited
+    from memory):
+    a vortex passing close to lumped bound vortices must not resolve them one
+    by one, so its core is no smaller than their spacing (about pi c / (2N)
+    at mid-chord for cosine spacing, so 2 c / N; common practice), nor than
+    the wake's own core ``r_c``.  The same core acts both ways (the wake
+    vortex on the element's points, the element's bound vortices on the wake
+    vortex), so the mutual forces stay equal and opposite.
+    """
+    return [max(float(r_c), CROSS_CORE_ELEMENTS * b.chord / b.n) for b in bodies]
+
+
+#: the cross core in bound-vortex spacings of the element met (see cross_core_radii)
+CROSS_CORE_ELEMENTS = 2.0
+
+
+class ElementImpulse:
+    """Observer: each element's lift by the vortex impulse, the independent check of its pressure-route lift.
+
+    Vortex impulse (J. C. Wu, AIAA J. 19, 1981; P. G. Saffman, *Vortex
+    Dynamics*, 1992, sec. 3.2): the force on everything is -rho dI/dt over
+    all vortices, I = sum Gamma (z, -x) in the frame of the air at rest.  For
+    one element A among others B the force is -rho dI_A/dt over A's own
+    vortices (bound, shed, far-wake lumps) plus the Kutta-Joukowski force
+    rho Gamma_a (w_e, -u_e) of every free A vortex in the velocity the rest
+    induces there (B's vortices through the cores the solver uses, and the
+    gust); the A-A forces cancel in pairs (equal and opposite) and the shed
+    vortices are force-free.  dI/dt: second-order backward differences.  A
+    steady start's starting vortices rest at infinity in that frame and add
+    nothing.
+
+    ``cores``: ``(r_c, r_b, cross)`` as the solver's (``cross``: per element,
+    or None when another element's wake meets it through ``r_b``).
+    ``lift[:, b]`` is element b's lift coefficient on ``c_ref`` (as the
+    history's ``cl_<i>``), from the third row on (NaN before, and NaN on the
+    rows whose difference spans a far-wake merge: a lump sits at its
+    vortices' circulation centroid only when their signs agree, so its
+    impulse may jump there).
+    """
+
+    def __init__(self, bodies, speed, density, dt, cores, gust=None, site_body=None, c_ref=None):
+        self.bodies = list(bodies)
+        self.U, self.rho, self.dt = float(speed), float(density), float(dt)
+        self.r_c, self.r_b, self.cross = cores
+        self.gust = gust
+        self.site_body = (np.arange(len(self.bodies)) if site_body is None else np.asarray(site_body))
+        self.c_ref = float(c_ref if c_ref is not None else self.bodies[0].chord)
+        ends = np.cumsum([b.n for b in self.bodies])
+        self.slices = [slice(e - b.n, e) for e, b in zip(ends, self.bodies)]
+        self.imp = []
+        self.kj = []
+        self.merged = []
+        self._far_n = 0
+
+    def _core(self, target_bound, a, source_bound, b):
+        if source_bound and target_bound:
+            return 0.0
+        if not source_bound and not target_bound:
+            return self.r_c
+        if self.cross is None:
+            return self.r_b
+        return self.cross[a] if target_bound else self.cross[b]
+
+    def on_step(self, st):
+        from .kernels import velocity
+        nb = len(self.bodies)
+        x_air = -self.U * st.t
+        wake_b = self.site_body[st.wake_site]
+        far_b = self.site_body[st.far_site] if st.far_site is not None else np.zeros(0, int)
+        groups = []
+        for b in range(nb):
+            sl, own = self.slices[b], wake_b == b
+            groups.append(((st.x_body[sl], st.z_body[sl], st.gamma_bound[sl]),
+                           (st.x_wake[own], st.z_wake[own], st.gamma_wake[own])))
+        imp, kj = [], []
+        for a in range(nb):
+            s1x = s1z = 0.0
+            for (x, z, g) in groups[a]:
+                s1x += float((g * (x + x_air)).sum())
+                s1z += float((g * z).sum())
+            own_far = far_b == a
+            if own_far.any():
+                s1x += float((st.far_gamma[own_far] * (st.far_x[own_far] + x_air)).sum())
+                s1z += float((st.far_gamma[own_far] * st.far_z[own_far]).sum())
+            imp.append((s1x, s1z))
+            fx = fz = 0.0
+            for ti, (xt, zt, gt) in enumerate(groups[a]):
+                if xt.size == 0:
+                    continue
+                u, w = np.zeros(xt.size), np.zeros(xt.size)
+                for b in range(nb):
+                    if b == a:
+                        continue
+                    for si, (xs, zs, gs) in enumerate(groups[b]):
+                        if xs.size:
+                            du, dw = velocity(xt, zt, xs, zs, gs, self._core(ti == 0, a, si == 0, b))
+                            u += du
+                            w += dw
+                if ti == 0 and st.far_x is not None and (~own_far).any():   # other elements' lumps on bound
+                    o = ~own_far
+                    du, dw = velocity(xt, zt, st.far_x[o], st.far_z[o], st.far_gamma[o], self.r_c)
+                    u += du
+                    w += dw
+                if self.gust is not None:
+                    gu, gw = self.gust.velocity(xt, zt, st.t)
+                    u += gu
+                    w += gw
+                fx += self.rho * float((gt * w).sum())
+                fz -= self.rho * float((gt * u).sum())
+            kj.append((fx, fz))
+        self.imp.append(imp)
+        self.kj.append(kj)
+        far_n = 0 if st.far_x is None else st.far_x.size
+        self.merged.append(far_n > self._far_n)
+        self._far_n = far_n
+
+    @property
+    def lift(self):
+        """Per row and element, the impulse-route lift coefficient on the reference chord."""
+        imp = np.array(self.imp)            # (rows, elements, 2): S1x, S1z
+        kj = np.array(self.kj)
+        q = 0.5 * self.rho * self.U ** 2
+        out = np.full(imp.shape[:2], np.nan)
+        ds1x = (3.0 * imp[2:, :, 0] - 4.0 * imp[1:-1, :, 0] + imp[:-2, :, 0]) / (2.0 * self.dt)
+        fz = self.rho * ds1x + kj[2:, :, 1]
+        out[2:] = fz / (q * self.c_ref)
+        merged = np.array(self.merged)
+        spans = merged[2:] | merged[1:-1]        # a merge between rows n-2 and n
+        out[2:][spans] = np.nan
+        return out
+
+
+class CrossCores:
+    """Several elements: the core through which each wake vortex and each element meet (both ways).
+
+    A wake vortex meets the element that shed it through the solver's small
+    core ``r_b`` (the Kutta condition needs the newest vortex almost a point
+    vortex) and every other element b through ``r_x[b]``
+    (:func:`cross_core_radii`), on its collocation and vortex points and, the
+    same core, in the pull of b's bound vortices on the vortex.  A vortex of
+    a soft-core site (``soft``: the leading edge) meets its own element
+    through ``r_soft``, the others through max(r_soft, r_x[b]).  Ground
+    images are always another element's (a mirrored element in free air is
+    the ground, tests/validation/test_ground_elements.py), so they act
+    through r_x[b] (max(r_soft, r_x[b]) for soft vortices).
+
+    Groups: element b's points are group b; a wake vortex of element k is
+    group k, or ``n + k`` when soft (n elements).  ``core4[b, g]`` and
+    ``core4_img[b, g]``: fourth powers of the cores (m^4).  The wake's sum on
+    itself (one core ``r_c``) is the single element's full sum
+    (:func:`~unsteady.vortex.kernels.induced_velocity`); a once-per-pair sum in
+    tiles was 1.3x faster with reassociating fast math but its bits then
+    depended on where the arrays sat in memory (the compiled loop's vector or
+    scalar path), and without reassociation it was slower than the full sum.
+    """
+
+    def __init__(self, bodies, site_body, r_c, r_b, r_soft):
+        n = len(bodies)
+        self.n = n
+        self.r_x = cross_core_radii(bodies, r_c)
+        self.site_body = np.asarray(site_body, dtype=np.int64)
+        core = np.empty((n, 2 * n))
+        img = np.empty((n, 2 * n))
+        for b in range(n):
+            for k in range(n):
+                core[b, k] = r_b if k == b else self.r_x[b]
+                core[b, n + k] = r_soft if k == b else max(r_soft, self.r_x[b])
+                img[b, k] = self.r_x[b]
+                img[b, n + k] = max(r_soft, self.r_x[b])
+        self.core4 = np.ascontiguousarray(core ** 4)
+        self.core4_img = np.ascontiguousarray(img ** 4)
+        #: the same, indexed [wake group, body] (a body's bound vortices on the wake)
+        self.core4_t = np.ascontiguousarray(self.core4.T)
+        self.core4_img_t = np.ascontiguousarray(self.core4_img.T)
+        self.bound_group = np.repeat(np.arange(n, dtype=np.int64), [b.n for b in bodies])
+        self.target_group = np.concatenate((self.bound_group, self.bound_group))   # collocation, vortex points
+
+    def wake_groups(self, wake_site, soft=None):
+        """Group of each wake vortex (``wake_site``: the site that shed it; ``soft``: soft indices)."""
+        g = self.site_body[wake_site]
+        if soft is not None and soft.size:
+            g = g.copy()
+            g[soft] += self.n
+        return g
+
+    def site_group(self, site_index, soft):
+        return np.array([self.site_body[site_index] + (self.n if soft else 0)], dtype=np.int64)
+
+    def on_points(self, xt, zt, groups, xs, zs, gs, sgroups, z_g, u, w):
+        """Velocity (m/s) of sources at the elements' points (in place)."""
+        from .kernels import induced_velocity_grouped
+        induced_velocity_grouped(xt, zt, groups, xs, zs, gs, sgroups, self.core4, self.core4_img,
+                                 z_g is not None, 0.0 if z_g is None else float(z_g), u, w)
+
+    def column(self, xc, zc, nx, nz, x, z, sgroup, z_g):
+        """A new vortex's normal velocity per unit circulation at every collocation point."""
+        from .kernels import normal_influence_grouped
+        a = np.empty((xc.size, 1))
+        normal_influence_grouped(xc, zc, nx, nz, self.bound_group, np.array([x]), np.array([z]), sgroup,
+                                 self.core4, self.core4_img, z_g is not None,
+                                 0.0 if z_g is None else float(z_g), a)
+        return a[:, 0]
+
+    def wake_velocities(self, store, U, r_c, gust, t, soft, z_g):
+        """:meth:`~unsteady.vortex.wake.VortexStore.velocities` with these cores: the wake on itself
+        through ``r_c`` (:func:`~unsteady.vortex.kernels.induced_velocity`), the
+        bound vortices of body b on a wake vortex of group g through ``core4[b, g]``."""
+        from .kernels import induced_velocity, induced_velocity_grouped
+        m, nb = store.m, store.nb
+        wx, wz, wg = store.wake()
+        u, w = store.vel_u[:m], store.vel_w[:m]
+        bu, bw = store.bu[:m], store.bw[:m]
+        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground=z_g)
+        induced_velocity_grouped(wx, wz, self.wake_groups(store.site[:m], soft), store.x[:nb], store.z[:nb],
+                                 store.g[:nb], self.bound_group, self.core4_t, self.core4_img_t,
+                                 z_g is not None, 0.0 if z_g is None else float(z_g), bu, bw)
+        u += bu + U
+        w += bw
+        if gust is not None:
+            gu, gw = gust.velocity(wx, wz, t)
+            u += gu
+            w += gw
+        return u, w

@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .elements import CrossingGuard, combine_loads
+from .elements import CrossCores, CrossingGuard, combine_loads
 from .bodies import Body, BodyPoints, RigidCamber, as_body_models, build_body, rotate, to_inertial
 from .kernels import induced_velocity, normal_influence, normal_influence_ground
 from .loads import LoadHistory
@@ -285,6 +285,12 @@ class VortexSolver:
         Default: one :class:`~unsteady.vortex.sites.TrailingEdgeSite` per body.
     ground : Ground, optional
         A flat fixed ground (see above); None: free air.
+    cross_core : bool
+        With several bodies, a wake vortex meets every body but its own,
+        both ways, through a core of that body's element spacing
+        (:class:`~unsteady.vortex.elements.CrossCores`); False (for comparison only): every
+        wake meets every body through ``body_core_radius``.  No effect on a
+        single body.
     """
 
     STAGES = ("_place", "_air_velocities", "_shed", "_solve", "_loads", "_observe",
@@ -294,7 +300,7 @@ class VortexSolver:
 
     def __init__(self, body, motion, *, speed, density, dt, steps, wake="free",
                  start="steady", gust=None, shed_offset=0.3, core_radius=None,
-                 body_core_radius=None, far_wake=None, t0=0.0, sites=None, ground=None):
+                 body_core_radius=None, far_wake=None, t0=0.0, sites=None, ground=None, cross_core=True):
         self.models = as_body_models(body)
         self.body = self.models[0].geometry
         self.motion = motion
@@ -322,6 +328,7 @@ class VortexSolver:
         self.z_g = None if ground is None else float(ground.z)
         #: several bodies: wake vortices kept from stepping through a camber line (vortex.elements)
         self.guard = CrossingGuard([m.geometry for m in self.models]) if len(self.models) > 1 else None
+        self.cross_core = bool(cross_core)
 
     # ------------------------------------------------------------------
     def run(self, observers=()):
@@ -372,6 +379,10 @@ class VortexSolver:
         self.r_soft = max(self.r_c, SOFT_CORE_ELEMENTS * self.body.chord / self.models[0].n)
         #: sites whose vortices meet the bodies through the wake's core (see _soften)
         self.soft_sites = tuple(i for i, site in enumerate(self.sites) if site.soft_core)
+        #: several bodies: each wake meets the other bodies through their cross core (vortex.elements)
+        self.cross = (CrossCores([m.geometry for m in self.models], [site.body for site in self.sites],
+                                 self.r_c, self.r_b, self.r_soft)
+                      if len(self.models) > 1 and self.cross_core else None)
 
     # -- stages ---------------------------------------------------------
     def _place(self, s):
@@ -403,7 +414,11 @@ class VortexSolver:
         tu, tw = self._tu, self._tw
         if self.store.m > 0:
             soft = self._soft_indices() if self.soft_sites else None
-            if soft is None or soft.size == 0:
+            if self.cross is not None:            # several bodies: each wake's own core per body
+                st = self.store
+                self.cross.on_points(s.tx, s.tz, self.cross.target_group, *st.wake(),
+                                     self.cross.wake_groups(st.site[:st.m], soft), self.z_g, tu, tw)
+            elif soft is None or soft.size == 0:
                 induced_velocity(s.tx, s.tz, *self.store.wake(), self.r_b, tu, tw, ground=self.z_g)
             else:
                 self._soften(s.tx, s.tz, tu, tw, soft)
@@ -492,7 +507,11 @@ class VortexSolver:
                 x, z = site.propose(s)
                 col = np.empty((self.system.n, 1))
                 r_core = self.r_soft if site.index in self.soft_sites else self.r_b
-                if self.z_g is None:
+                if self.cross is not None:        # several bodies: each body's own core
+                    col[:, 0] = self.cross.column(s.xc, s.zc, s.nx, s.nz, x, z,
+                                                  self.cross.site_group(site.index, site.index in self.soft_sites),
+                                                  self.z_g)
+                elif self.z_g is None:
                     normal_influence(s.xc, s.zc, s.nx, s.nz, np.array([x]), np.array([z]), r_core, col)
                 else:
                     normal_influence_ground(s.xc, s.zc, s.nx, s.nz, np.array([x]), np.array([z]),
@@ -531,6 +550,15 @@ class VortexSolver:
         uv = s.u_air[N:].copy()                    # at the vortex points, with the new vortices
         wv = s.w_air[N:].copy()
         for p in s.proposals:
+            if self.cross is not None:            # several bodies: each body's own core, and the image
+                du, dw = np.empty(N), np.empty(N)
+                self.cross.on_points(s.xv, s.zv, self.cross.bound_group, np.array([p.x]), np.array([p.z]),
+                                     np.array([p.gamma]),
+                                     self.cross.site_group(p.site.index, p.site.index in self.soft_sites),
+                                     self.z_g, du, dw)
+                uv += du
+                wv += dw
+                continue
             r_p = self.r_soft if p.site.index in self.soft_sites else self.r_b
             du, dw = _point_vortex(s.xv, s.zv, p.x, p.z, p.gamma, r_p)
             uv += du
@@ -611,7 +639,10 @@ class VortexSolver:
         st = self.store
         if st.m == 0:
             return
-        if self.free_wake:
+        if self.free_wake and self.cross is not None:     # several bodies (vortex.elements)
+            u, w = self.cross.wake_velocities(st, self.U, self.r_c, self.gust, s.t,
+                                              self._soft_indices() if self.soft_sites else None, self.z_g)
+        elif self.free_wake:
             u, w = st.velocities(self.U, self.r_c, self.r_b, self.gust, s.t,
                                  self._soft_indices() if self.soft_sites else None, self.r_soft,
                                  ground=self.z_g)
