@@ -447,9 +447,6 @@ def resolve(raw, base_dir, stem="scenario"):
         from .elements import check_further_elements
         more, errs = check_further_elements(further, base_dir, CHORD_RANGE)
         errors += errs
-        if airfoil.get("thick"):
-            errors.append(InputError("airfoil.thick", "surface panels are not supported with several elements "
-                                                      "([[airfoil]]): each element is a camber line"))
         if (raw.get("run", {}) if isinstance(raw.get("run"), dict) else {}).get("model") == "linear":
             errors.append(InputError("airfoil", "several elements ([[airfoil]]) need run.model = \"vortex\": "
                                                 "the linear model is one thin airfoil alone"))

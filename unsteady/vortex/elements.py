@@ -88,7 +88,8 @@ def combine_loads(rows, bodies, alpha, h):
 
 def build_elements(sc, tail_turn=0.0):
     """The placed camber lines of a ``[[airfoil]]`` scenario, first element first (each a Body in the
-    assembly's frame, metres about the pitch axis, ``sc.pivot``); ``tail_turn`` (rad, nose-up) is
+    assembly's frame, metres about the pitch axis, ``sc.pivot``; a further element with ``thick``: a
+    :class:`~unsteady.vortex.panels.SurfacePanels` body model instead); ``tail_turn`` (rad, nose-up) is
     added to the last element's incidence (the trim of an all-moving tail, dynamics.pitch)."""
     from ..inputs.sections import camber_elements, section_from_shape
     from .bodies import build_body
@@ -98,9 +99,14 @@ def build_elements(sc, tail_turn=0.0):
     more = sc.data["airfoil"]["_more"]
     for k, el in enumerate(more):
         sec = section_from_shape(el["shape"], sc.base_dir)
+        turn = tail_turn if k == len(more) - 1 else 0.0
+        if el.get("thick"):                      # surface panels (vortex.panels), placed as the camber lines
+            from .panels import SurfaceGeometry, SurfacePanels
+            bodies.append(SurfacePanels(SurfaceGeometry.placed(
+                sec, el["elements"], el["chord"], math.radians(el["incidence"]) + turn, el["position"], p_ref)))
+            continue
         nodes = camber_elements(sec, el["elements"]).x_nodes
         b = Body.from_section(sec, el["elements"], el["chord"], 0.0, x_nodes=nodes)
-        turn = tail_turn if k == len(more) - 1 else 0.0
         bodies.append(place_element(b, math.radians(el["incidence"]) + turn, el["position"], p_ref))
     return bodies
 
@@ -122,7 +128,10 @@ class CrossingGuard:
     def __init__(self, bodies):
         self.frames = []
         for b in bodies:
-            xi, zeta = np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te)
+            if hasattr(b, "mean_line"):              # surface panels: their mean line
+                xi, zeta = b.mean_line()
+            else:
+                xi, zeta = np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te)
             dx, dz = xi[-1] - xi[0], zeta[-1] - zeta[0]
             L = math.hypot(dx, dz)
             tx, tz = dx / L, dz / L                  # the element's chord direction, body frame
@@ -165,3 +174,74 @@ class CrossingGuard:
             nxi, nzeta = -f[3], f[2]
             x[j] += shift * (nxi * ca + nzeta * sa)
             z[j] += shift * (-nxi * sa + nzeta * ca)
+
+
+class ElementImpulse:
+    """Each element's force by the impulse route (several elements with surface panels among them).
+
+    For one element A among others B (J. C. Wu, AIAA J. 19, 1981; P. G.
+    Saffman, *Vortex Dynamics*, 1992, sec. 3.2; with the Kutta-Joukowski force
+    between point vortices, equal and opposite for each pair, so that the
+    elements' forces add up to the assembly's)::
+
+        F_A = -rho d/dt sum_{a in A} Gamma_a (z_a, -x_a) + rho sum_{a in A} Gamma_a (w_B, -u_B)(r_a)
+
+    over A's own vortices: its bound vortices, the vortices its own sites
+    shed (free wake; the far-wake lumps and its share of the starting
+    vortex of a steady start, minus its bound circulation at the first row,
+    at rest in the air), in the frame of the air at rest, with (u_B, w_B)
+    the velocity B's vortices induce at A's (through the bodies' small core
+    r_b).  A surface-panel element adds the momentum rate of the air its
+    outline encloses (:class:`~unsteady.vortex.panels.SurfaceLoads`).
+    """
+
+    def __init__(self, solver):
+        self.sites = [[site.index for site in solver.sites if site.body == b]
+                      for b in range(len(solver.models))]
+        self.site_body = {site.index: site.body for site in solver.sites}
+        self.hist = [[] for _ in solver.models]
+        self.start = [0.0] * len(solver.models)
+
+    def retire(self, site, xs, zs, gs, U, dt):
+        """A site's vortices left for the far wake (as :meth:`~unsteady.vortex.loads.LoadHistory.retire`)."""
+        from .loads import retire_impulse
+        b = self.site_body[site]
+        self.hist[b] = retire_impulse(self.hist[b], U, dt, xs, zs, gs)
+
+    def add(self, solver, s):
+        """``(cl, cd)`` of each element by its impulse, on the first element's chord, in body order."""
+        from .kernels import induced_velocity
+        from .loads import impulse_loads
+        if s.n == 0 and solver.start == "steady":
+            self.start = [-float(s.gamma[sl].sum()) for sl in solver.system.slices]
+        st, far = solver.store, solver.far
+        wx, wz, wg = st.wake()
+        wsite = st.site[:st.m]
+        fsite = far.site[:far.n]
+        fg = far.g[:far.n]
+        owner = np.concatenate([np.full(sl.stop - sl.start, b) for b, sl in enumerate(solver.system.slices)]
+                               + [np.array([self.site_body[int(k)] for k in wsite], dtype=int)])
+        xa, za, ga = (np.concatenate((a, b)) for a, b in ((s.xv, wx), (s.zv, wz), (s.gamma, wg)))
+        q_c = 0.5 * solver.rho * solver.U ** 2 * solver.models[0].geometry.chord
+        out = []
+        for b in range(len(solver.models)):
+            mine = owner == b
+            xs, zs, gs = xa[mine], za[mine], ga[mine]
+            far_b = float(fg[np.isin(fsite, self.sites[b])].sum())
+            Fx, Fz, _, self.hist[b] = impulse_loads(self.hist[b], s.t, 0.0, 0.0, xs, zs, gs,
+                                                    self.start[b] + far_b, solver.U, solver.rho, solver.dt)
+            u, w = np.empty(xs.shape[0]), np.empty(xs.shape[0])
+            induced_velocity(xs, zs, xa[~mine], za[~mine], ga[~mine], solver.r_b, u, w)
+            if far.n:                            # and the far-wake lumps of the others
+                fo = ~np.isin(fsite, self.sites[b])
+                du, dw = np.empty_like(u), np.empty_like(w)
+                induced_velocity(xs, zs, far.x[:far.n][fo], far.z[:far.n][fo], fg[fo], solver.r_c, du, dw)
+                u += du
+                w += dw
+            Fx += solver.rho * float((gs * w).sum())
+            Fz -= solver.rho * float((gs * u).sum())
+            inner = getattr(solver.load_histories[b], "inner_force", None)
+            if inner is not None:
+                Fx, Fz = Fx + inner[0], Fz + inner[1]
+            out.append((Fz / q_c, Fx / q_c))
+        return out

@@ -73,6 +73,7 @@ import numpy as np
 
 from ..inputs.sections import cosine_nodes  # noqa: F401
 from .bodies import BodyPoints, rotate
+from .kernels import induced_velocity
 from .loads import backward_derivative, impulse_loads
 from .panel_kernels import (chain_image_potential, chain_potential, chain_segment_angles,
                             panel_image_velocity_matrices,
@@ -148,10 +149,44 @@ class SurfaceGeometry:
                    x_surface=xm, z_surface=zm, xi_ref=(0.25 - pivot) * chord, zeta_ref=z_ref,
                    chord=float(chord), area=area)
 
+    @classmethod
+    def placed(cls, section, n_panels, chord, incidence, position, ref_pivot_m):
+        """A further element's outline (``[[airfoil]]``, :mod:`~unsteady.vortex.elements`): paneled about
+        its own leading edge, turned nose-up by ``incidence`` (rad) about it and moved to ``position``
+        (m) from the reference leading edge; ``ref_pivot_m``: the pitch axis's distance aft of the
+        reference leading edge (m).  ``x_surface, z_surface`` stay the element's own chord fractions."""
+        x, z = surface_nodes(section, n_panels)
+        z_q = float(np.asarray(section.camber(np.array([0.25])), float)[0])
+        ca, sa = np.cos(incidence), np.sin(incidence)
+        x0, z0 = float(position[0]) - ref_pivot_m, float(position[1])
+
+        def place(xf, zf):                        # nose-up turn about the leading edge (bodies.to_inertial)
+            return x0 + chord * (xf * ca + zf * sa), z0 + chord * (-xf * sa + zf * ca)
+
+        xi, zeta = place(np.asarray(x, float), np.asarray(z, float))
+        dx, dz = np.diff(xi), np.diff(zeta)
+        ds = np.hypot(dx, dz)
+        t_xi, t_zeta = dx / ds, dz / ds
+        w = np.zeros(len(xi))
+        w[:-1] += 0.5 * ds
+        w[1:] += 0.5 * ds
+        area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))
+        xr, zr = place(0.25, z_q)
+        return cls(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
+                   t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w,
+                   x_surface=0.5 * (x[:-1] + x[1:]), z_surface=0.5 * (z[:-1] + z[1:]),
+                   xi_ref=float(xr), zeta_ref=float(zr), chord=float(chord), area=area)
+
     @property
     def n(self) -> int:
         """Number of panels."""
         return self.ds.shape[0]
+
+    def mean_line(self):
+        """The mean of the two surfaces' nodes, leading edge to trailing edge (body frame, m): the line
+        the crossing guard of several elements (:class:`~unsteady.vortex.elements.CrossingGuard`) uses."""
+        half = self.n // 2
+        return (0.5 * (self.xi_n[half::-1] + self.xi_n[half:]), 0.5 * (self.zeta_n[half::-1] + self.zeta_n[half:]))
 
 
 class SurfacePanels:
@@ -354,6 +389,76 @@ class SurfaceLoads:
             phi += np.interp(self._index, self._coarse, far)
         return phi, mu[:N]
 
+    def _others_velocity(self, solver, s, sl, xc, zc, u, w):
+        """Add (in place) the velocity of the other bodies' bound vortices, and with a ground their images,
+        at the mid-points (point vortices, as the loads of a camber line take them)."""
+        others = np.ones(s.xv.shape[0], dtype=bool)
+        others[sl] = False
+        du, dw = np.empty_like(xc), np.empty_like(xc)
+        induced_velocity(xc, zc, s.xv[others], s.zv[others], s.gamma[others], 0.0, du, dw, ground=solver.z_g)
+        u += du
+        w += dw
+
+    def potential_several(self, s, G, solver, sl):
+        """:meth:`potential` when other bodies share the flow (``[[airfoil]]``): one doublet chain per body.
+
+        This body's chain runs through its nodes and then only its own site's wake (newest first)
+        and far-wake lumps, with the ray to x = +infinity, as :meth:`potential` with one body.  Each
+        other body's vortices (its bound vortices, then its own wake and lumps, newest first) form a
+        chain of their own, whose potential is summed at every mid-point; its closing ray carries
+        that body's constant total circulation and points away from this body's centroid, which
+        keeps its cut off a convex outline (a point outside a convex set and the ray beyond it from
+        the set's centre never meet the set), so the potential stays continuous on this body.  The
+        chains are cuts only: any order of the points gives the same velocity field (Milne-Thomson
+        1968, the complex potential of a vortex pair).  Known limit: where another element's wake
+        passes over and under this body, the segment joining two neighbouring vortices on either
+        side crosses it.
+        """
+        N = self.body.n
+        o = sl.start
+        xt, zt = s.xc[o:o + N], s.zc[o:o + N]
+        wx, wz, wg = solver.store.wake()
+        fx, fz, fg = solver.far.views()
+        wsite = solver.store.site[:wx.shape[0]]
+        fsite = solver.far.site[:fx.shape[0]]
+        z_g = solver.z_g
+        phi = np.zeros(N)
+        cx, cz = float(np.mean(self.body.xi_n)), float(np.mean(self.body.zeta_n))   # body frame
+        ca, sa = np.cos(s.alpha), np.sin(s.alpha)
+        cx, cz = cx * ca + cz * sa, s.h - cx * sa + cz * ca
+        for b, slb in enumerate(solver.system.slices):
+            own_sites = [site.index for site in solver.sites if site.body == b]
+            wm = np.isin(wsite, own_sites)
+            fm = np.isin(fsite, own_sites)
+            px = np.concatenate((s.xv[slb], wx[wm][::-1], fx[fm][::-1]))
+            pz = np.concatenate((s.zv[slb], wz[wm][::-1], fz[fm][::-1]))
+            gam = np.concatenate((s.gamma[slb], wg[wm][::-1], fg[fm][::-1]))
+            total = -np.cumsum(gam)
+            mu = np.ascontiguousarray(total[:-1])
+            tail = float(total[-1])
+            part = np.empty(N)
+            if slb == sl:                            # this body: its own segments from the fixed angles
+                own = self._angles @ mu[:N]
+                chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:]), np.ascontiguousarray(pz[N:]),
+                                np.ascontiguousarray(mu[N:]), tail, part)
+                phi += own + part
+                if z_g is not None:
+                    chain_image_potential(xt, zt, px, pz, mu, tail, z_g, phi)
+                continue
+            chain_potential(xt, zt, self._none_all, px, pz, mu, 0.0, part)
+            phi += part
+            # the closing ray, from the chain's last point away from this body's centroid
+            ex, ez = px[-1] - cx, pz[-1] - cz
+            L = np.hypot(ex, ez)
+            dx, dz = (ex / L, ez / L) if L > 0.0 else (1.0, 0.0)
+            ax, az = xt - px[-1], zt - pz[-1]
+            phi += tail * np.arctan2(az * dx - ax * dz, -(ax * dx + az * dz)) / (2.0 * np.pi)
+            if z_g is not None:                      # its ground image: mirrored points and ray, strengths reversed
+                chain_image_potential(xt, zt, px, pz, mu, 0.0, z_g, phi)
+                az = zt - (2.0 * z_g - pz[-1])
+                phi -= tail * np.arctan2(az * dx + ax * dz, -(ax * dx - az * dz)) / (2.0 * np.pi)
+        return phi, mu_own(s.gamma[sl], N)
+
     def add_step(self, solver, s, sl):
         """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""
         m = self.model
@@ -368,7 +473,9 @@ class SurfaceLoads:
         c = g.chord
         G = s.gamma[sl]
         gamma = G / g.w
-        xc, zc = s.xc[:N], s.zc[:N]
+        o = sl.start                               # this body's place in the step's arrays
+        several = len(solver.models) > 1
+        xc, zc = s.xc[o:o + N], s.zc[o:o + N]
         ub = s.alpha_dot * (zc - s.h)              # the body's own velocity
         wb = s.h_dot - s.alpha_dot * xc
         nx, nz = rotate(g.n_xi, g.n_zeta, s.alpha)
@@ -376,13 +483,15 @@ class SurfaceLoads:
         gamma_mid = 0.5 * (gamma[:-1] + gamma[1:])
         q_t = s.alpha_dot * m.inner_rotation - gamma_mid
         if s.own is not None:                      # a moving flap: its own velocity, its enclosed air's
-            ub = ub + s.own[0][:N]
-            wb = wb + s.own[1][:N]
+            ub = ub + s.own[0][o:o + N]
+            wb = wb + s.own[1][o:o + N]
             q_t = q_t + m.flap_rate(s.t) * m.inner_flap
         f = m.resolved
         if f.min() < 1.0:                          # too thin to resolve: the velocities on the surface
-            u = s.u_air[:N].copy()                 # freestream, gust, wake, far wake
-            w = s.w_air[:N].copy()
+            u = s.u_air[o:o + N].copy()            # freestream, gust, wake, far wake
+            w = s.w_air[o:o + N].copy()
+            if several:                            # the other bodies' bound vortices (and images)
+                self._others_velocity(solver, s, sl, xc, zc, u, w)
             images = (False,) if solver.z_g is None else (False, True)
             for p in s.proposals:                  # this step's new vortices (and their ground images)
                 for image in images:
@@ -403,7 +512,7 @@ class SurfaceLoads:
             gu, gw = solver.gust.velocity(xc, zc, s.t)
             ua, wa = U + gu, gw
         vb2 = (ub - ua) ** 2 + (wb - wa) ** 2
-        phi, mu = self.potential(s, G, solver)
+        phi, mu = self.potential(s, G, solver) if not several else self.potential_several(s, G, solver, sl)
         self.phi_hist = (self.phi_hist + [phi])[-3:]
         dphi = backward_derivative(self.phi_hist, dt)
         cp = (vb2 - q_t * q_t - 2.0 * dphi) / (U * U)
@@ -429,6 +538,8 @@ class SurfaceLoads:
         d_inner = backward_derivative(self.inner_hist, dt)
         Fx_i += rho * d_inner[0]
         Fz_i += rho * d_inner[1]
+        #: the enclosed air's momentum rate (N/m, computation frame): the impulse route's share of the body
+        self.inner_force = (rho * float(d_inner[0]), rho * float(d_inner[1]))
         extra = {}
         if getattr(m, "hinge", None) is not None:  # the flap's panels about the hinge, nose-up (trailing edge down)
             xi_h, zeta_h, flap, c_f = m.hinge
@@ -443,6 +554,11 @@ class SurfaceLoads:
             "gamma_wake_m2_s": float(gs.sum() - G.sum()),
             **extra,
         }
+
+
+def mu_own(G, N):
+    """The chain's strength on each of a body's N panels from its node circulations ``G`` (N + 1)."""
+    return np.ascontiguousarray(-np.cumsum(G)[:N])
 
 
 def build_surface(sc, n_panels=None):

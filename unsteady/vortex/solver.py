@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .elements import CrossingGuard, combine_loads
+from .elements import CrossingGuard, ElementImpulse, combine_loads
 from .bodies import Body, BodyPoints, RigidCamber, as_body_models, build_body, rotate, to_inertial
 from .kernels import induced_velocity, normal_influence, normal_influence_ground
 from .loads import LoadHistory
@@ -365,6 +365,9 @@ class VortexSolver:
             site.bind(self, i)
         self._phi_le = _LeadingEdgeJump(self.sites)
         self._le_sites = tuple(i for i, site in enumerate(self.sites) if site.leading_edge)
+        #: several elements with surface panels among them: each element's own impulse (vortex.elements)
+        self._split = (ElementImpulse(self) if len(self.models) > 1
+                       and any(hasattr(m, "influence_matrix") for m in self.models) else None)
         self._soft_cache = (None, None)      # (clock, wake size) -> soft indices
         self._nodes = None                    # the first body's camber-line nodes (xi, zeta), m
         #: core (m) through which soft-site vortices and the bodies meet (see _soften)
@@ -578,8 +581,24 @@ class VortexSolver:
             s.loads[site.body].update(site.report())
         s.total = (s.loads[0] if len(s.loads) == 1 else      # several bodies: the assembly's (vortex.elements)
                    combine_loads(s.loads, [m.geometry for m in self.models], s.alpha, s.h))
+        if self._split is not None:
+            self._split_impulse(s)
         if not (np.isfinite(s.gamma).all() and all(math.isfinite(r["cl"]) for r in s.loads)):
             raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
+
+    def _split_impulse(self, s):
+        """Several elements with surface panels: ``cl_impulse_<i>``, ``cd_impulse_<i>`` (each element's
+        own impulse, :class:`~unsteady.vortex.elements.ElementImpulse`) and the enclosed air of every
+        further panel body in the assembly's impulse columns."""
+        q_c = 0.5 * self.rho * self.U ** 2 * self.body.chord
+        for i, (cl_i, cd_i) in enumerate(self._split.add(self, s), start=1):
+            bad = self.z_g is not None        # the ground carries a share of the impulse
+            s.total[f"cl_impulse_{i}"] = math.nan if bad else cl_i
+            s.total[f"cd_impulse_{i}"] = math.nan if bad else cd_i
+            inner = getattr(self.load_histories[i - 1], "inner_force", None)
+            if i > 1 and inner is not None and not bad:
+                s.total["cl_impulse"] += inner[1] / q_c
+                s.total["cd_impulse"] += inner[0] / q_c
 
     def _observe(self, s):
         """Stage 6: the observers see the step; the motion takes the loads."""
@@ -688,6 +707,8 @@ class VortexSolver:
                 gx, gz, gg = self.store.remove(idx)
                 for hist in self.load_histories:
                     hist.retire(gx, gz, gg)
+                if self._split is not None:
+                    self._split.retire(site.index, gx, gz, gg, self.U, self.dt)
                 self.far.add(gx, gz, gg, site.index)
 
 
