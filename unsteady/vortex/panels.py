@@ -76,7 +76,7 @@ from .bodies import BodyPoints, rotate
 from .kernels import induced_velocity
 from .loads import backward_derivative, impulse_loads
 from .panel_kernels import (chain_image_potential, chain_potential, chain_segment_angles,
-                            panel_image_velocity_matrices,
+                            panel_image_velocity_matrices, ray_vortex_potential,
                             panel_velocity_matrices)
 
 from ..inputs.thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS  # noqa: F401  (the limits check applies)
@@ -400,64 +400,54 @@ class SurfaceLoads:
         w += dw
 
     def potential_several(self, s, G, solver, sl):
-        """:meth:`potential` when other bodies share the flow (``[[airfoil]]``): one doublet chain per body.
+        """:meth:`potential` when other bodies share the flow (``[[airfoil]]``).
 
         This body's chain runs through its nodes and then only its own site's wake (newest first)
-        and far-wake lumps, with the ray to x = +infinity, as :meth:`potential` with one body.  Each
-        other body's vortices (its bound vortices, then its own wake and lumps, newest first) form a
-        chain of their own, whose potential is summed at every mid-point; its closing ray carries
-        that body's constant total circulation and points away from this body's centroid, which
-        keeps its cut off a convex outline (a point outside a convex set and the ray beyond it from
-        the set's centre never meet the set), so the potential stays continuous on this body.  The
-        chains are cuts only: any order of the points gives the same velocity field (Milne-Thomson
-        1968, the complex potential of a vortex pair).  Known limit: where another element's wake
-        passes over and under this body, the segment joining two neighbouring vortices on either
-        side crosses it.
+        and far-wake lumps, with the ray to x = +infinity, as :meth:`potential` with one body.  The
+        other bodies' vortices (bound, free and far wake) each carry a cut of their own, a ray
+        pointing away from this body's centroid
+        (:func:`~unsteady.vortex.panel_kernels.ray_vortex_potential`): a point outside a convex
+        outline and the ray beyond it from a point inside never meet the outline, so the potential
+        stays continuous on this body whichever way the other vortices pass it (a chain through
+        another element's wake would cross this body where that wake passes over and under it).
+        Cuts change the potential only by constants along them: the velocity field is that of the
+        same vortices (Milne-Thomson 1968, the complex potential of a vortex).
         """
         N = self.body.n
         o = sl.start
         xt, zt = s.xc[o:o + N], s.zc[o:o + N]
         wx, wz, wg = solver.store.wake()
         fx, fz, fg = solver.far.views()
-        wsite = solver.store.site[:wx.shape[0]]
-        fsite = solver.far.site[:fx.shape[0]]
+        b_self = next(b for b, x in enumerate(solver.system.slices) if x == sl)
+        own_sites = [site.index for site in solver.sites if site.body == b_self]
+        wm = np.isin(solver.store.site[:wx.shape[0]], own_sites)
+        fm = np.isin(solver.far.site[:fx.shape[0]], own_sites)
         z_g = solver.z_g
-        phi = np.zeros(N)
+        # this body's chain
+        px = np.concatenate((s.xv[sl], wx[wm][::-1], fx[fm][::-1]))
+        pz = np.concatenate((s.zv[sl], wz[wm][::-1], fz[fm][::-1]))
+        gam = np.concatenate((G, wg[wm][::-1], fg[fm][::-1]))
+        total = -np.cumsum(gam)
+        mu = np.ascontiguousarray(total[:-1])
+        tail = float(total[-1])
+        phi = self._angles @ mu[:N]
+        part = np.empty(N)
+        chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:]), np.ascontiguousarray(pz[N:]),
+                        np.ascontiguousarray(mu[N:]), tail, part)
+        phi += part
+        if z_g is not None:
+            chain_image_potential(xt, zt, px, pz, mu, tail, z_g, phi)
+        # every other vortex, each with its own cut away from this body
+        others = np.ones(s.xv.shape[0], dtype=bool)
+        others[sl] = False
+        ox = np.concatenate((s.xv[others], wx[~wm], fx[~fm]))
+        oz = np.concatenate((s.zv[others], wz[~wm], fz[~fm]))
+        og = np.concatenate((s.gamma[others], wg[~wm], fg[~fm]))
         cx, cz = float(np.mean(self.body.xi_n)), float(np.mean(self.body.zeta_n))   # body frame
         ca, sa = np.cos(s.alpha), np.sin(s.alpha)
-        cx, cz = cx * ca + cz * sa, s.h - cx * sa + cz * ca
-        for b, slb in enumerate(solver.system.slices):
-            own_sites = [site.index for site in solver.sites if site.body == b]
-            wm = np.isin(wsite, own_sites)
-            fm = np.isin(fsite, own_sites)
-            px = np.concatenate((s.xv[slb], wx[wm][::-1], fx[fm][::-1]))
-            pz = np.concatenate((s.zv[slb], wz[wm][::-1], fz[fm][::-1]))
-            gam = np.concatenate((s.gamma[slb], wg[wm][::-1], fg[fm][::-1]))
-            total = -np.cumsum(gam)
-            mu = np.ascontiguousarray(total[:-1])
-            tail = float(total[-1])
-            part = np.empty(N)
-            if slb == sl:                            # this body: its own segments from the fixed angles
-                own = self._angles @ mu[:N]
-                chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:]), np.ascontiguousarray(pz[N:]),
-                                np.ascontiguousarray(mu[N:]), tail, part)
-                phi += own + part
-                if z_g is not None:
-                    chain_image_potential(xt, zt, px, pz, mu, tail, z_g, phi)
-                continue
-            chain_potential(xt, zt, self._none_all, px, pz, mu, 0.0, part)
-            phi += part
-            # the closing ray, from the chain's last point away from this body's centroid
-            ex, ez = px[-1] - cx, pz[-1] - cz
-            L = np.hypot(ex, ez)
-            dx, dz = (ex / L, ez / L) if L > 0.0 else (1.0, 0.0)
-            ax, az = xt - px[-1], zt - pz[-1]
-            phi += tail * np.arctan2(az * dx - ax * dz, -(ax * dx + az * dz)) / (2.0 * np.pi)
-            if z_g is not None:                      # its ground image: mirrored points and ray, strengths reversed
-                chain_image_potential(xt, zt, px, pz, mu, 0.0, z_g, phi)
-                az = zt - (2.0 * z_g - pz[-1])
-                phi -= tail * np.arctan2(az * dx + ax * dz, -(ax * dx - az * dz)) / (2.0 * np.pi)
-        return phi, mu_own(s.gamma[sl], N)
+        ray_vortex_potential(xt, zt, ox, oz, og, cx * ca + cz * sa, s.h - cx * sa + cz * ca,
+                             0.0 if z_g is None else z_g, z_g is not None, phi)
+        return phi, mu[:N]
 
     def add_step(self, solver, s, sl):
         """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""
@@ -554,11 +544,6 @@ class SurfaceLoads:
             "gamma_wake_m2_s": float(gs.sum() - G.sum()),
             **extra,
         }
-
-
-def mu_own(G, N):
-    """The chain's strength on each of a body's N panels from its node circulations ``G`` (N + 1)."""
-    return np.ascontiguousarray(-np.cumsum(G)[:N])
 
 
 def build_surface(sc, n_panels=None):
