@@ -205,8 +205,8 @@ class VortexSolver:
        :class:`~unsteady.vortex.bodies.Body` its loads are computed on (a
        new object when its points moved: the loads then take its normals).
     5. Optionally (a thick section, :mod:`~unsteady.vortex.panels`):
-       ``influence_matrix()``, its own block of the body matrix (then it must
-       be the only body), and ``load_history(U, rho, dt)``, its own loads
+       ``influence_matrix()``, its own diagonal block of the body matrix (with
+       other bodies the blocks between them are the point-vortex kernel's), and ``load_history(U, rho, dt)``, its own loads
        object, whose ``add_step(solver, step, slice)`` returns the loads dict;
        with a ground also ``ground_matrix(step, z_ground)``, its block with its images.
 
