@@ -199,6 +199,7 @@ class ElementImpulse:
         self.sites = [[site.index for site in solver.sites if site.body == b]
                       for b in range(len(solver.models))]
         self.site_body = {site.index: site.body for site in solver.sites}
+        self.body_of_site = np.array([site.body for site in solver.sites], dtype=int)   # by site index
         self.hist = [[] for _ in solver.models]
         self.start = [0.0] * len(solver.models)
 
@@ -220,26 +221,38 @@ class ElementImpulse:
         fsite = far.site[:far.n]
         fg = far.g[:far.n]
         owner = np.concatenate([np.full(sl.stop - sl.start, b) for b, sl in enumerate(solver.system.slices)]
-                               + [np.array([self.site_body[int(k)] for k in wsite], dtype=int)])
+                               + [self.body_of_site[wsite]])
         xa, za, ga = (np.concatenate((a, b)) for a, b in ((s.xv, wx), (s.zv, wz), (s.gamma, wg)))
         q_c = 0.5 * solver.rho * solver.U ** 2 * solver.models[0].geometry.chord
-        out = []
-        for b in range(len(solver.models)):
-            mine = owner == b
-            xs, zs, gs = xa[mine], za[mine], ga[mine]
+        k = len(solver.models)
+        mine = [owner == b for b in range(k)]
+        forces = []
+        for b in range(k):
+            xs, zs, gs = xa[mine[b]], za[mine[b]], ga[mine[b]]
             far_b = float(fg[np.isin(fsite, self.sites[b])].sum())
             Fx, Fz, _, self.hist[b] = impulse_loads(self.hist[b], s.t, 0.0, 0.0, xs, zs, gs,
                                                     self.start[b] + far_b, solver.U, solver.rho, solver.dt)
-            u, w = np.empty(xs.shape[0]), np.empty(xs.shape[0])
-            induced_velocity(xs, zs, xa[~mine], za[~mine], ga[~mine], solver.r_b, u, w)
-            if far.n:                            # and the far-wake lumps of the others
+            if far.n:                            # the other elements' far-wake lumps pull on its vortices
                 fo = ~np.isin(fsite, self.sites[b])
-                du, dw = np.empty_like(u), np.empty_like(w)
-                induced_velocity(xs, zs, far.x[:far.n][fo], far.z[:far.n][fo], fg[fo], solver.r_c, du, dw)
-                u += du
-                w += dw
-            Fx += solver.rho * float((gs * w).sum())
-            Fz -= solver.rho * float((gs * u).sum())
+                u, w = np.empty(xs.shape[0]), np.empty(xs.shape[0])
+                induced_velocity(xs, zs, far.x[:far.n][fo], far.z[:far.n][fo], fg[fo], solver.r_c, u, w)
+                Fx += solver.rho * float((gs * w).sum())
+                Fz -= solver.rho * float((gs * u).sum())
+            forces.append([Fx, Fz])
+        # the pull between two elements' vortices, once per pair (equal and opposite)
+        for b in range(k):
+            xs, zs, gs = xa[mine[b]], za[mine[b]], ga[mine[b]]
+            for j in range(b + 1, k):
+                u, w = np.empty(xs.shape[0]), np.empty(xs.shape[0])
+                induced_velocity(xs, zs, xa[mine[j]], za[mine[j]], ga[mine[j]], solver.r_b, u, w)
+                fx, fz = solver.rho * float((gs * w).sum()), -solver.rho * float((gs * u).sum())
+                forces[b][0] += fx
+                forces[b][1] += fz
+                forces[j][0] -= fx
+                forces[j][1] -= fz
+        out = []
+        for b in range(k):
+            Fx, Fz = forces[b]
             inner = getattr(solver.load_histories[b], "inner_force", None)
             if inner is not None:
                 Fx, Fz = Fx + inner[0], Fz + inner[1]

@@ -431,12 +431,25 @@ class SurfaceLoads:
         mu = np.ascontiguousarray(total[:-1])
         tail = float(total[-1])
         phi = self._angles @ mu[:N]
+        # the newest NEAR_WAKE_CHORDS of its wake at every mid-point, the older at every COARSE-th
+        # and interpolated, as :meth:`potential`
+        cut = N + 1 + min(int(wm.sum()), NEAR_WAKE_CHORDS * solver.lump_n)
+        whole = cut >= px.shape[0] - 1
+        end = px.shape[0] if whole else cut + 1
         part = np.empty(N)
-        chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:]), np.ascontiguousarray(pz[N:]),
-                        np.ascontiguousarray(mu[N:]), tail, part)
-        phi += part
+        chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:end]), np.ascontiguousarray(pz[N:end]),
+                        np.ascontiguousarray(mu[N:end - 1]), tail if whole else 0.0, part)
         if z_g is not None:
-            chain_image_potential(xt, zt, px, pz, mu, tail, z_g, phi)
+            chain_image_potential(xt, zt, px[:end], pz[:end], mu[:end - 1], tail if whole else 0.0, z_g, part)
+        phi += part
+        if not whole:
+            far = np.empty(self._coarse.shape[0])
+            qx, qz, qm = (np.ascontiguousarray(a[cut:]) for a in (px, pz, mu))
+            xq, zq = xt[self._coarse], zt[self._coarse]
+            chain_potential(xq, zq, self._none, qx, qz, qm, tail, far)
+            if z_g is not None:
+                chain_image_potential(xq, zq, qx, qz, qm, tail, z_g, far)
+            phi += np.interp(self._index, self._coarse, far)
         # every other vortex, each with its own cut away from this body
         others = np.ones(s.xv.shape[0], dtype=bool)
         others[sl] = False
