@@ -7,7 +7,9 @@ Case: a NACA 0012 wing on 160 surface panels pitching 2 degrees about 3 degrees 
 wake, U dt = c / 80 (the panel count's own step), far wake merged beyond 30 chords; the pair adds
 a flat camber-line tail of half the chord (12 elements) 3 chords behind and 0.5 chord up.  Each
 case runs once unrecorded (numba compilation, caches), then ``--repeats`` times (default 3); the
-median wall time of the whole run and per step is printed, and the pair's ratio to the wing alone.
+median wall time of the whole run and per step is printed, and the pair's ratio to the wing alone;
+for scale, the same pair and wing on the camber line (80 elements, same step), whose ratio is the
+cost of the second wake alone (every wake vortex acts on every other).
 The extra cost of the pair is the tail's wake in every sum, each element's own impulse and the
 other element's vortices in the wing's surface potential (one cut each,
 ``panel_kernels.ray_vortex_potential``).
@@ -24,8 +26,9 @@ from unsteady import load_scenario, simulate
 U, C = 10.0, 0.2
 
 
-def case(pair, steps):
-    wing = {"shape": "naca0012", "chord": C, "thick": True, "elements": 160}
+def case(pair, steps, thick=True):
+    wing = ({"shape": "naca0012", "chord": C, "thick": True, "elements": 160} if thick else
+            {"shape": "naca0012", "chord": C, "thick": False, "elements": 80})
     tail = {"shape": "flat", "chord": 0.5 * C, "elements": 12, "position": [3.0 * C, 0.5 * C], "incidence": -2.0}
     dt = C / (80 * U)
     return load_scenario({
@@ -52,13 +55,17 @@ def main():
     p.add_argument("--steps", type=int, default=2000)
     a = p.parse_args()
     rows = []
-    for label, pair in (("thick wing alone (160 panels)", False), ("thick wing + camber-line tail", True)):
-        sc = case(pair, a.steps)
+    for label, pair, thick in (("thick wing alone (160 panels)", False, True),
+                               ("thick wing + camber-line tail", True, True),
+                               ("camber wing alone (80 elements)", False, False),
+                               ("camber wing + camber-line tail", True, False)):
+        sc = case(pair, a.steps, thick)
         t = timed(sc, a.repeats)
         rows.append(t)
         print(f"{label:32s} {sc.steps:5d} steps: {t:7.2f} s whole run, {1e3 * t / sc.steps:6.2f} ms per step "
               f"(median of {a.repeats})")
-    print(f"pair / alone: {rows[1] / rows[0]:.2f}x")
+    print(f"thick pair / thick alone: {rows[1] / rows[0]:.2f}x; camber pair / camber alone (the second wake's "
+          f"share, for scale): {rows[3] / rows[2]:.2f}x")
 
 
 if __name__ == "__main__":

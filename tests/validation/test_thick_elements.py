@@ -226,3 +226,35 @@ def test_cp_of_a_thick_further_element_goes_to_the_snapshots(tmp_path):
     film = tmp_path / "film.gif"
     assert main(["animate", str(out), "--out", str(film), "--frames", "2", "--size", "320x180",
                  "--surface-pressure", "--quiet"]) == 0
+
+
+def test_a_thick_tail_touching_the_ground_stops_the_run_at_its_lower_surface():
+    # A nose-up ramp about the wing's quarter chord lowers a thick tail to the ground: the run stops
+    # before contact (common practice: the solid ground cannot be entered), and the clearance of its
+    # last row is that of the tail's placed outline (its lower surface), not of its camber line.
+    from unsteady.inputs.sections import section_from_shape
+    from unsteady.inputs.thick import surface_nodes
+    tail = dict(TAIL, shape="naca0012", elements=40, position=[2.5 * C, 0.0], incidence=-20.0)   # nose down
+    raw = {"flow": {"speed": U, "density": RHO}, "airfoil": [dict(WING, elements=40), tail],
+           "motion": {"pivot": 0.25, "pitch": {"law": "ramp", "from": 0.0, "to": 30.0, "start": 0.0,
+                                                "duration": 0.1}},
+           "ground": {"height": 0.15}, "run": {"chords": 6.0, "wake": "frozen"},
+           "output": {"dir": "/tmp/never-written", "plots": False}}
+    res = simulate(load_scenario(raw))
+    assert res.error and "touch the ground" in res.error
+    n = len(res.history["t"])
+    assert 1 < n < load_scenario(raw).steps + 1
+    a = math.radians(float(res.history["pitch_deg"][-1]))
+    x, z = surface_nodes(section_from_shape("naca0012"), 40)
+    b = math.radians(tail["incidence"])
+
+    def placed(x, z):                                  # turned about its leading edge, then placed
+        return (tail["position"][0] - 0.25 * C + tail["chord"] * (x * math.cos(b) + z * math.sin(b)),
+                tail["position"][1] + tail["chord"] * (-x * math.sin(b) + z * math.cos(b)))
+
+    xi, zeta = placed(x, z)
+    outline = 0.15 + float((-xi * math.sin(a) + zeta * math.cos(a)).min())
+    xi, zeta = placed(x, 0.0 * x)                      # the (straight) camber line
+    camber = 0.15 + float((-xi * math.sin(a) + zeta * math.cos(a)).min())
+    assert res.history["ground_clearance_m"][-1] == pytest.approx(outline, abs=1e-9)
+    assert outline < camber - 1e-3 * C               # the thickness counts
