@@ -258,3 +258,21 @@ def test_a_thick_tail_touching_the_ground_stops_the_run_at_its_lower_surface():
     camber = 0.15 + float((-xi * math.sin(a) + zeta * math.cos(a)).min())
     assert res.history["ground_clearance_m"][-1] == pytest.approx(outline, abs=1e-9)
     assert outline < camber - 1e-3 * C               # the thickness counts
+
+
+def test_a_flap_on_a_thick_first_element_keeps_working_in_a_list():
+    # A 5-degree flap ramp on a thick wing with a camber-line tail (the matrix refactored while the
+    # flap moves): each element's pressure lift and its own impulse (Wu 1981; Saffman 1992, sec. 3.2;
+    # module docstring) agree within 1 % of the peak, the flap raises the wing's lift (thin-airfoil
+    # theory, Glauert 1926: a trailing-edge-down flap adds lift), and the hinge moment is reported.
+    tail = {"shape": "flat", "chord": 0.5 * C, "elements": 12, "position": [3.0 * C, 0.25 * C], "incidence": -1.0}
+    wing = dict(WING, elements=80, flap_hinge=0.75)
+    h = simulate(scenario([wing, tail], chords=4.0, motion={
+        "pitch": {"law": "constant", "value": 2.0},
+        "flap": {"law": "ramp", "from": 0.0, "to": 5.0, "start": 0.01, "duration": 0.02}})).history
+    assert h["flap_deg"][-1] == pytest.approx(5.0) and np.isfinite(h["ch"]).all()
+    plain = simulate(scenario([dict(WING, elements=80), tail], pitch=2.0, chords=4.0)).history
+    assert h["cl_1"][-1] > plain["cl_1"][-1] + 0.1
+    for i in (1, 2):
+        cl, cli = h[f"cl_{i}"][5:], h[f"cl_impulse_{i}"][5:]
+        assert np.abs(cl - cli).max() < 0.01 * np.abs(cl).max(), i
