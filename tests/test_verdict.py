@@ -141,3 +141,19 @@ def test_wake_inside_a_thick_outline_is_found_where_the_chord_band_misses_it():
     # the crossing rule itself: a unit square (worked by hand)
     sq = (np.array([0.0, 1.0, 1.0, 0.0]), np.array([0.0, 0.0, 1.0, 1.0]))
     assert list(inside_outline([0.5, 1.5, 0.5, -0.1], [0.5, 0.5, 1.2, 0.5], *sq)) == [True, False, False, False]
+
+
+def test_a_wake_through_a_further_element_is_measured_and_named():
+    # a plunging wing sheds a wavy wake along its chord line; a tail on that line, 2 wing chords
+    # back, has wake vortices on its camber line (the 2 % band of each element's own chord, as on
+    # the first element); the same tail half a wing chord above the line is silent
+    pair = {"airfoil": [{"shape": "flat", "chord": 0.2, "elements": 16},
+                        {"shape": "flat", "chord": 0.1, "elements": 8, "position": [0.4, 0.0]}],
+            "motion": {"plunge": {"law": "sine", "amplitude": 0.01, "reduced_frequency": 0.5}},
+            "run": {"chords": 6}}
+    sc, res = _run(pair)
+    lines = res.summary["warnings"]
+    assert _keys(lines) == ["airfoil[1].position"] and "element 2" in lines[0]
+    pair["airfoil"][1]["position"] = [0.4, 0.1]
+    sc, res = _run(pair)
+    assert "warnings" not in res.summary

@@ -68,15 +68,20 @@ def case_wagner(out):
         plt.plot(s[sel], ratio[sel], color=col, lw=1.2, label=f"{model} model")
     ss = np.linspace(0, 40, 400)
     plt.plot(ss, theory.wagner(ss), "k--", lw=1, label="Wagner phi(s) (exact)")
-    plt.xlabel("s = 2Ut/c (semichords)")
-    plt.ylabel("cl / (2 pi alpha)")
+    _finish(fig, out / "wagner.png", "s = 2Ut/c (semichords)", "cl / (2 pi alpha)", "Sudden start at 2 deg")
+    return rows, "wagner.png"
+
+
+def _finish(fig, path, xlabel, ylabel, title):
+    """Label the one axis of ``fig``, give it a legend and grid, save it to ``path`` and close it."""
+    plt.xlabel(xlabel)
+    plt.ylabel(ylabel)
     plt.legend(fontsize=8)
     plt.grid(alpha=0.3)
-    plt.title("Sudden start at 2 deg")
+    plt.title(title)
     fig.tight_layout()
-    fig.savefig(out / "wagner.png", dpi=100)
+    fig.savefig(path, dpi=100)
     plt.close(fig)
-    return rows, "wagner.png"
 
 
 def case_kuessner(out):
@@ -95,14 +100,7 @@ def case_kuessner(out):
         plt.plot(s[s > 0], ratio[s > 0], color=col, lw=1.2, label=f"{model} model")
     ss = np.linspace(0, 40, 400)
     plt.plot(ss, theory.kuessner(ss), "k--", lw=1, label="Kuessner psi(s) (exact)")
-    plt.xlabel("s since the front met the leading edge (semichords)")
-    plt.ylabel("cl / (2 pi w0 / U)")
-    plt.legend(fontsize=8)
-    plt.grid(alpha=0.3)
-    plt.title("Sharp-edged gust")
-    fig.tight_layout()
-    fig.savefig(out / "kuessner.png", dpi=100)
-    plt.close(fig)
+    _finish(fig, out / "kuessner.png", "s since the front met the leading edge (semichords)", "cl / (2 pi w0 / U)", "Sharp-edged gust")
     return rows, "kuessner.png"
 
 
@@ -184,14 +182,7 @@ def case_flap(out):
     fig = plt.figure(figsize=(7, 4))
     plt.plot(xx, 2.0 * (np.pi - th + np.sin(th)), "k--", lw=1, label="thin-airfoil theory (Glauert)")
     plt.plot(hinges, got, "o", color="#23395b", label="vortex model, 80 elements")
-    plt.xlabel("hinge position x_h / c")
-    plt.ylabel("dcl / dbeta (per radian)")
-    plt.legend(fontsize=8)
-    plt.grid(alpha=0.3)
-    plt.title("Steady plain flap")
-    fig.tight_layout()
-    fig.savefig(out / "flap.png", dpi=100)
-    plt.close(fig)
+    _finish(fig, out / "flap.png", "hinge position x_h / c", "dcl / dbeta (per radian)", "Steady plain flap")
     return rows, "flap.png"
 
 
@@ -212,14 +203,7 @@ def case_thick(out):
     plt.plot(np.asarray(sn["x_surface"]), np.asarray(sn["cp"][0], float), color="#23395b", lw=1.2,
              label=f"vortex model, surface panels: cl = {cl0:.4f}")
     plt.gca().invert_yaxis()
-    plt.xlabel("x / c")
-    plt.ylabel("Cp (upward: suction)")
-    plt.legend(fontsize=8)
-    plt.grid(alpha=0.3)
-    plt.title("NACA 2412 at 10 deg, inviscid surface pressure")
-    fig.tight_layout()
-    fig.savefig(out / "thick.png", dpi=100)
-    plt.close(fig)
+    _finish(fig, out / "thick.png", "x / c", "Cp (upward: suction)", "NACA 2412 at 10 deg, inviscid surface pressure")
     return rows, "thick.png"
 
 
@@ -331,14 +315,7 @@ def case_ground(out):
     plt.plot(fine, (0.25 + 4 * fine ** 2) / (4 * fine ** 2), "k--", lw=1, label="one lumped vortex, image formula")
     plt.plot(hc, one, "o", color="#23395b", label="vortex model, 1 element, 0.3 deg")
     plt.plot(hc, many, "s-", color="#7a8b99", ms=4, lw=1, label="vortex model, 40 elements, 4 deg")
-    plt.xlabel("height of the quarter chord above the ground, h / c")
-    plt.ylabel("cl in ground effect / cl in free air")
-    plt.legend(fontsize=8)
-    plt.grid(alpha=0.3)
-    plt.title("Flat plate near a flat ground (method of images)")
-    fig.tight_layout()
-    fig.savefig(out / "ground.png", dpi=100)
-    plt.close(fig)
+    _finish(fig, out / "ground.png", "height of the quarter chord above the ground, h / c", "cl in ground effect / cl in free air", "Flat plate near a flat ground (method of images)")
     return rows, "ground.png"
 
 

@@ -34,7 +34,9 @@ What is measured (limits marked common practice where no source is named):
 7. **The wake passes through the airfoil** (vortex model, free wake): a
    wake vortex of a snapshot lies on the chord (within 2 % of the chord of
    it, between 2 % and 98 % of the chord), or for a thick section
-   (surface panels) inside its outline, where the discrete vortices
+   (surface panels) inside its outline, or, with several elements, on a
+   further element's camber line (the same band on its own chord; the
+   wing's wake meeting the tail), where the discrete vortices
    induce unbounded velocities and the loads stop meaning anything.
    Leading-edge vortices are left out, and once the leading edge has shed
    the check is not made: in separated flow vortices travel along the
@@ -47,7 +49,10 @@ What is measured (limits marked common practice where no source is named):
    edge would shed a vortex; the warning suggests ``lesp_critical``.  With
    ``lesp_critical`` the model sheds, so 1, 2 and 5 (the attached-flow
    limits) no longer apply and are not given; the caution of such a run
-   says that the critical value is a model parameter.
+   says that the critical value is a model parameter.  With several
+   elements each one without a ``lesp_critical`` of its own is judged on
+   its ``lesp_<i>`` and named; 1 and 2 (the first element's effective
+   angle) go with the first element's key, 5 (the total lift) with any.
 9. **Extreme ground effect** (``[ground]``): the camber line closer to the
    ground than :data:`GROUND_NEAR` (5 %) of the chord, where the section's
    thickness and the ground's boundary layer set the flow under it.
@@ -60,7 +65,7 @@ import math
 import numpy as np
 
 from ..inputs.estimates import angle_text, motion_key
-from .shedding import critical_value, lesp_warning
+from .shedding import critical_value, element_criticals, lesp_warnings
 from .summary import impulse_mask, running_mean
 
 #: |cl| beyond which a real section would have stalled (common practice, see module docstring).
@@ -111,7 +116,8 @@ def measured_warnings(history, sc, summary, snapshots=None):
     # the leading edge has left attached flow on purpose: the LESP verdict, 8, replaces it)
     lag = summary["lag"]
     v = lag["validity"]
-    sheds = critical_value(sc) is not None
+    sheds = critical_value(sc) is not None          # the first element's (its effective angle)
+    sheds_any = any(c is not None for c in element_criticals(sc))
     a_max = abs(lag.get("peak_effective_alpha_deg", 0.0))
     if not sheds and a_max > v["alpha_eff_limit_deg"]:
         i = int(np.nanargmax(np.abs(history["alpha_eff_deg"])))
@@ -127,8 +133,8 @@ def measured_warnings(history, sc, summary, snapshots=None):
                     f"attached-flow run leaves out"))
 
     # 8: the leading-edge suction parameter past a typical critical value, without shedding
-    lesp = lesp_warning(history, sc)
-    if lesp is not None:
+    # (per element: each one without lesp_critical of its own, named when there are several)
+    for lesp in lesp_warnings(history, sc):
         out.append((gust_key or mkey, lesp))
 
     times = [T for T in sc.kinematics.singular_times() if t[0] <= T <= t[-1]]
@@ -151,7 +157,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
         keep &= t >= summary["peaks_from_s"]
     if keep.any() and np.isfinite(cl[keep]).any():
         i = np.nonzero(keep)[0][int(np.nanargmax(np.abs(cl[keep])))]
-        if abs(cl[i]) > CL_MAX_TYPICAL and not sheds:
+        if abs(cl[i]) > CL_MAX_TYPICAL and not sheds_any:
             msg = (f"the section lift coefficient reached {cl[i]:.3g} at t = {t[i]:.4g} s, beyond the "
                    f"about {CL_MAX_TYPICAL:g} a real section carries before it stalls (common practice)")
             if "n" in history and np.isfinite(history["n"][i]) and cl[i] != cl[0]:
@@ -200,7 +206,71 @@ def measured_warnings(history, sc, summary, snapshots=None):
             out.append((mkey,
                         f"wake vortices lie on the airfoil at t = {hit:.4g} s (the body meets its own "
                         f"wake): the loads after that are not to be trusted"))
+        for i, hit in wake_through_elements(snapshots, sc):
+            out.append((f"airfoil[{i - 1}].position",
+                        f"wake vortices lie on element {i} at t = {hit:.4g} s (a wake passes through it): "
+                        f"its loads after that are not to be trusted; move it out of the wake or "
+                        f"halve run.dt and compare"))
     return out
+
+
+def _wake_in_body_frame(snapshots):
+    """Per snapshot: (t, xi, zeta) of its wake vortices in the body frame (m, origin at the pitch axis)
+    and the snapshot's leading-edge mask (or None); nothing for an empty snapshot."""
+    t = np.asarray(snapshots.get("t", ()), dtype=float)
+    off = np.asarray(snapshots.get("offsets", ()), dtype=np.int64)
+    if t.size == 0 or off.size < t.size + 1:
+        return
+    x, z = np.asarray(snapshots["x"], float), np.asarray(snapshots["z"], float)
+    lev = snapshots.get("lev")
+    lev = np.asarray(lev, bool) if lev is not None and len(lev) == len(snapshots["x"]) else None
+    for k in range(t.size):
+        a, b = off[k], off[k + 1]
+        if b <= a:
+            continue
+        al, h = float(snapshots["alpha"][k]), float(snapshots["h"][k])
+        dx, dz = x[a:b], z[a:b] - h
+        xi = dx * math.cos(al) - dz * math.sin(al)
+        zeta = dx * math.sin(al) + dz * math.cos(al)
+        yield float(t[k]), xi, zeta, (None if lev is None else lev[a:b])
+
+
+def wake_through_elements(snapshots, sc):
+    """[(i, first time (s))] for each further element i = 2, 3, ... of ``[[airfoil]]`` on whose camber
+    line a wake vortex of a snapshot lies: within WAKE_BAND of its chord of the camber line, between
+    2 % and 98 % of its chord (the same band as the first element's, :func:`wake_through_airfoil`),
+    the elements placed as the solver places them (:func:`unsteady.inputs.elements.placed_nodes`)."""
+    from ..inputs.elements import placed_nodes
+    from ..inputs.sections import section_from_shape
+    more = sc.data.get("airfoil", {}).get("_more") or []
+    if not more:
+        return []
+    lines = []
+    for el in more:
+        px, pz = placed_nodes(section_from_shape(el["shape"], sc.base_dir), 200, el["chord"],
+                              el.get("incidence", 0.0), el["position"])
+        px = px - sc.pivot * sc.chord                     # to the pitch axis, as the snapshots' body frame
+        tx, tz = px[-1] - px[0], pz[-1] - pz[0]
+        L = math.hypot(tx, tz)
+        tx, tz = tx / L, tz / L
+        s_n = (px - px[0]) * tx + (pz - pz[0]) * tz
+        d_n = -(px - px[0]) * tz + (pz - pz[0]) * tx
+        lines.append((px[0], pz[0], tx, tz, L, s_n, d_n))
+    first = {}
+    for t, xi, zeta, lev in _wake_in_body_frame(snapshots):
+        for i, (x0, z0, tx, tz, L, s_n, d_n) in enumerate(lines, start=2):
+            if i in first:
+                continue
+            s = (xi - x0) * tx + (zeta - z0) * tz
+            d = -(xi - x0) * tz + (zeta - z0) * tx - np.interp(s, s_n, d_n)
+            inside = (np.abs(d) < WAKE_BAND * L) & (s > 0.02 * L) & (s < 0.98 * L)
+            if lev is not None:
+                inside &= ~lev
+            if np.any(inside):
+                first[i] = t
+        if len(first) == len(lines):
+            break
+    return sorted(first.items())
 
 
 def wake_through_airfoil(snapshots, sc):
@@ -213,35 +283,21 @@ def wake_through_airfoil(snapshots, sc):
     ``z_surface``, the panel mid-points in chord fractions) when it lies
     inside the outline (:func:`inside_outline`), whatever the thickness.
     """
-    t = np.asarray(snapshots.get("t", ()), dtype=float)
-    off = np.asarray(snapshots.get("offsets", ()), dtype=np.int64)
-    if t.size == 0 or off.size < t.size + 1:
-        return None
-    x, z = np.asarray(snapshots["x"], float), np.asarray(snapshots["z"], float)
     c, p = sc.chord, sc.pivot
     lo, hi = (0.02 - p) * c, (0.98 - p) * c
     xs, zs = snapshots.get("x_surface"), snapshots.get("z_surface")
     outline = None
     if xs is not None and zs is not None and len(xs) > 2 and len(xs) == len(zs):
         outline = ((np.asarray(xs, float) - p) * c, np.asarray(zs, float) * c)
-    lev = snapshots.get("lev")
-    lev = np.asarray(lev, bool) if lev is not None and len(lev) == len(snapshots["x"]) else None
-    for k in range(t.size):
-        a, b = off[k], off[k + 1]
-        if b <= a:
-            continue
-        al, h = float(snapshots["alpha"][k]), float(snapshots["h"][k])
-        dx, dz = x[a:b], z[a:b] - h
-        xi = dx * math.cos(al) - dz * math.sin(al)
-        zeta = dx * math.sin(al) + dz * math.cos(al)
+    for t, xi, zeta, lev in _wake_in_body_frame(snapshots):
         if outline is not None:
             inside = inside_outline(xi, zeta, *outline)
         else:
             inside = (np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)
         if lev is not None:
-            inside &= ~lev[a:b]
+            inside &= ~lev
         if np.any(inside):
-            return float(t[k])
+            return t
     return None
 
 

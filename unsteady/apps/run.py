@@ -46,8 +46,15 @@ def main(args):
               + (f"; load factor {s['n_min']:.3f} .. {s['n_max']:.3f}" if "n_max" in s else ""))
         if s.get("lev_onset_t") is not None:
             from ..core.cautions import SHEDDING_CAUTION
-            print(f"leading edge sheds from t = {s['lev_onset_t']:.4g} s (lesp_critical = "
-                  f"{s['lesp_critical']:g}); caution: {SHEDDING_CAUTION}")
+            several = [k[len("lev_onset_t_"):] for k in s if k.startswith("lev_onset_t_")]
+            if not several:
+                print(f"leading edge sheds from t = {s['lev_onset_t']:.4g} s (lesp_critical = "
+                      f"{s['lesp_critical']:g}); caution: {SHEDDING_CAUTION}")
+            else:
+                parts = [f"element {i} from t = {s['lev_onset_t_' + i]:.4g} s (lesp_critical = "
+                         f"{s['lesp_critical_' + i]:g})" if s["lev_onset_t_" + i] is not None else
+                         f"element {i} never (lesp_critical = {s['lesp_critical_' + i]:g})" for i in several]
+                print(f"leading edges shed: {'; '.join(parts)}; caution: {SHEDDING_CAUTION}")
         if "lift_max_N" in s:
             print(f"loads: lift up to {s['lift_max_N']:.4g} N"
                   + (f", root bending of a half-wing up to {s['root_bending_max_Nm']:.4g} N m (elliptic "

@@ -79,9 +79,6 @@ def check_pitch_freedom(value, ctx):
         errors.append(InputError("aircraft.aspect_ratio", "cannot be used with pitch freedom: the wing's "
                                                           "finite-span correction would also scale the tail's "
                                                           "lift and moment; remove aircraft.aspect_ratio"))
-    if af.get("lesp_critical") is not None:
-        errors.append(InputError("aircraft.cg", "pitch freedom with leading-edge shedding "
-                                                "(airfoil.lesp_critical) is not supported by this version"))
     pivot = mo.get("pivot")
     if "cg" in out and isinstance(pivot, (int, float)) and pivot != 0.25 and abs(pivot - out["cg"]) > 1e-12:
         errors.append(InputError("motion.pivot", f"is {pivot:g}, but with pitch freedom the aircraft turns "

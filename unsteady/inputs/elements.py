@@ -17,7 +17,8 @@ from ..core.errors import InputError
 from .checks import integer, number, text, unknown_keys
 from .thick import DEFAULT_PANELS
 
-__all__ = ["check_further_elements", "element_problems", "placed_outline", "MAX_ELEMENTS", "MAX_INCIDENCE_DEG"]
+__all__ = ["check_further_elements", "element_problems", "lesp_criticals", "placed_outline", "sheds_anywhere",
+           "MAX_ELEMENTS", "MAX_INCIDENCE_DEG"]
 
 #: At most this many elements in one flow.
 MAX_ELEMENTS = 8
@@ -80,9 +81,11 @@ def check_further_elements(items, base_dir, chord_range):
             errors.append(InputError(p + "flap_hinge", "a flap on a further element is not supported by this "
                                                        "version: give flap_hinge on the first element only"))
         if "lesp_critical" in af:
-            errors.append(InputError(p + "lesp_critical", "leading-edge shedding on a further element is not "
-                                                          "supported by this version: give lesp_critical on "
-                                                          "the first element only"))
+            # this element's own critical leading-edge suction parameter (Ramesh et al., J. Fluid
+            # Mech. 751, 2014); absent: its leading edge never sheds
+            el["lesp_critical"] = grab(number, p + "lesp_critical", af["lesp_critical"], gt=0.0,
+                                       unit="(this element's critical leading-edge suction parameter; "
+                                            "about 0.1-0.3 for thin sections at low Reynolds numbers)")
         out.append(el)
     return out, errors
 
@@ -125,6 +128,17 @@ def placed_outline(section, n, chord, incidence_deg, position, lower_only=False)
     a = math.radians(incidence_deg)
     ca, sa = math.cos(a), math.sin(a)
     return (position[0] + chord * (x * ca + z * sa), position[1] + chord * (-x * sa + z * ca))
+
+
+def lesp_criticals(airfoil):
+    """Each element's ``lesp_critical`` (None where its leading edge never sheds), in file order, from a
+    resolved ``[airfoil]`` (a single element gives a list of one)."""
+    return [airfoil.get("lesp_critical")] + [el.get("lesp_critical") for el in airfoil.get("_more") or ()]
+
+
+def sheds_anywhere(airfoil):
+    """Whether any element of a resolved ``[airfoil]`` may shed from its leading edge."""
+    return any(c is not None for c in lesp_criticals(airfoil))
 
 
 def placed_nodes(section, n, chord, incidence_deg, position):
@@ -188,11 +202,25 @@ def element_problems(first, further, base_dir):
         else:
             lines.append(placed_nodes(sec, el["elements"], el["chord"], el["incidence"], el["position"]))
             clear.append(GAP_ELEMENTS * el["chord"] / el["elements"])
+    errors = []
+    for j, el in enumerate(tables[1:], start=1):
+        # the leading-edge vortices meet every element through one soft core, twice the first element's
+        # length (vortex.solver.VortexSolver._soften): a coarser shedding element would pick out its own
+        # lumped vortices one by one
+        own, ref = el["chord"] / el["elements"], first["chord"] / first["elements"]
+        if el.get("lesp_critical") is not None and own > ref * (1.0 + 1e-12):
+            need = math.ceil(el["chord"] * first["elements"] / first["chord"] * (1.0 - 1e-12))
+            errors.append(InputError(f"airfoil[{j}].lesp_critical",
+                                     f"needs element {j + 1}'s element length (chord / elements = "
+                                     f"{own:.4g} m) no longer than the first element's "
+                                     f"({ref:.4g} m), through whose soft core the "
+                                     f"leading-edge vortices meet every element: give airfoil[{j}].elements "
+                                     f">= {need}"))
     pair = crossing_pair(lines, clear)
     if pair is None:
-        return []
+        return errors
     i, j = pair
-    return [InputError(f"airfoil[{j}].position",
+    return errors + [InputError(f"airfoil[{j}].position",
                        f"element {j + 1} (airfoil[{j}]) overlaps or touches element {i + 1} (airfoil[{i}]): "
                        f"their camber lines (or outlines) must stay at least {GAP_ELEMENTS:g} element lengths (chord / "
                        f"elements) apart; move airfoil[{j}].position or change its incidence")]

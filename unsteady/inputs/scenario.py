@@ -451,6 +451,15 @@ def resolve(raw, base_dir, stem="scenario"):
             errors.append(InputError("airfoil", "several elements ([[airfoil]]) need run.model = \"vortex\": "
                                                 "the linear model is one thin airfoil alone"))
         airfoil["_more"] = more
+        # leading-edge shedding and surface panels in one list: not supported (the soft core through which
+        # leading-edge vortices meet the bodies is tied to camber-line elements)
+        shedding = ([] if airfoil.get("thick") else
+                    (["airfoil.lesp_critical"] if airfoil.get("lesp_critical") is not None else [])) + [
+            f"airfoil[{j}].lesp_critical" for j, el in enumerate(more, start=1) if el.get("lesp_critical") is not None]
+        if shedding and (airfoil.get("thick") or any(el.get("thick") for el in more)):
+            errors.append(InputError(shedding[0], "leading-edge shedding is not available in a list with a thick "
+                                                  "element (surface panels): leave lesp_critical out, or set every "
+                                                  "element's thick = false"))
     out["airfoil"] = airfoil
 
     speed = flow.get("speed")

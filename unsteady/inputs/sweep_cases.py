@@ -149,6 +149,8 @@ ALWAYS_NUMBERS = ("steps", "cl_max", "t_cl_max", "cl_min", "t_cl_min", "cm_max",
                   "delay90", "delay90_chords", "t_begin", "amplitude_ratio", "phase_lag_deg", "loop_area",
                   "periods_used", "lesp_max", "t_lesp_max", "warnings_count")
 LEV_NUMBERS = ("lev_onset_t", "gamma_lev_final", "lesp_critical")
+#: a run that sheds takes its peaks from a running mean and keeps the largest single row beside them
+LEV_PEAK_NUMBERS = ("cl_max_steps", "peaks_running_mean_s")
 GUST_NUMBERS = ("w_gust_max", "w_gust_min", "u_gust_max", "u_gust_min", "alpha_eff_max_deg")
 AIRCRAFT_NUMBERS = ("n_max", "t_n_max", "n_min", "t_n_min", "alpha_trim_deg", "cl_level", "wing_loading_N_m2",
                     "mass_ratio_mu_g", "lift_slope_per_rad", "dn_max", "dn_min", "lift_max_N")
@@ -163,8 +165,17 @@ def possible_numbers(case_sc):
     from .gusts import gust_list
     d = case_sc.data
     out = list(ALWAYS_NUMBERS)
-    if d.get("airfoil", {}).get("lesp_critical") is not None:
+    from .elements import lesp_criticals
+    crits = lesp_criticals(d.get("airfoil", {}))
+    if any(c is not None for c in crits):
+        out += LEV_PEAK_NUMBERS
+    if len(crits) == 1 and crits[0] is not None:
         out += LEV_NUMBERS
+    elif len(crits) > 1:                 # several elements: each one's peak LESP, each shedding one's onset
+        out += [f"{k}_{i}" for i in range(1, len(crits) + 1) for k in ("lesp_max", "t_lesp_max")]
+        if any(c is not None for c in crits):
+            out += [k for k in LEV_NUMBERS if k != "lesp_critical" or crits[0] is not None]
+            out += [f"{k}_{i}" for i, c in enumerate(crits, start=1) if c is not None for k in LEV_NUMBERS]
     gusts = gust_list(d.get("gust"))
     if gusts:
         out += GUST_NUMBERS

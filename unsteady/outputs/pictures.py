@@ -23,6 +23,7 @@ from matplotlib.patches import Rectangle
 from ..analysis.lag import ALPHA_EFF_LIMIT_DEG
 from ..core.cautions import DIMENSIONAL_CAUTION, GUST_CAUTION, PICTURE_CAUTION, PICTURE_SHEDDING_CAUTION
 from ..core.files import atomic_path
+from ..inputs.elements import sheds_anywhere
 from ..core.version import __version__
 from .notices import run_warnings
 
@@ -262,7 +263,7 @@ _warning_notes, _title = warning_notes, run_title
 def run_caution(result):
     """The short caution of a run's pictures and films (its own for a run that sheds from the leading edge)."""
     sc = result.scenario
-    if sc is not None and sc.data.get("airfoil", {}).get("lesp_critical") is not None:
+    if sc is not None and sheds_anywhere(sc.data.get("airfoil", {})):      # any element's leading edge
         return PICTURE_SHEDDING_CAUTION
     return CAUTION
 
@@ -416,8 +417,13 @@ def mark_onset(ax, result, y="cl"):
         return False
     i = int(np.argmin(np.abs(np.asarray(h["t"]) - t0)))
     ax.axvline(t0, color=LOOK["lev"], lw=0.8, ls=(0, (4, 2)), zorder=1)
+    # several elements: name the ones whose leading edge sheds first
+    first = [k[len("lev_onset_t_"):] for k, v in (result.summary or {}).items()
+             if k.startswith("lev_onset_t_") and v == t0]
+    who = (f"leading edge of element {' and '.join(first)} sheds" if len(first) == 1 else
+           f"leading edges of elements {' and '.join(first)} shed" if first else "leading edge sheds")
     ax.plot([t0], [h[y][i]], "D", color=LOOK["paper"], mec=LOOK["lev"], mew=1.3, ms=5, zorder=5,
-            label=f"leading edge sheds ({t0:.4g} s)")
+            label=f"{who} ({t0:.4g} s)")
     house_legend(ax)
     return True
 

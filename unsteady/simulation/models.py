@@ -8,6 +8,7 @@ from ..dynamics.heave import HeaveMotion
 from ..inputs import scenario
 from ..inputs.gusts import build_gust_field
 from ..inputs.sections import camber_elements
+from ..inputs.elements import lesp_criticals
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.flap import build_flap_body, hinge_nodes
@@ -307,10 +308,13 @@ class VortexModel(Model):
         # the ground sits [ground] height below the pitch axis's height at t = 0
         self.ground = (None if not gr else
                        Ground(float(sc.kinematics.plunge.value(0.0)) - gr["height"]))
-        self.COLUMNS = (("lesp", "gamma_lev") if sc.data["airfoil"].get("lesp_critical") is not None
+        crit = lesp_criticals(sc.data["airfoil"])
+        self.COLUMNS = (("lesp", "gamma_lev") if any(c is not None for c in crit)
                         else ("lesp",)) + (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
             ("ground_clearance_m",) if self.ground is not None else ()) + (
             tuple(f"{q}_{i}" for i in range(1, len(more) + 2) for q in ("cl", "cd", "cm")) if more else ()) + (
+            tuple(f"lesp_{i}" for i in range(1, len(more) + 2)) if more else ()) + (
+            tuple(f"gamma_lev_{i}" for i, c in enumerate(crit, start=1) if c is not None) if more else ()) + (
             tuple(f"{q}_{i}" for i in range(1, len(more) + 2) for q in ("cl_impulse", "cd_impulse"))
             if several_thick else ())
         self._pressure = None
@@ -423,11 +427,16 @@ class VortexModel(Model):
         self._surface = (None if self.cp_element is None or not several else
                          self._pressure if self.thick else _SurfaceRows(sc.steps, self.body[self.cp_element - 1]))
         offset = run.get("shed_offset", 0.3)
-        critical = sc.data["airfoil"].get("lesp_critical")
+        crit = lesp_criticals(sc.data["airfoil"])
         sites = None
-        if critical is not None:
-            sites = [TrailingEdgeSite(0, offset), LeadingEdgeSite(0, critical, offset)] + [
-                TrailingEdgeSite(b, offset) for b in range(1, len(self.body) if isinstance(self.body, list) else 1)]
+        if any(c is not None for c in crit):
+            # each body's trailing edge, then its leading edge if it may shed: a leading-edge site's
+            # trial solve then holds every earlier body's vortices and its own body's trailing edge
+            sites = []
+            for b, c in enumerate(crit):
+                sites.append(TrailingEdgeSite(b, offset))
+                if c is not None:
+                    sites.append(LeadingEdgeSite(b, c, offset))
         solver = VortexSolver(self.body, self.motion, speed=sc.speed, density=sc.density, dt=sc.dt,
                               steps=sc.steps, wake=run["wake"], start=run["start"], gust=self.gust,
                               shed_offset=offset, sites=sites,

@@ -65,7 +65,9 @@ def place_element(body: Body, incidence: float, position, ref_pivot_m: float) ->
 
 def combine_loads(rows, bodies, alpha, h):
     """The assembly's loads row from one row per body (module docstring): the totals on the
-    first body's chord plus ``cl_<i>``, ``cd_<i>``, ``cm_<i>`` (i = 1, 2, ...)."""
+    first body's chord plus ``cl_<i>``, ``cd_<i>``, ``cm_<i>`` (i = 1, 2, ...), each body's
+    ``lesp_<i>`` and, for a body that may shed from its leading edge, ``gamma_lev_<i>`` (then
+    ``gamma_lev`` is their sum; ``lesp`` stays the first body's)."""
     ref = bodies[0]
     c_r = ref.chord
     x_r, z_r = to_inertial(ref.xi_ref, ref.zeta_ref, alpha, h)
@@ -83,6 +85,17 @@ def combine_loads(rows, bodies, alpha, h):
         bound += row["gamma_bound_m2_s"]
     out["gamma_wake_m2_s"] = rows[0]["gamma_wake_m2_s"] + rows[0]["gamma_bound_m2_s"] - bound
     out.update(cl=cl, cd=cd, cm=cm, cm_pivot=cmp, gamma_bound_m2_s=bound)
+    # each element's suction parameter and leading-edge circulation; lesp stays the first's, gamma_lev
+    # sums the elements that may shed
+    lev = None
+    for i, row in enumerate(rows, start=1):
+        if "lesp" in row:
+            out[f"lesp_{i}"] = row["lesp"]
+        if "gamma_lev" in row:
+            out[f"gamma_lev_{i}"] = row["gamma_lev"]
+            lev = row["gamma_lev"] if lev is None else lev + row["gamma_lev"]
+    if lev is not None:
+        out["gamma_lev"] = lev
     return out
 
 

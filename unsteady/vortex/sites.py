@@ -142,11 +142,15 @@ class LeadingEdgeSite(SheddingSite):
     :meth:`~unsteady.vortex.system.BodySystem.suction_row`) has a critical
     value for a given section and Reynolds number, independent of the
     motion.  Each step (after the first row) the site makes a trial solve
-    with the sites before it (the body's trailing edge); if that gives
+    with the sites before it (the body's trailing edge and, with several
+    bodies, every earlier body's sites that shed this step); if that gives
     ``|LESP| > critical`` the site sheds one vortex whose strength, solved
     together with the trailing-edge vortex, brings ``LESP`` to
     ``sign(LESP) * critical`` exactly (its border row: ``q . gamma =
     +-critical``; the Kelvin row of the trailing edge counts this vortex too).
+    Each body may have its own site and critical value; the step's bordered
+    system then holds one such row per shedding leading edge, all solved
+    exactly together.
 
     **Placement** (a rule of this program; the paper places each new
     leading-edge vortex a third of the way from the leading edge to the one

@@ -370,6 +370,7 @@ class VortexSolver:
                        and any(hasattr(m, "influence_matrix") for m in self.models) else None)
         self._soft_cache = (None, None)      # (clock, wake size) -> soft indices
         self._nodes = None                    # the first body's camber-line nodes (xi, zeta), m
+        self._further_nodes = {}              # the same of further bodies whose leading edge sheds
         #: core (m) through which soft-site vortices and the bodies meet (see _soften)
         self.r_soft = max(self.r_c, SOFT_CORE_ELEMENTS * self.body.chord / self.models[0].n)
         #: sites whose vortices meet the bodies through the wake's core (see _soften)
@@ -635,44 +636,64 @@ class VortexSolver:
         if not np.isfinite(u).all() or not np.isfinite(w).all():
             raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
         keep = self._sides_before(s) if self.soft_sites and self.free_wake else None
+        # further bodies whose own leading edge has shed: their soft vortices kept by the same rule
+        more = ([(b, self._sides_before(s, b)) for b in self._shed_further()]
+                if self.soft_sites and self.free_wake and len(self.models) > 1 else ())
         guard = None
         if self.guard is not None and self.free_wake:        # several bodies (vortex.elements)
             guard = self.guard.before(*st.wake()[:2], s.alpha, s.h)
         st.convect(u, w, self.dt, self.free_wake)
         if keep is not None:
             self._keep_sides(s, *keep)
+        for b, k in more:
+            if k is not None:
+                self._keep_sides(s, *k, body=b)
         if guard is not None:
             alpha, _, h, _ = self.motion.state(s.t + self.dt)
             self.guard.after(*st.wake()[:2], alpha, h, guard)
 
-    def _sides_before(self, s):
-        """Soft vortices over the first body's chord: indices and side of its camber line."""
+    def _shed_further(self):
+        """The further bodies (index >= 1) with a leading-edge site that has shed, in order."""
+        return sorted({site.body for site in self.sites
+                       if site.leading_edge and site.body > 0 and getattr(site, "onset", None) is not None})
+
+    def _sides_before(self, s, body=0):
+        """Soft vortices over a body's chord (the first's by default): indices and side of its camber line."""
         idx = self._soft_indices()
         if idx.size == 0:
             return None
         wx, wz, _ = self.store.wake()
-        # only those within a chord of the pitch axis can reach the camber line in one step
-        reach = abs(self.body.xi_0[0]) + abs(self.body.xi_te) + self.body.chord
-        near = idx[np.abs(wx[idx]) + np.abs(wz[idx] - s.h) < reach]
+        if body == 0:
+            # only those within a chord of the pitch axis can reach the camber line in one step
+            reach = abs(self.body.xi_0[0]) + abs(self.body.xi_te) + self.body.chord
+            near = idx[np.abs(wx[idx]) + np.abs(wz[idx] - s.h) < reach]
+        else:
+            # a further element: those within its chord of its camber line
+            g = self.models[body].geometry
+            xi, dz = self._camber_frame(wx[idx], wz[idx], s.alpha, s.h, body)
+            near = idx[(xi > g.xi_0[0] - g.chord) & (xi < g.xi_te + g.chord) & (np.abs(dz) < g.chord)]
         if near.size == 0:
             return None
-        xi, dz = self._camber_frame(wx[near], wz[near], s.alpha, s.h)
+        xi, dz = self._camber_frame(wx[near], wz[near], s.alpha, s.h, body)
         return near, np.sign(dz)
 
-    def _keep_sides(self, s, idx, side):
-        """Mirror back the soft vortices (:meth:`_soft_indices`) that crossed the camber line in this step.
+    def _keep_sides(self, s, idx, side, body=0):
+        """Mirror back the soft vortices (:meth:`_soft_indices`) that crossed a camber line in this step.
 
         The no-penetration condition holds only at the collocation points, so
         a vortex carried close along the surface (a leading-edge vortex) can
         step through the camber line; such a vortex is put back on the side
         it came from, mirrored about the camber line (common practice of
         discrete-vortex methods for separated flow: a vortex that enters the
-        body is returned to the flow).
+        body is returned to the flow).  The first body's camber line always
+        (while soft vortices exist); a further body's once its own leading
+        edge has shed (before, several elements' crossing guard alone, so a
+        critical value never reached changes nothing).
         """
         alpha, _, h, _ = self.motion.state(s.t + self.dt)
         wx, wz, _ = self.store.wake()
-        xi, dz = self._camber_frame(wx[idx], wz[idx], alpha, h)
-        b = self.body
+        xi, dz = self._camber_frame(wx[idx], wz[idx], alpha, h, body)
+        b = self.body if body == 0 else self.models[body].geometry
         over = (xi > b.xi_0[0]) & (xi < b.xi_te)
         crossed = over & (np.sign(dz) != side) & (side != 0)
         if not crossed.any():
@@ -684,13 +705,19 @@ class VortexSolver:
         wx[j] += shift * sa
         wz[j] += shift * ca
 
-    def _camber_frame(self, x, z, alpha, h):
-        """Body-frame xi (m) of points and their height above the first body's camber line (m)."""
+    def _camber_frame(self, x, z, alpha, h, body=0):
+        """Body-frame xi (m) of points and their height above a body's (the first's) camber line (m)."""
         b = self.body
         ca, sa = math.cos(alpha), math.sin(alpha)
         dx, dzz = x, z - h
         xi = dx * ca - dzz * sa
         zeta = dx * sa + dzz * ca
+        if body != 0:
+            nodes = self._further_nodes.get(body)
+            if nodes is None:
+                g = self.models[body].geometry
+                nodes = self._further_nodes[body] = (np.append(g.xi_0, g.xi_te), np.append(g.zeta_0, g.zeta_te))
+            return xi, zeta - np.interp(xi, *nodes)
         if self._nodes is None:
             self._nodes = (np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te))
         return xi, zeta - np.interp(xi, *self._nodes)
