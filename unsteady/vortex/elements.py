@@ -203,9 +203,15 @@ class ElementImpulse:
     shed (free wake; the far-wake lumps and its share of the starting
     vortex of a steady start, minus its bound circulation at the first row,
     at rest in the air), in the frame of the air at rest, with (u_B, w_B)
-    the velocity B's vortices induce at A's (through the bodies' small core
-    r_b).  A surface-panel element adds the momentum rate of the air its
-    outline encloses (:class:`~unsteady.vortex.panels.SurfaceLoads`).
+    the velocity B's vortices induce at A's through the cores with which
+    they move each other (bound on bound none, as in the loads; bound and
+    wake r_b; wake on wake r_c), so that for A's free vortices the pull
+    cancels the part of their drift B causes (they are force-free).  The
+    far-wake lumps drift at U and move nothing but the bodies: B's lumps
+    pull on A's bound vortices only, and A's lumps get no pull (the
+    assembly's impulse columns leave the lumps' forces out alike).  A
+    surface-panel element adds the momentum rate of the air its outline
+    encloses (:class:`~unsteady.vortex.panels.SurfaceLoads`).
     """
 
     def __init__(self, solver):
@@ -224,7 +230,6 @@ class ElementImpulse:
 
     def add(self, solver, s):
         """``(cl, cd)`` of each element by its impulse, on the first element's chord, in body order."""
-        from .kernels import induced_velocity
         from .loads import impulse_loads
         if s.n == 0 and solver.start == "steady":
             self.start = [-float(s.gamma[sl].sum()) for sl in solver.system.slices]
@@ -233,36 +238,45 @@ class ElementImpulse:
         wsite = st.site[:st.m]
         fsite = far.site[:far.n]
         fg = far.g[:far.n]
-        owner = np.concatenate([np.full(sl.stop - sl.start, b) for b, sl in enumerate(solver.system.slices)]
-                               + [self.body_of_site[wsite]])
-        xa, za, ga = (np.concatenate((a, b)) for a, b in ((s.xv, wx), (s.zv, wz), (s.gamma, wg)))
-        q_c = 0.5 * solver.rho * solver.U ** 2 * solver.models[0].geometry.chord
         k = len(solver.models)
-        mine = [owner == b for b in range(k)]
+        wake_of = [self.body_of_site[wsite] == b for b in range(k)]
+        q_c = 0.5 * solver.rho * solver.U ** 2 * solver.models[0].geometry.chord
+        rho = solver.rho
         forces = []
-        for b in range(k):
-            xs, zs, gs = xa[mine[b]], za[mine[b]], ga[mine[b]]
+        for b, sl in enumerate(solver.system.slices):
+            wm = wake_of[b]
+            xs = np.concatenate((s.xv[sl], wx[wm]))
+            zs = np.concatenate((s.zv[sl], wz[wm]))
+            gs = np.concatenate((s.gamma[sl], wg[wm]))
             far_b = float(fg[np.isin(fsite, self.sites[b])].sum())
             Fx, Fz, _, self.hist[b] = impulse_loads(self.hist[b], s.t, 0.0, 0.0, xs, zs, gs,
                                                     self.start[b] + far_b, solver.U, solver.rho, solver.dt)
-            if far.n:                            # the other elements' far-wake lumps pull on its vortices
+            if far.n:                            # the other elements' far-wake lumps pull on its bound vortices
                 fo = ~np.isin(fsite, self.sites[b])
-                u, w = np.empty(xs.shape[0]), np.empty(xs.shape[0])
-                induced_velocity(xs, zs, far.x[:far.n][fo], far.z[:far.n][fo], fg[fo], solver.r_c, u, w)
-                Fx += solver.rho * float((gs * w).sum())
-                Fz -= solver.rho * float((gs * u).sum())
+                fx_, fz_ = _pull(s.xv[sl], s.zv[sl], s.gamma[sl], far.x[:far.n][fo], far.z[:far.n][fo], fg[fo],
+                                 solver.r_c)
+                Fx, Fz = Fx + rho * fx_, Fz + rho * fz_
             forces.append([Fx, Fz])
-        # the pull between two elements' vortices, once per pair (equal and opposite)
+        # the pull between two elements' vortices, once per pair of sets (equal and opposite), through the
+        # cores with which they move each other: bound-bound none (the loads' own), bound-wake r_b, wake-wake r_c
+        sls = solver.system.slices
         for b in range(k):
-            xs, zs, gs = xa[mine[b]], za[mine[b]], ga[mine[b]]
             for j in range(b + 1, k):
-                u, w = np.empty(xs.shape[0]), np.empty(xs.shape[0])
-                induced_velocity(xs, zs, xa[mine[j]], za[mine[j]], ga[mine[j]], solver.r_b, u, w)
-                fx, fz = solver.rho * float((gs * w).sum()), -solver.rho * float((gs * u).sum())
-                forces[b][0] += fx
-                forces[b][1] += fz
-                forces[j][0] -= fx
-                forces[j][1] -= fz
+                parts = ((s.xv[sls[b]], s.zv[sls[b]], s.gamma[sls[b]], s.xv[sls[j]], s.zv[sls[j]], s.gamma[sls[j]], 0.0),
+                         (s.xv[sls[b]], s.zv[sls[b]], s.gamma[sls[b]], wx[wake_of[j]], wz[wake_of[j]], wg[wake_of[j]],
+                          solver.r_b),
+                         (wx[wake_of[b]], wz[wake_of[b]], wg[wake_of[b]], s.xv[sls[j]], s.zv[sls[j]], s.gamma[sls[j]],
+                          solver.r_b),
+                         (wx[wake_of[b]], wz[wake_of[b]], wg[wake_of[b]], wx[wake_of[j]], wz[wake_of[j]], wg[wake_of[j]],
+                          solver.r_c))
+                for xa, za, ga, xb, zb, gb, r in parts:
+                    if xa.shape[0] == 0 or xb.shape[0] == 0:
+                        continue
+                    fx_, fz_ = _pull(xa, za, ga, xb, zb, gb, r)
+                    forces[b][0] += rho * fx_
+                    forces[b][1] += rho * fz_
+                    forces[j][0] -= rho * fx_
+                    forces[j][1] -= rho * fz_
         out = []
         for b in range(k):
             Fx, Fz = forces[b]
@@ -271,3 +285,12 @@ class ElementImpulse:
                 Fx, Fz = Fx + inner[0], Fz + inner[1]
             out.append((Fz / q_c, Fx / q_c))
         return out
+
+
+def _pull(xa, za, ga, xb, zb, gb, r_c):
+    """``sum_a Gamma_a (w_b, -u_b)(r_a)`` (per unit density): the Kutta-Joukowski pull of vortices b on vortices a."""
+    from .kernels import induced_velocity
+    u, w = np.empty(xa.shape[0]), np.empty(xa.shape[0])
+    induced_velocity(np.ascontiguousarray(xa), np.ascontiguousarray(za), np.ascontiguousarray(xb),
+                     np.ascontiguousarray(zb), np.ascontiguousarray(gb), r_c, u, w)
+    return float((ga * w).sum()), -float((ga * u).sum())
