@@ -77,6 +77,50 @@ def test_chain_potential_gradient_is_the_vortices_velocity():
         assert w == pytest.approx(float((gam * dx / r2).sum() / (2 * math.pi)), abs=1e-6)
 
 
+def test_ray_vortex_potential_is_the_vortices_potential_with_cuts_away_from_a_centre():
+    # oracle: point vortices and their ground images (Milne-Thomson 1968, a vortex's complex potential and
+    # the method of images): the gradient is their velocity; plain NumPy twin of the kernel's sum; the
+    # potential is continuous round a circle about the centre the cuts point away from (no cut crosses it)
+    from unsteady.vortex.panel_kernels import ray_vortex_potential
+    rng = np.random.default_rng(9)
+    xs, zs, gs = rng.uniform(-3, 3, 7), rng.uniform(0.5, 3, 7), rng.normal(size=7)
+    xs[:3] = [2.5, -2.5, 0.0]                      # outside the unit circle round the centre
+    cx, cz, z_g = 0.1, 1.9, -0.4
+    keep = np.hypot(xs - cx, zs - cz) > 1.2
+    xs, zs, gs = xs[keep], zs[keep], gs[keep]
+
+    def phi(x, z, images):
+        out = np.zeros(np.size(x))
+        ray_vortex_potential(np.atleast_1d(np.asarray(x, float)), np.atleast_1d(np.asarray(z, float)),
+                             xs, zs, gs, cx, cz, z_g, images, out)
+        return out
+
+    h = 1e-6
+    for images in (False, True):
+        for x, z in ((0.3, 1.5), (-0.5, 2.4)):
+            u = (phi(x + h, z, images) - phi(x - h, z, images))[0] / (2 * h)
+            w = (phi(x, z + h, images) - phi(x, z - h, images))[0] / (2 * h)
+            srcs = [(zs, gs)] + ([(2 * z_g - zs, -gs)] if images else [])
+            uu = sum(float((-g * (z - q) / ((x - xs) ** 2 + (z - q) ** 2)).sum()) for q, g in srcs) / (2 * math.pi)
+            ww = sum(float((g * (x - xs) / ((x - xs) ** 2 + (z - q) ** 2)).sum()) for q, g in srcs) / (2 * math.pi)
+            assert u == pytest.approx(uu, abs=1e-6) and w == pytest.approx(ww, abs=1e-6)
+        th = np.linspace(0, 2 * math.pi, 2001)
+        ring = phi(cx + np.cos(th), cz + np.sin(th), images)
+        jump = np.abs(np.diff(ring)).max()
+        assert jump < 0.01 * np.abs(gs).sum(), jump        # continuous: small steps only
+        assert abs(ring[-1] - ring[0]) < 1e-9 * np.abs(gs).sum()   # and single-valued round it
+        # plain NumPy twin
+        ref = np.zeros(th.size)
+        for q, g, k in [(zs, gs, 1.0)] + ([(2 * z_g - zs, gs, -1.0)] if images else []):
+            for xq, zq, gq in zip(xs, q, g):
+                ex, ez = xq - cx, zq - cz
+                L = math.hypot(ex, ez)
+                dx, dz = ex / L, ez / L
+                ax, az = cx + np.cos(th) - xq, cz + np.sin(th) - zq
+                ref += -k * gq * np.arctan2(az * dx - ax * dz, -(ax * dx + az * dz)) / (2 * math.pi)
+        assert np.allclose(ring, ref, rtol=0, atol=1e-12)
+
+
 def test_outline_closed_clockwise_with_cosine_stations():
     x, z = surface_nodes(section_from_shape("naca2412"), 80)
     assert x[0] == x[-1] == 1.0 and z[0] == z[-1]

@@ -19,9 +19,10 @@ import math
 
 from ..core.errors import InputError
 from .checks import integer, number, text, unknown_keys
+from .thick import DEFAULT_PANELS
 
-__all__ = ["check_further_elements", "element_problems", "lesp_criticals", "sheds_anywhere", "MAX_ELEMENTS",
-           "MAX_INCIDENCE_DEG"]
+__all__ = ["check_further_elements", "element_problems", "lesp_criticals", "placed_outline", "sheds_anywhere",
+           "MAX_ELEMENTS", "MAX_INCIDENCE_DEG"]
 
 #: At most this many elements in one flow.
 MAX_ELEMENTS = 8
@@ -66,7 +67,8 @@ def check_further_elements(items, base_dir, chord_range, warnings=None):
             errors.append(InputError(p + "chord", "is required (m, > 0)"))
         else:
             el["chord"] = grab(number, p + "chord", af["chord"], ge=chord_range[0], le=chord_range[1], unit="m")
-        el["elements"] = grab(integer, p + "elements", af.get("elements", 40), ge=4, le=1000)
+        el["elements"] = grab(integer, p + "elements",
+                              af.get("elements", DEFAULT_PANELS if af.get("thick") is True else 40), ge=4, le=1000)
         if grab(text, p + "shape", el["shape"]) is not None:
             try:
                 section_from_shape(el["shape"], base_dir)
@@ -84,10 +86,13 @@ def check_further_elements(items, base_dir, chord_range, warnings=None):
             el["position"] = [float(pos[0]), float(pos[1])]
         el["incidence"] = grab(number, p + "incidence", af.get("incidence", 0.0), ge=-MAX_INCIDENCE_DEG,
                                le=MAX_INCIDENCE_DEG, unit="deg (nose-up relative to the first element's chord)")
-        if "thick" in af and af["thick"] is not False:
-            errors.append(InputError(p + "thick", "surface panels are not supported with several elements: "
-                                                  "each element is a camber line (leave thick out)"))
-        if "flap_hinge" in af:
+        if "thick" in af:                    # surface panels on this element (inputs.thick's limits)
+            el["thick"] = _check_thick_element(af, el, p, base_dir, errors)
+        if "flap_hinge" in af and el.get("thick"):
+            errors.append(InputError(p + "flap_hinge", "a flap on a further element with surface panels "
+                                                       "(thick = true) is not supported: give it on a "
+                                                       "camber-line element (thick = false) or on the first"))
+        elif "flap_hinge" in af:
             el["flap_hinge"] = grab(number, p + "flap_hinge", af["flap_hinge"], gt=FLAP_HINGE_RANGE[0],
                                     lt=FLAP_HINGE_RANGE[1], unit="(fraction of the element's chord aft of its "
                                                                   "leading edge)")
@@ -113,6 +118,46 @@ def check_further_elements(items, base_dir, chord_range, warnings=None):
                                             "about 0.1-0.3 for thin sections at low Reynolds numbers)")
         out.append(el)
     return out, errors
+
+
+def _check_thick_element(af, el, p, base_dir, errors):
+    """``thick`` of a further element: true or false; surface panels need an even panel count of at
+    least MIN_PANELS and a section of at least MIN_THICKNESS (inputs.thick); returns the flag."""
+    from .sections import section_from_shape
+    from .thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS
+    thick = af["thick"]
+    if not isinstance(thick, bool):
+        errors.append(InputError(p + "thick", f"must be true or false, got {thick!r}"))
+        return False
+    if not thick:
+        return False
+    n = el.get("elements")
+    if isinstance(n, int) and (n < MIN_PANELS or n % 2):
+        errors.append(InputError(p + "elements", f"with thick = true counts surface panels, half on each "
+                                 f"surface: an even number of at least {MIN_PANELS} (default {DEFAULT_PANELS}), "
+                                 f"got {n}"))
+    try:
+        section = section_from_shape(el["shape"], base_dir) if isinstance(el["shape"], str) else None
+    except InputError:
+        section = None                       # the shape's own error is reported
+    if section is not None and section.thickness < MIN_THICKNESS:
+        errors.append(InputError(p + "thick", f"the section '{section.name}' is {100 * section.thickness:.2g} % "
+                                 f"thick; surface panels need at least {100 * MIN_THICKNESS:.2g} %: leave "
+                                 f"thick = false (the camber-line model) for a flat plate or a thinner section"))
+    return True
+
+
+def placed_outline(section, n, chord, incidence_deg, position, lower_only=False):
+    """Surface-panel outline nodes (x, z) (m) of a thick element (``n`` panels, lower trailing edge ->
+    leading edge -> upper trailing edge; ``lower_only``: the lower surface alone), placed as
+    :func:`placed_nodes` places a camber line."""
+    from .thick import surface_nodes
+    x, z = surface_nodes(section, n)
+    if lower_only:
+        x, z = x[:n // 2 + 1], z[:n // 2 + 1]
+    a = math.radians(incidence_deg)
+    ca, sa = math.cos(a), math.sin(a)
+    return (position[0] + chord * (x * ca + z * sa), position[1] + chord * (-x * sa + z * ca))
 
 
 def lesp_criticals(airfoil):
@@ -193,10 +238,14 @@ def element_problems(first, further, base_dir):
     lines, clear = [], []
     for el in tables:
         sec = section_from_shape(el["shape"], base_dir)
-        flap = (el["flap_hinge"], el.get("flap_deflection", 0.0)) if el is not tables[0] and "flap_hinge" in el \
-            else None
-        lines.append(placed_nodes(sec, el["elements"], el["chord"], el["incidence"], el["position"], flap=flap))
-        clear.append(GAP_ELEMENTS * el["chord"] / el["elements"])
+        if el.get("thick"):                  # surface panels: the outline, its chordwise spacing
+            lines.append(placed_outline(sec, el["elements"], el["chord"], el["incidence"], el["position"]))
+            clear.append(GAP_ELEMENTS * el["chord"] / (el["elements"] // 2))
+        else:
+            flap = (el["flap_hinge"], el.get("flap_deflection", 0.0)) if el is not tables[0] and "flap_hinge" in el \
+                else None
+            lines.append(placed_nodes(sec, el["elements"], el["chord"], el["incidence"], el["position"], flap=flap))
+            clear.append(GAP_ELEMENTS * el["chord"] / el["elements"])
     errors = []
     for j, el in enumerate(tables[1:], start=1):
         # the leading-edge vortices meet every element through one soft core, twice the first element's
@@ -217,5 +266,5 @@ def element_problems(first, further, base_dir):
     i, j = pair
     return errors + [InputError(f"airfoil[{j}].position",
                        f"element {j + 1} (airfoil[{j}]) overlaps or touches element {i + 1} (airfoil[{i}]): "
-                       f"their camber lines must stay at least {GAP_ELEMENTS:g} element lengths (chord / "
+                       f"their camber lines (or outlines) must stay at least {GAP_ELEMENTS:g} element lengths (chord / "
                        f"elements) apart; move airfoil[{j}].position or change its incidence")]

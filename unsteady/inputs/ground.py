@@ -13,11 +13,11 @@ __all__ = ["check_ground_section", "lowest_below_axis"]
 def lowest_below_axis(ctx):
     """Depth (m) of the lowest point below the pitch axis at t = 0 (pitch and flap at t = 0) of the camber
     line (with ``thick``: the lower surface) and of every further element of ``[[airfoil]]`` (placed by
-    :func:`unsteady.inputs.elements.placed_nodes`), or None when a section or a law cannot be built
+    :func:`unsteady.inputs.elements.placed_nodes`; a thick one's lower surface by ``placed_outline``), or None when a section or a law cannot be built
     (their own checks report why)."""
     import numpy as np
 
-    from .elements import placed_nodes
+    from .elements import placed_nodes, placed_outline
     from .motion import build_law
     from .sections import section_from_shape
     af, mo = ctx.get("airfoil", {}), ctx.get("motion", {})
@@ -47,9 +47,12 @@ def lowest_below_axis(ctx):
     xi, zeta = (x - pivot) * chord, z * chord
     for el in af.get("_more") or ():           # further elements, in the first's chord axes
         try:
-            flap = (el["flap_hinge"], el.get("flap_deflection") or 0.0) if "flap_hinge" in el else None
-            xe, ze = placed_nodes(section_from_shape(el["shape"], ctx.get("_base_dir")), 400, el["chord"],
-                                  el["incidence"], el["position"], flap=flap)
+            sec = section_from_shape(el["shape"], ctx.get("_base_dir"))
+            if el.get("thick"):                # surface panels: the placed outline's lower surface
+                xe, ze = placed_outline(sec, 400, el["chord"], el["incidence"], el["position"], lower_only=True)
+            else:
+                flap = (el["flap_hinge"], el.get("flap_deflection") or 0.0) if "flap_hinge" in el else None
+                xe, ze = placed_nodes(sec, 400, el["chord"], el["incidence"], el["position"], flap=flap)
         except (InputError, ValueError, KeyError, TypeError):
             return None
         xi, zeta = np.append(xi, xe - pivot * chord), np.append(zeta, ze)

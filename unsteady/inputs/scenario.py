@@ -453,13 +453,19 @@ def resolve(raw, base_dir, stem="scenario"):
         from .elements import check_further_elements
         more, errs = check_further_elements(further, base_dir, CHORD_RANGE, warn_list)
         errors += errs
-        if airfoil.get("thick"):
-            errors.append(InputError("airfoil.thick", "surface panels are not supported with several elements "
-                                                      "([[airfoil]]): each element is a camber line"))
         if (raw.get("run", {}) if isinstance(raw.get("run"), dict) else {}).get("model") == "linear":
             errors.append(InputError("airfoil", "several elements ([[airfoil]]) need run.model = \"vortex\": "
                                                 "the linear model is one thin airfoil alone"))
         airfoil["_more"] = more
+        # leading-edge shedding and surface panels in one list: not supported (the soft core through which
+        # leading-edge vortices meet the bodies is tied to camber-line elements)
+        shedding = ([] if airfoil.get("thick") else
+                    (["airfoil.lesp_critical"] if airfoil.get("lesp_critical") is not None else [])) + [
+            f"airfoil[{j}].lesp_critical" for j, el in enumerate(more, start=1) if el.get("lesp_critical") is not None]
+        if shedding and (airfoil.get("thick") or any(el.get("thick") for el in more)):
+            errors.append(InputError(shedding[0], "leading-edge shedding is not available in a list with a thick "
+                                                  "element (surface panels): leave lesp_critical out, or set every "
+                                                  "element's thick = false"))
     out["airfoil"] = airfoil
 
     speed = flow.get("speed")

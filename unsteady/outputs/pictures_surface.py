@@ -64,4 +64,8 @@ def plot_surface_pressure(result, path, times=None):
     notes = ["outside pressure at each surface panel, unsteady Bernoulli equation (inviscid: no "
              "boundary layer, no separation; real peaks are lower and a real section stalls)"]
     notes += warning_notes(result)
-    return finish_figure(fig, path, run_title(result, "pressure on both surfaces"), notes, left=0.9)
+    what = "pressure on both surfaces"
+    if "cp_element" in s:                      # several elements: the one whose Cp was kept
+        what += f" of element {int(s['cp_element'])}"
+        notes.append("history cl: the whole assembly's; each element's own lift is cl_<i>")
+    return finish_figure(fig, path, run_title(result, what), notes, left=0.9)

@@ -301,6 +301,10 @@ class VortexModel(Model):
         more = sc.data["airfoil"].get("_more")
         if more:                                # [[airfoil]]: the first element's model, then the others
             self.body = [self.body] + build_elements(sc)[1:]
+        #: 1-based index of the first element on surface panels (its Cp goes to the snapshots), or None
+        self.cp_element = (1 if self.thick else next((i for i, el in enumerate(more or (), start=2)
+                                                      if el.get("thick")), None))
+        several_thick = bool(more) and self.cp_element is not None
         gr = sc.data.get("ground")
         # the ground sits [ground] height below the pitch axis's height at t = 0
         self.ground = (None if not gr else
@@ -313,7 +317,9 @@ class VortexModel(Model):
             tuple(f"lesp_{i}" for i in range(1, len(more) + 2)) if more else ()) + (
             tuple(f"gamma_lev_{i}" for i, c in enumerate(crit, start=1) if c is not None) if more else ()) + (
             tuple(f"{q}_{i}" for i, el in enumerate(more or (), start=2) if "flap_hinge" in el
-                  for q in ("flap_deg", "ch")))
+                  for q in ("flap_deg", "ch"))) + (
+            tuple(f"{q}_{i}" for i in range(1, len(more) + 2) for q in ("cl_impulse", "cd_impulse"))
+            if several_thick else ())
         self._pressure = None
 
     def steady_cl(self, alpha, alpha_dot):
@@ -342,7 +348,7 @@ class VortexModel(Model):
         it (no steady state exists there; :func:`unsteady.analysis.lag.lag_summary` says so).
         """
         import numpy.polynomial.chebyshev as cheb
-        if not (self.thick or isinstance(self.body, list) or self.ground is not None):
+        if not (self.cp_element is not None or isinstance(self.body, list) or self.ground is not None):
             return None
         a = np.asarray(alpha_eff, float)
         ok = np.isfinite(a)
@@ -419,8 +425,12 @@ class VortexModel(Model):
 
     def _march(self, observers):
         sc, run = self.sc, self.sc.data["run"]
-        self._pressure = (_SurfaceRows(sc.steps, self.body) if self.thick
+        several = isinstance(self.body, list)
+        self._pressure = (_SurfaceRows(sc.steps, self.body[0] if several else self.body) if self.thick
                           else _PressureRows(sc.steps, sc.elements))
+        # several elements: the first one on surface panels keeps its Cp (the first element's, if thick)
+        self._surface = (None if self.cp_element is None or not several else
+                         self._pressure if self.thick else _SurfaceRows(sc.steps, self.body[self.cp_element - 1]))
         offset = run.get("shed_offset", 0.3)
         crit = lesp_criticals(sc.data["airfoil"])
         sites = None
@@ -437,7 +447,8 @@ class VortexModel(Model):
                               shed_offset=offset, sites=sites,
                               core_radius=run.get("core_radius"), far_wake=run.get("far_wake"),
                               ground=self.ground)
-        solver.run([_Relay([self._pressure] + list(observers))])
+        extra = [self._surface] if self._surface is not None and self._surface is not self._pressure else []
+        solver.run([_Relay([self._pressure] + extra + list(observers))])
 
     def summary(self):
         run = self.sc.data["run"]
@@ -448,13 +459,31 @@ class VortexModel(Model):
                                     "vortices' impulse")
         if self.thick:
             out["section_model"] = "surface panels (thick)"
+        if isinstance(self.body, list) and self.cp_element is not None:
+            out["thick_elements"] = [i for i, m in enumerate(self.body, start=1) if hasattr(m, "influence_matrix")]
+            out["impulse_per_element"] = ("each element's own vortices (cl_impulse_<i>, cd_impulse_<i>): the "
+                                          "force on it where the elements do not act on each other's vortices")
         return out
 
     def snapshot_extras(self):
         """``dcp`` (per step and element) and ``x_dcp`` (element mid-points, chord fractions)."""
         p = self._pressure
-        if self.thick:
-            return p.extras()
+        surface = getattr(self, "_surface", None)
+        if self.thick:                          # the first element on panels: dcp and x_dcp its own, as alone
+            out = p.extras()
+            if surface is not None:
+                out["cp_element"] = np.int64(1)
+            return out
+        if surface is not None:                 # a further element on panels: its Cp, the first's dcp
+            out = surface.extras()
+            del out["dcp"], out["x_dcp"]
+            out["cp_element"] = np.int64(self.cp_element)
+            out.update(self._camber_dcp(p))
+            return out
+        return self._camber_dcp(p)
+
+    def _camber_dcp(self, p):
+        """``dcp`` and ``x_dcp`` of a first element on its camber line."""
         if self.sc.flap_law is None:
             x = camber_elements(self.sc.section, self.sc.elements).x_nodes
         else:                                   # the nodes with one on the hinge

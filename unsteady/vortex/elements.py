@@ -108,7 +108,8 @@ def combine_loads(rows, bodies, alpha, h):
 def build_elements(sc, tail_turn=0.0, tail_flap=None):
     """The placed camber lines of a ``[[airfoil]]`` scenario, first element first (each a Body in the
     assembly's frame, metres about the pitch axis, ``sc.pivot``); ``tail_turn`` (rad, nose-up) is
-    added to the last element's incidence (the trim of an all-moving tail, dynamics.pitch).
+    added to the last element's incidence (the trim of an all-moving tail, dynamics.pitch).  A
+    further element with ``thick``: a :class:`~unsteady.vortex.panels.SurfacePanels` body model.
 
     A further element with ``flap_hinge`` is a :class:`~unsteady.vortex.flap.HingedFlapCamber`
     held at its ``flap_deflection`` (deg), the last element's at ``tail_flap`` (rad, trailing edge
@@ -124,6 +125,11 @@ def build_elements(sc, tail_turn=0.0, tail_flap=None):
         sec = section_from_shape(el["shape"], sc.base_dir)
         last = k == len(more) - 1
         turn = tail_turn if last else 0.0
+        if el.get("thick"):                      # surface panels (vortex.panels), placed as the camber lines
+            from .panels import SurfaceGeometry, SurfacePanels
+            bodies.append(SurfacePanels(SurfaceGeometry.placed(
+                sec, el["elements"], el["chord"], math.radians(el["incidence"]) + turn, el["position"], p_ref)))
+            continue
         if "flap_hinge" in el:
             nodes, j = hinge_nodes(el["elements"], el["flap_hinge"])
             b = Body.from_section(sec, el["elements"], el["chord"], 0.0, x_nodes=nodes)
@@ -155,7 +161,10 @@ class CrossingGuard:
     def __init__(self, bodies):
         self.frames = []
         for b in bodies:
-            xi, zeta = np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te)
+            if hasattr(b, "mean_line"):              # surface panels: their mean line
+                xi, zeta = b.mean_line()
+            else:
+                xi, zeta = np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te)
             dx, dz = xi[-1] - xi[0], zeta[-1] - zeta[0]
             L = math.hypot(dx, dz)
             tx, tz = dx / L, dz / L                  # the element's chord direction, body frame
@@ -428,3 +437,110 @@ class CrossCores:
             u += gu
             w += gw
         return u, w
+
+
+class ElementImpulseLoads:
+    """Each element's force by the impulse route (several elements with surface panels among them).
+
+    For one element A among others B (J. C. Wu, AIAA J. 19, 1981; P. G.
+    Saffman, *Vortex Dynamics*, 1992, sec. 3.2; with the Kutta-Joukowski force
+    between point vortices, equal and opposite for each pair, so that the
+    elements' forces add up to the assembly's)::
+
+        F_A = -rho d/dt sum_{a in A} Gamma_a (z_a, -x_a) + rho sum_{a in A} Gamma_a (w_B, -u_B)(r_a)
+
+    over A's own vortices: its bound vortices, the vortices its own sites
+    shed (free wake; the far-wake lumps and its share of the starting
+    vortex of a steady start, minus its bound circulation at the first row,
+    at rest in the air), in the frame of the air at rest, with (u_B, w_B)
+    the velocity B's vortices induce at A's through the cores with which
+    they move each other (bound on bound none, as in the loads; bound and
+    wake r_b; wake on wake r_c), so that for A's free vortices the pull
+    cancels the part of their drift B causes (they are force-free).  The
+    far-wake lumps drift at U and move nothing but the bodies: B's lumps
+    pull on A's bound vortices only, and A's lumps get no pull (the
+    assembly's impulse columns leave the lumps' forces out alike).  A
+    surface-panel element adds the momentum rate of the air its outline
+    encloses (:class:`~unsteady.vortex.panels.SurfaceLoads`).
+    """
+
+    def __init__(self, solver):
+        self.sites = [[site.index for site in solver.sites if site.body == b]
+                      for b in range(len(solver.models))]
+        self.site_body = {site.index: site.body for site in solver.sites}
+        self.body_of_site = np.array([site.body for site in solver.sites], dtype=int)   # by site index
+        self.hist = [[] for _ in solver.models]
+        self.start = [0.0] * len(solver.models)
+
+    def retire(self, site, xs, zs, gs, U, dt):
+        """A site's vortices left for the far wake (as :meth:`~unsteady.vortex.loads.LoadHistory.retire`)."""
+        from .loads import retire_impulse
+        b = self.site_body[site]
+        self.hist[b] = retire_impulse(self.hist[b], U, dt, xs, zs, gs)
+
+    def add(self, solver, s):
+        """``(cl, cd)`` of each element by its impulse, on the first element's chord, in body order."""
+        from .loads import impulse_loads
+        if s.n == 0 and solver.start == "steady":
+            self.start = [-float(s.gamma[sl].sum()) for sl in solver.system.slices]
+        st, far = solver.store, solver.far
+        wx, wz, wg = st.wake()
+        wsite = st.site[:st.m]
+        fsite = far.site[:far.n]
+        fg = far.g[:far.n]
+        k = len(solver.models)
+        wake_of = [self.body_of_site[wsite] == b for b in range(k)]
+        q_c = 0.5 * solver.rho * solver.U ** 2 * solver.models[0].geometry.chord
+        rho = solver.rho
+        forces = []
+        for b, sl in enumerate(solver.system.slices):
+            wm = wake_of[b]
+            xs = np.concatenate((s.xv[sl], wx[wm]))
+            zs = np.concatenate((s.zv[sl], wz[wm]))
+            gs = np.concatenate((s.gamma[sl], wg[wm]))
+            far_b = float(fg[np.isin(fsite, self.sites[b])].sum())
+            Fx, Fz, _, self.hist[b] = impulse_loads(self.hist[b], s.t, 0.0, 0.0, xs, zs, gs,
+                                                    self.start[b] + far_b, solver.U, solver.rho, solver.dt)
+            if far.n:                            # the other elements' far-wake lumps pull on its bound vortices
+                fo = ~np.isin(fsite, self.sites[b])
+                fx_, fz_ = _pull(s.xv[sl], s.zv[sl], s.gamma[sl], far.x[:far.n][fo], far.z[:far.n][fo], fg[fo],
+                                 solver.r_c)
+                Fx, Fz = Fx + rho * fx_, Fz + rho * fz_
+            forces.append([Fx, Fz])
+        # the pull between two elements' vortices, once per pair of sets (equal and opposite), through the
+        # cores with which they move each other: bound-bound none (the loads' own), bound-wake r_b, wake-wake r_c
+        sls = solver.system.slices
+        for b in range(k):
+            for j in range(b + 1, k):
+                parts = ((s.xv[sls[b]], s.zv[sls[b]], s.gamma[sls[b]], s.xv[sls[j]], s.zv[sls[j]], s.gamma[sls[j]], 0.0),
+                         (s.xv[sls[b]], s.zv[sls[b]], s.gamma[sls[b]], wx[wake_of[j]], wz[wake_of[j]], wg[wake_of[j]],
+                          solver.r_b),
+                         (wx[wake_of[b]], wz[wake_of[b]], wg[wake_of[b]], s.xv[sls[j]], s.zv[sls[j]], s.gamma[sls[j]],
+                          solver.r_b),
+                         (wx[wake_of[b]], wz[wake_of[b]], wg[wake_of[b]], wx[wake_of[j]], wz[wake_of[j]], wg[wake_of[j]],
+                          solver.r_c))
+                for xa, za, ga, xb, zb, gb, r in parts:
+                    if xa.shape[0] == 0 or xb.shape[0] == 0:
+                        continue
+                    fx_, fz_ = _pull(xa, za, ga, xb, zb, gb, r)
+                    forces[b][0] += rho * fx_
+                    forces[b][1] += rho * fz_
+                    forces[j][0] -= rho * fx_
+                    forces[j][1] -= rho * fz_
+        out = []
+        for b in range(k):
+            Fx, Fz = forces[b]
+            inner = getattr(solver.load_histories[b], "inner_force", None)
+            if inner is not None:
+                Fx, Fz = Fx + inner[0], Fz + inner[1]
+            out.append((Fz / q_c, Fx / q_c))
+        return out
+
+
+def _pull(xa, za, ga, xb, zb, gb, r_c):
+    """``sum_a Gamma_a (w_b, -u_b)(r_a)`` (per unit density): the Kutta-Joukowski pull of vortices b on vortices a."""
+    from .kernels import induced_velocity
+    u, w = np.empty(xa.shape[0]), np.empty(xa.shape[0])
+    induced_velocity(np.ascontiguousarray(xa), np.ascontiguousarray(za), np.ascontiguousarray(xb),
+                     np.ascontiguousarray(zb), np.ascontiguousarray(gb), r_c, u, w)
+    return float((ga * w).sum()), -float((ga * u).sum())

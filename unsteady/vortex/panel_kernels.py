@@ -218,3 +218,41 @@ def chain_segment_angles(xt, zt, xc, zc, out):
             bx = xt[i] - xc[j + 1]
             bz = zt[i] - zc[j + 1]
             out[i, j] = math.atan2(ax * bz - az * bx, ax * bx + az * bz) * INV_2PI
+
+
+@njit(cache=True, error_model="numpy")
+def ray_vortex_potential(xt, zt, xs, zs, gs, cx, cz, z_g, images, phi):
+    """Add the potential of point vortices at targets, each with its cut along a ray pointing away
+    from the point (cx, cz) (in place).
+
+    A vortex Gamma at Q is a doublet ray of strength -Gamma from Q to infinity (the limit of the
+    chain segments of :func:`chain_potential`); its potential at P, in axes turned so that the
+    ray's direction d is +x, is -Gamma / (2 pi) atan2(a_z', -a_x') with a = P - Q.  With (cx, cz)
+    inside a convex outline and Q outside it, the ray beyond Q never meets the outline, so the
+    potential is continuous on it however the vortices move (used for the vortices of the other
+    bodies of several elements).  ``images``: also each vortex's ground image, mirrored about
+    z = z_g with the opposite strength (Milne-Thomson 1968, the method of images), whose ray
+    points away from (cx, cz) as well.  ``phi`` is added to.
+    """
+    nt = xt.shape[0]
+    ns = xs.shape[0]
+    passes = 2 if images else 1
+    for k in range(passes):
+        sign = 1.0 if k == 0 else -1.0
+        for j in range(ns):
+            qx = xs[j]
+            qz = zs[j] if k == 0 else 2.0 * z_g - zs[j]
+            ex = qx - cx
+            ez = qz - cz
+            L = math.sqrt(ex * ex + ez * ez)
+            if L > 0.0:
+                dx = ex / L
+                dz = ez / L
+            else:
+                dx = 1.0
+                dz = 0.0
+            g = -sign * gs[j] * INV_2PI
+            for i in range(nt):
+                ax = xt[i] - qx
+                az = zt[i] - qz
+                phi[i] += g * math.atan2(az * dx - ax * dz, -(ax * dx + az * dz))

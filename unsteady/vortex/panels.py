@@ -73,9 +73,10 @@ import numpy as np
 
 from ..inputs.sections import cosine_nodes  # noqa: F401
 from .bodies import BodyPoints, rotate
+from .kernels import induced_velocity
 from .loads import backward_derivative, impulse_loads
 from .panel_kernels import (chain_image_potential, chain_potential, chain_segment_angles,
-                            panel_image_velocity_matrices,
+                            panel_image_velocity_matrices, ray_vortex_potential,
                             panel_velocity_matrices)
 
 from ..inputs.thick import DEFAULT_PANELS, MIN_PANELS, MIN_THICKNESS  # noqa: F401  (the limits check applies)
@@ -148,10 +149,44 @@ class SurfaceGeometry:
                    x_surface=xm, z_surface=zm, xi_ref=(0.25 - pivot) * chord, zeta_ref=z_ref,
                    chord=float(chord), area=area)
 
+    @classmethod
+    def placed(cls, section, n_panels, chord, incidence, position, ref_pivot_m):
+        """A further element's outline (``[[airfoil]]``, :mod:`~unsteady.vortex.elements`): paneled about
+        its own leading edge, turned nose-up by ``incidence`` (rad) about it and moved to ``position``
+        (m) from the reference leading edge; ``ref_pivot_m``: the pitch axis's distance aft of the
+        reference leading edge (m).  ``x_surface, z_surface`` stay the element's own chord fractions."""
+        x, z = surface_nodes(section, n_panels)
+        z_q = float(np.asarray(section.camber(np.array([0.25])), float)[0])
+        ca, sa = np.cos(incidence), np.sin(incidence)
+        x0, z0 = float(position[0]) - ref_pivot_m, float(position[1])
+
+        def place(xf, zf):                        # nose-up turn about the leading edge (bodies.to_inertial)
+            return x0 + chord * (xf * ca + zf * sa), z0 + chord * (-xf * sa + zf * ca)
+
+        xi, zeta = place(np.asarray(x, float), np.asarray(z, float))
+        dx, dz = np.diff(xi), np.diff(zeta)
+        ds = np.hypot(dx, dz)
+        t_xi, t_zeta = dx / ds, dz / ds
+        w = np.zeros(len(xi))
+        w[:-1] += 0.5 * ds
+        w[1:] += 0.5 * ds
+        area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))
+        xr, zr = place(0.25, z_q)
+        return cls(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
+                   t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w,
+                   x_surface=0.5 * (x[:-1] + x[1:]), z_surface=0.5 * (z[:-1] + z[1:]),
+                   xi_ref=float(xr), zeta_ref=float(zr), chord=float(chord), area=area)
+
     @property
     def n(self) -> int:
         """Number of panels."""
         return self.ds.shape[0]
+
+    def mean_line(self):
+        """The mean of the two surfaces' nodes, leading edge to trailing edge (body frame, m): the line
+        the crossing guard of several elements (:class:`~unsteady.vortex.elements.CrossingGuard`) uses."""
+        half = self.n // 2
+        return (0.5 * (self.xi_n[half::-1] + self.xi_n[half:]), 0.5 * (self.zeta_n[half::-1] + self.zeta_n[half:]))
 
 
 class SurfacePanels:
@@ -354,6 +389,79 @@ class SurfaceLoads:
             phi += np.interp(self._index, self._coarse, far)
         return phi, mu[:N]
 
+    def _others_velocity(self, solver, s, sl, xc, zc, u, w):
+        """Add (in place) the velocity of the other bodies' bound vortices, and with a ground their images,
+        at the mid-points (point vortices, as the loads of a camber line take them)."""
+        others = np.ones(s.xv.shape[0], dtype=bool)
+        others[sl] = False
+        du, dw = np.empty_like(xc), np.empty_like(xc)
+        induced_velocity(xc, zc, s.xv[others], s.zv[others], s.gamma[others], 0.0, du, dw, ground=solver.z_g)
+        u += du
+        w += dw
+
+    def potential_several(self, s, G, solver, sl):
+        """:meth:`potential` when other bodies share the flow (``[[airfoil]]``).
+
+        This body's chain runs through its nodes and then only its own site's wake (newest first)
+        and far-wake lumps, with the ray to x = +infinity, as :meth:`potential` with one body.  The
+        other bodies' vortices (bound, free and far wake) each carry a cut of their own, a ray
+        pointing away from this body's centroid
+        (:func:`~unsteady.vortex.panel_kernels.ray_vortex_potential`): a point outside a convex
+        outline and the ray beyond it from a point inside never meet the outline, so the potential
+        stays continuous on this body whichever way the other vortices pass it (a chain through
+        another element's wake would cross this body where that wake passes over and under it).
+        Cuts change the potential only by constants along them: the velocity field is that of the
+        same vortices (Milne-Thomson 1968, the complex potential of a vortex).
+        """
+        N = self.body.n
+        o = sl.start
+        xt, zt = s.xc[o:o + N], s.zc[o:o + N]
+        wx, wz, wg = solver.store.wake()
+        fx, fz, fg = solver.far.views()
+        b_self = next(b for b, x in enumerate(solver.system.slices) if x == sl)
+        own_sites = [site.index for site in solver.sites if site.body == b_self]
+        wm = np.isin(solver.store.site[:wx.shape[0]], own_sites)
+        fm = np.isin(solver.far.site[:fx.shape[0]], own_sites)
+        z_g = solver.z_g
+        # this body's chain
+        px = np.concatenate((s.xv[sl], wx[wm][::-1], fx[fm][::-1]))
+        pz = np.concatenate((s.zv[sl], wz[wm][::-1], fz[fm][::-1]))
+        gam = np.concatenate((G, wg[wm][::-1], fg[fm][::-1]))
+        total = -np.cumsum(gam)
+        mu = np.ascontiguousarray(total[:-1])
+        tail = float(total[-1])
+        phi = self._angles @ mu[:N]
+        # the newest NEAR_WAKE_CHORDS of its wake at every mid-point, the older at every COARSE-th
+        # and interpolated, as :meth:`potential`
+        cut = N + 1 + min(int(wm.sum()), NEAR_WAKE_CHORDS * solver.lump_n)
+        whole = cut >= px.shape[0] - 1
+        end = px.shape[0] if whole else cut + 1
+        part = np.empty(N)
+        chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:end]), np.ascontiguousarray(pz[N:end]),
+                        np.ascontiguousarray(mu[N:end - 1]), tail if whole else 0.0, part)
+        if z_g is not None:
+            chain_image_potential(xt, zt, px[:end], pz[:end], mu[:end - 1], tail if whole else 0.0, z_g, part)
+        phi += part
+        if not whole:
+            far = np.empty(self._coarse.shape[0])
+            qx, qz, qm = (np.ascontiguousarray(a[cut:]) for a in (px, pz, mu))
+            xq, zq = xt[self._coarse], zt[self._coarse]
+            chain_potential(xq, zq, self._none, qx, qz, qm, tail, far)
+            if z_g is not None:
+                chain_image_potential(xq, zq, qx, qz, qm, tail, z_g, far)
+            phi += np.interp(self._index, self._coarse, far)
+        # every other vortex, each with its own cut away from this body
+        others = np.ones(s.xv.shape[0], dtype=bool)
+        others[sl] = False
+        ox = np.concatenate((s.xv[others], wx[~wm], fx[~fm]))
+        oz = np.concatenate((s.zv[others], wz[~wm], fz[~fm]))
+        og = np.concatenate((s.gamma[others], wg[~wm], fg[~fm]))
+        cx, cz = float(np.mean(self.body.xi_n)), float(np.mean(self.body.zeta_n))   # body frame
+        ca, sa = np.cos(s.alpha), np.sin(s.alpha)
+        ray_vortex_potential(xt, zt, ox, oz, og, cx * ca + cz * sa, s.h - cx * sa + cz * ca,
+                             0.0 if z_g is None else z_g, z_g is not None, phi)
+        return phi, mu[:N]
+
     def add_step(self, solver, s, sl):
         """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""
         m = self.model
@@ -368,7 +476,9 @@ class SurfaceLoads:
         c = g.chord
         G = s.gamma[sl]
         gamma = G / g.w
-        xc, zc = s.xc[:N], s.zc[:N]
+        o = sl.start                               # this body's place in the step's arrays
+        several = len(solver.models) > 1
+        xc, zc = s.xc[o:o + N], s.zc[o:o + N]
         ub = s.alpha_dot * (zc - s.h)              # the body's own velocity
         wb = s.h_dot - s.alpha_dot * xc
         nx, nz = rotate(g.n_xi, g.n_zeta, s.alpha)
@@ -376,13 +486,15 @@ class SurfaceLoads:
         gamma_mid = 0.5 * (gamma[:-1] + gamma[1:])
         q_t = s.alpha_dot * m.inner_rotation - gamma_mid
         if s.own is not None:                      # a moving flap: its own velocity, its enclosed air's
-            ub = ub + s.own[0][:N]
-            wb = wb + s.own[1][:N]
+            ub = ub + s.own[0][o:o + N]
+            wb = wb + s.own[1][o:o + N]
             q_t = q_t + m.flap_rate(s.t) * m.inner_flap
         f = m.resolved
         if f.min() < 1.0:                          # too thin to resolve: the velocities on the surface
-            u = s.u_air[:N].copy()                 # freestream, gust, wake, far wake
-            w = s.w_air[:N].copy()
+            u = s.u_air[o:o + N].copy()            # freestream, gust, wake, far wake
+            w = s.w_air[o:o + N].copy()
+            if several:                            # the other bodies' bound vortices (and images)
+                self._others_velocity(solver, s, sl, xc, zc, u, w)
             images = (False,) if solver.z_g is None else (False, True)
             for p in s.proposals:                  # this step's new vortices (and their ground images)
                 for image in images:
@@ -403,7 +515,7 @@ class SurfaceLoads:
             gu, gw = solver.gust.velocity(xc, zc, s.t)
             ua, wa = U + gu, gw
         vb2 = (ub - ua) ** 2 + (wb - wa) ** 2
-        phi, mu = self.potential(s, G, solver)
+        phi, mu = self.potential(s, G, solver) if not several else self.potential_several(s, G, solver, sl)
         self.phi_hist = (self.phi_hist + [phi])[-3:]
         dphi = backward_derivative(self.phi_hist, dt)
         cp = (vb2 - q_t * q_t - 2.0 * dphi) / (U * U)
@@ -429,6 +541,8 @@ class SurfaceLoads:
         d_inner = backward_derivative(self.inner_hist, dt)
         Fx_i += rho * d_inner[0]
         Fz_i += rho * d_inner[1]
+        #: the enclosed air's momentum rate (N/m, computation frame): the impulse route's share of the body
+        self.inner_force = (rho * float(d_inner[0]), rho * float(d_inner[1]))
         extra = {}
         if getattr(m, "hinge", None) is not None:  # the flap's panels about the hinge, nose-up (trailing edge down)
             xi_h, zeta_h, flap, c_f = m.hinge

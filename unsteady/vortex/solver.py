@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .elements import CrossCores, CrossingGuard, combine_loads
+from .elements import CrossCores, CrossingGuard, ElementImpulseLoads, combine_loads
 from .bodies import Body, BodyPoints, RigidCamber, as_body_models, build_body, rotate, to_inertial
 from .kernels import induced_velocity, normal_influence, normal_influence_ground
 from .loads import LoadHistory
@@ -205,8 +205,8 @@ class VortexSolver:
        :class:`~unsteady.vortex.bodies.Body` its loads are computed on (a
        new object when its points moved: the loads then take its normals).
     5. Optionally (a thick section, :mod:`~unsteady.vortex.panels`):
-       ``influence_matrix()``, its own block of the body matrix (then it must
-       be the only body), and ``load_history(U, rho, dt)``, its own loads
+       ``influence_matrix()``, its own diagonal block of the body matrix (with
+       other bodies the blocks between them are the point-vortex kernel's), and ``load_history(U, rho, dt)``, its own loads
        object, whose ``add_step(solver, step, slice)`` returns the loads dict;
        with a ground also ``ground_matrix(step, z_ground)``, its block with its images.
 
@@ -372,6 +372,9 @@ class VortexSolver:
             site.bind(self, i)
         self._phi_le = _LeadingEdgeJump(self.sites)
         self._le_sites = tuple(i for i, site in enumerate(self.sites) if site.leading_edge)
+        #: several elements with surface panels among them: each element's own impulse (vortex.elements)
+        self._split = (ElementImpulseLoads(self) if len(self.models) > 1
+                       and any(hasattr(m, "influence_matrix") for m in self.models) else None)
         self._soft_cache = (None, None)      # (clock, wake size) -> soft indices
         self._nodes = None                    # the first body's camber-line nodes (xi, zeta), m
         self._further_nodes = {}              # the same of further bodies whose leading edge sheds
@@ -380,9 +383,11 @@ class VortexSolver:
         #: sites whose vortices meet the bodies through the wake's core (see _soften)
         self.soft_sites = tuple(i for i, site in enumerate(self.sites) if site.soft_core)
         #: several bodies: each wake meets the other bodies through their cross core (vortex.elements)
+        #: (not with surface panels among them: their per-element impulse, ElementImpulseLoads, and
+        #: their tests take the wake through r_b on every element)
         self.cross = (CrossCores([m.geometry for m in self.models], [site.body for site in self.sites],
                                  self.r_c, self.r_b, self.r_soft)
-                      if len(self.models) > 1 and self.cross_core else None)
+                      if len(self.models) > 1 and self.cross_core and self._split is None else None)
 
     # -- stages ---------------------------------------------------------
     def _place(self, s):
@@ -607,8 +612,24 @@ class VortexSolver:
             s.loads[site.body].update(site.report())
         s.total = (s.loads[0] if len(s.loads) == 1 else      # several bodies: the assembly's (vortex.elements)
                    combine_loads(s.loads, [m.geometry for m in self.models], s.alpha, s.h))
+        if self._split is not None:
+            self._split_impulse(s)
         if not (np.isfinite(s.gamma).all() and all(math.isfinite(r["cl"]) for r in s.loads)):
             raise SolverDiverged(s.n, s.t, _likely_cause(s.gamma))
+
+    def _split_impulse(self, s):
+        """Several elements with surface panels: ``cl_impulse_<i>``, ``cd_impulse_<i>`` (each element's
+        own impulse, :class:`~unsteady.vortex.elements.ElementImpulseLoads`) and the enclosed air of every
+        further panel body in the assembly's impulse columns."""
+        q_c = 0.5 * self.rho * self.U ** 2 * self.body.chord
+        for i, (cl_i, cd_i) in enumerate(self._split.add(self, s), start=1):
+            bad = self.z_g is not None        # the ground carries a share of the impulse
+            s.total[f"cl_impulse_{i}"] = math.nan if bad else cl_i
+            s.total[f"cd_impulse_{i}"] = math.nan if bad else cd_i
+            inner = getattr(self.load_histories[i - 1], "inner_force", None)
+            if i > 1 and inner is not None and not bad:
+                s.total["cl_impulse"] += inner[1] / q_c
+                s.total["cd_impulse"] += inner[0] / q_c
 
     def _observe(self, s):
         """Stage 6: the observers see the step; the motion takes the loads."""
@@ -749,6 +770,8 @@ class VortexSolver:
                 gx, gz, gg = self.store.remove(idx)
                 for hist in self.load_histories:
                     hist.retire(gx, gz, gg)
+                if self._split is not None:
+                    self._split.retire(site.index, gx, gz, gg, self.U, self.dt)
                 self.far.add(gx, gz, gg, site.index)
 
 

@@ -90,10 +90,16 @@ class BodySystem:
     def _factor(self, t):
         pts = [m.points(t) for m in self.models]
         cat = (lambda k: pts[0][k] if len(pts) == 1 else np.concatenate([p[k] for p in pts]))
-        if hasattr(self.models[0], "influence_matrix"):    # surface panels: their own block
-            if len(self.models) > 1:
-                raise ValueError("a body with its own influence matrix (surface panels) must be the only body")
+        if len(self.models) == 1 and hasattr(self.models[0], "influence_matrix"):   # surface panels alone
             a = self.models[0].influence_matrix()
+        elif any(hasattr(m, "influence_matrix") for m in self.models):
+            # several bodies with surface panels among them: every body's bound vortices as point
+            # vortices on every collocation point, then each panel body's own block in its place
+            a = np.empty((self.n, self.n))
+            normal_influence(cat(2), cat(3), cat(4), cat(5), cat(0), cat(1), 0.0, a)
+            for m, sl in zip(self.models, self.slices):
+                if hasattr(m, "influence_matrix"):
+                    a[sl, sl] = m.influence_matrix()
         else:
             a = np.empty((self.n, self.n))
             normal_influence(cat(2), cat(3), cat(4), cat(5), cat(0), cat(1), 0.0, a)
@@ -121,8 +127,17 @@ class BodySystem:
         key = (step.alpha, step.h)
         if not moved and key == getattr(self, "_placed_key", None):
             return False
-        if hasattr(self.models[0], "ground_matrix"):       # surface panels: their own block and images
+        if len(self.models) == 1 and hasattr(self.models[0], "ground_matrix"):   # surface panels alone
             a = self.models[0].ground_matrix(step, z_ground)
+        elif any(hasattr(m, "ground_matrix") for m in self.models):
+            # several bodies, surface panels among them: point vortices and their images across
+            # bodies, each panel body's own block with its images in its place
+            a = np.empty((self.n, self.n))
+            normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
+                                    float(z_ground), a)
+            for m, sl in zip(self.models, self.slices):
+                if hasattr(m, "ground_matrix"):
+                    a[sl, sl] = m.ground_matrix(BodyStep(step, sl), z_ground)
         else:
             a = np.empty((self.n, self.n))
             normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
@@ -177,6 +192,16 @@ class BodySystem:
     def reduce(self, c):
         """``c A^-1`` for any border row ``c`` over the bound circulations."""
         return np.asarray(c, float) @ self.a_inv
+
+
+class BodyStep:
+    """One body's view of a step record: its placed points (slice ``sl`` of ``xc, zc, nx, nz, xv, zv``)."""
+
+    def __init__(self, step, sl):
+        for k in ("xc", "zc", "nx", "nz", "xv", "zv"):
+            setattr(self, k, getattr(step, k)[sl])
+        for k in ("alpha", "h", "t", "n"):
+            setattr(self, k, getattr(step, k, None))
 
 
 def suction_weights(points, geometry, trailing_edge):
