@@ -291,7 +291,12 @@ def wake_through_airfoil(snapshots, sc):
         outline = ((np.asarray(xs, float) - p) * c, np.asarray(zs, float) * c)
     for t, xi, zeta, lev in _wake_in_body_frame(snapshots):
         if outline is not None:
-            inside = inside_outline(xi, zeta, *outline)
+            # only the vortices within the outline's bounding box can be inside it
+            box = ((xi >= outline[0].min()) & (xi <= outline[0].max())
+                   & (zeta >= outline[1].min()) & (zeta <= outline[1].max()))
+            inside = np.zeros(xi.shape, bool)
+            if box.any():
+                inside[box] = inside_outline(xi[box], zeta[box], *outline)
         else:
             inside = (np.abs(zeta) < WAKE_BAND * c) & (xi > lo) & (xi < hi)
         if lev is not None:

@@ -303,6 +303,11 @@ class SurfacePanels:
         return self.loads
 
 
+#: the few latest outlines' segment angles (SurfaceLoads._segment_angles), by their coordinates: an
+#: N x N table of N^2 arctangents per column, the same for every solve on one outline
+_ANGLES_CACHE = {}
+
+
 class SurfaceLoads:
     """Loads of a paneled thick section each step: pressure integration and vortex impulse.
 
@@ -337,6 +342,10 @@ class SurfaceLoads:
         """Potential at the mid-points per unit doublet strength on each of the body's segments
         (the panels), on the outside of a point's own panel: fixed in the body frame, so computed
         once (a deflected flap's new outline: ``chain_segment_angles``, the same numbers)."""
+        key = b"".join(np.ascontiguousarray(v, dtype=float).tobytes() for v in (g.xi_c, g.zeta_c, g.xi_n, g.zeta_n))
+        hit = _ANGLES_CACHE.get(key)
+        if hit is not None:                  # the same outline again (the steady solves of one run)
+            return hit
         N = g.n
         angles = np.empty((N, N))
         unit = np.zeros(N)
@@ -346,6 +355,10 @@ class SurfaceLoads:
             chain_potential(g.xi_c, g.zeta_c, self._own, g.xi_n, g.zeta_n, unit, 0.0, col)
             angles[:, j] = col
             unit[j] = 0.0
+        angles.setflags(write=False)
+        if len(_ANGLES_CACHE) >= 8:
+            _ANGLES_CACHE.pop(next(iter(_ANGLES_CACHE)))
+        _ANGLES_CACHE[key] = angles
         return angles
 
     def retire(self, xs, zs, gs):
