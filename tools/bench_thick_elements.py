@@ -18,10 +18,13 @@ other element's vortices in the wing's surface potential (one cut each,
 from __future__ import annotations
 
 import argparse
-import statistics
-import time
+import sys
+from pathlib import Path
 
-from unsteady import load_scenario, simulate
+from unsteady import load_scenario  # noqa: E402
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from bench_thick import timed  # noqa: E402  (one run to compile, then the median of the repeats)
 
 U, C = 10.0, 0.2
 
@@ -37,16 +40,6 @@ def case(pair, steps, thick=True):
         "motion": {"pitch": {"law": "sine", "amplitude": 2.0, "mean": 3.0, "reduced_frequency": 0.2}},
         "run": {"duration": steps * dt, "dt": dt, "wake": "free", "far_wake": 30},
         "output": {"plots": False}})
-
-
-def timed(sc, repeats):
-    simulate(sc)
-    times = []
-    for _ in range(repeats):
-        t0 = time.perf_counter()
-        simulate(sc)
-        times.append(time.perf_counter() - t0)
-    return statistics.median(times)
 
 
 def main():

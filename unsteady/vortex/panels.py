@@ -91,6 +91,21 @@ NEAR_WAKE_CHORDS = 2
 COARSE = 4
 
 
+def _outline_fields(xi, zeta):
+    """Panel fields of a closed outline's nodes ``xi, zeta`` (m, lower trailing edge -> leading edge ->
+    upper trailing edge): end points, mid-points, unit tangents and normals, lengths, the nodes'
+    half-panel weights and the enclosed area (clockwise: the shoelace sign)."""
+    dx, dz = np.diff(xi), np.diff(zeta)
+    ds = np.hypot(dx, dz)
+    t_xi, t_zeta = dx / ds, dz / ds
+    w = np.zeros(len(xi))
+    w[:-1] += 0.5 * ds
+    w[1:] += 0.5 * ds
+    area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))
+    return dict(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
+                t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w, area=area)
+
+
 @dataclass(frozen=True)
 class SurfaceGeometry:
     """The paneled outline in body coordinates (metres about the pivot, zero pitch).
@@ -135,19 +150,9 @@ class SurfaceGeometry:
         x, z = np.asarray(x, float), np.asarray(z, float)
         xi = (x - pivot) * chord
         zeta = z * chord
-        dx, dz = np.diff(xi), np.diff(zeta)
-        ds = np.hypot(dx, dz)
-        t_xi, t_zeta = dx / ds, dz / ds
-        w = np.zeros(len(xi))
-        w[:-1] += 0.5 * ds
-        w[1:] += 0.5 * ds
-        area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))   # clockwise: shoelace sign
         xm, zm = 0.5 * (x[:-1] + x[1:]), 0.5 * (z[:-1] + z[1:])
-        z_ref = float(z_ref) * chord
-        return cls(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
-                   t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w,
-                   x_surface=xm, z_surface=zm, xi_ref=(0.25 - pivot) * chord, zeta_ref=z_ref,
-                   chord=float(chord), area=area)
+        return cls(**_outline_fields(xi, zeta), x_surface=xm, z_surface=zm, xi_ref=(0.25 - pivot) * chord,
+                   zeta_ref=float(z_ref) * chord, chord=float(chord))
 
     @classmethod
     def placed(cls, section, n_panels, chord, incidence, position, ref_pivot_m):
@@ -164,18 +169,9 @@ class SurfaceGeometry:
             return x0 + chord * (xf * ca + zf * sa), z0 + chord * (-xf * sa + zf * ca)
 
         xi, zeta = place(np.asarray(x, float), np.asarray(z, float))
-        dx, dz = np.diff(xi), np.diff(zeta)
-        ds = np.hypot(dx, dz)
-        t_xi, t_zeta = dx / ds, dz / ds
-        w = np.zeros(len(xi))
-        w[:-1] += 0.5 * ds
-        w[1:] += 0.5 * ds
-        area = 0.5 * float(np.sum(xi[1:] * zeta[:-1] - xi[:-1] * zeta[1:]))
         xr, zr = place(0.25, z_q)
-        return cls(xi_n=xi, zeta_n=zeta, xi_c=0.5 * (xi[:-1] + xi[1:]), zeta_c=0.5 * (zeta[:-1] + zeta[1:]),
-                   t_xi=t_xi, t_zeta=t_zeta, n_xi=-t_zeta, n_zeta=t_xi, ds=ds, w=w,
-                   x_surface=0.5 * (x[:-1] + x[1:]), z_surface=0.5 * (z[:-1] + z[1:]),
-                   xi_ref=float(xr), zeta_ref=float(zr), chord=float(chord), area=area)
+        return cls(**_outline_fields(xi, zeta), x_surface=0.5 * (x[:-1] + x[1:]), z_surface=0.5 * (z[:-1] + z[1:]),
+                   xi_ref=float(xr), zeta_ref=float(zr), chord=float(chord))
 
     @property
     def n(self) -> int:
