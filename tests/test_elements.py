@@ -86,13 +86,13 @@ def test_single_elements_never_take_the_cross_core_path(monkeypatch):
             return real(*a, **k)
         return wrapped
 
-    for name in ("induced_velocity_grouped", "normal_influence_grouped"):
+    for name in ("induced_velocity_grouped", "normal_influence_grouped", "wake_self_velocity"):
         monkeypatch.setattr(kernels, name, spy(name))
     for raw in singles:
         simulate(load_scenario(raw))
     assert calls == []
     simulate(load_scenario(pair))
-    assert {"induced_velocity_grouped", "normal_influence_grouped"} <= set(calls)
+    assert {"induced_velocity_grouped", "normal_influence_grouped", "wake_self_velocity"} <= set(calls)
 
 
 def test_cross_cores_own_element_small_other_elements_their_spacing():

@@ -118,3 +118,49 @@ def test_grouped_normal_influence_is_velocity_dot_normal(z_g):
     for j in range(6):
         u, w = twin_grouped(xt, zt, gt, xs[j:j + 1], zs[j:j + 1], np.ones(1), gs[j:j + 1], c4, c4i, z_g)
         assert np.allclose(a[:, j], u * nx + w * nz, rtol=1e-11, atol=1e-13)
+
+
+@pytest.mark.parametrize("m", [0, 1, 6, 91, 803])           # one block (tails of 0-3 rows); threaded blocks
+@pytest.mark.parametrize("z_g", [None, -1.5])
+def test_wake_sum_once_per_pair_matches_the_full_sum(z_g, m):
+    # the wake on itself through one core, each pair once (the kernel is antisymmetric): against the
+    # full NumPy sum (a vortex on itself adds nothing but, with the ground, its own image)
+    from unsteady.vortex.kernels import wake_self_velocity
+    rng = np.random.default_rng(6)
+    wx, wz, wg = rng.normal(size=(3, m))
+    u, w = np.empty(m), np.empty(m)
+    wake_self_velocity(wx, wz, wg, 0.07, u, w, ground=z_g)
+    one = np.full((1, 1), 0.07 ** 4)
+    zero = np.zeros(m, np.int64)
+    ut, wt = twin_grouped(wx, wz, zero, wx, wz, wg, zero, one, one, z_g)
+    for got, want in ((u, ut), (w, wt)):
+        assert np.allclose(got, want, rtol=1e-10, atol=1e-12 * (np.abs(want).max() if m else 1.0))
+
+
+def test_wake_blocks_cover_the_tiles_with_about_equal_pairs():
+    # the threaded wake sum's fixed blocks: every tile of four rows once, pair counts about equal
+    from unsteady.vortex.kernels import WAKE_BLOCKS, _tile_blocks
+    m = 1001
+    e = _tile_blocks(m, WAKE_BLOCKS)
+    assert e[0] == 0 and e[-1] == m // 4 and np.all(np.diff(e) > 0)
+    pairs = np.array([sum(4 * (m - 4 * t) - 10 for t in range(a, b)) for a, b in zip(e[:-1], e[1:])])
+    assert np.abs(pairs - pairs.mean()).max() <= 4 * m
+
+
+@pytest.mark.parametrize("m", [203, 1001])                  # one block; threaded blocks
+@pytest.mark.parametrize("z_g", [None, -1.5])
+def test_wake_sum_once_per_pair_has_the_same_bits_wherever_the_arrays_sit(z_g, m):
+    # the same numbers at eight offsets in memory give the same bits (fast math regroups a sum by
+    # where the compiled loop's alignment peel starts; the kernel aligns its copies first)
+    from unsteady.vortex.kernels import wake_self_velocity
+    base = np.random.default_rng(7).normal(size=(3, m))
+    got = []
+    for off in range(8):
+        buf = np.zeros(3 * (m + 16))
+        xs = [buf[k * (m + 16) + off:k * (m + 16) + off + m] for k in range(3)]
+        for k in range(3):
+            xs[k][:] = base[k]
+        u, w = np.empty(m), np.empty(m)
+        wake_self_velocity(*xs, 0.01, u, w, ground=z_g)
+        got.append(np.concatenate((u, w)))
+    assert all(np.array_equal(got[0], g) for g in got[1:])

@@ -9,8 +9,10 @@ merged beyond 30 chords.  The wing alone is the same case without the tail.
 Each runs once unrecorded (numba compilation, caches), then ``--repeats`` times
 (default 1); the median wall and CPU times and their ratios are printed (target:
 at most 3x). Both wakes free doubles the wake, and its sum on itself grows as the
-square of its size: that sum is most of the time of either run (the same full
-sum with several elements as alone, ``kernels.induced_velocity``).
+square of its size: that sum is most of the time of either run.  With several
+elements it is taken once per pair (``kernels.wake_self_velocity``: one square
+root for both vortices of a pair, rows in tiles of four so that the loop
+vectorizes); the wing alone keeps the full sum (its history unchanged to the bit).
 On a shared machine read the CPU figures: the wall times of threaded sums swing
 with the other processes' load.
 """

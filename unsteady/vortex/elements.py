@@ -363,11 +363,9 @@ class CrossCores:
     Groups: element b's points are group b; a wake vortex of element k is
     group k, or ``n + k`` when soft (n elements).  ``core4[b, g]`` and
     ``core4_img[b, g]``: fourth powers of the cores (m^4).  The wake's sum on
-    itself (one core ``r_c``) is the single element's full sum
-    (:func:`~unsteady.vortex.kernels.induced_velocity`); a once-per-pair sum in
-    tiles was 1.3x faster with reassociating fast math but its bits then
-    depended on where the arrays sat in memory (the compiled loop's vector or
-    scalar path), and without reassociation it was slower than the full sum.
+    itself (one core ``r_c``) is taken once per pair
+    (:func:`~unsteady.vortex.kernels.wake_self_velocity`, on aligned copies so
+    that its bits do not depend on where numpy put the arrays).
     """
 
     def __init__(self, bodies, site_body, r_c, r_b, r_soft):
@@ -419,14 +417,14 @@ class CrossCores:
 
     def wake_velocities(self, store, U, r_c, gust, t, soft, z_g):
         """:meth:`~unsteady.vortex.wake.VortexStore.velocities` with these cores: the wake on itself
-        through ``r_c`` (:func:`~unsteady.vortex.kernels.induced_velocity`), the
+        through ``r_c``, each pair once (:func:`~unsteady.vortex.kernels.wake_self_velocity`), the
         bound vortices of body b on a wake vortex of group g through ``core4[b, g]``."""
-        from .kernels import induced_velocity, induced_velocity_grouped
+        from .kernels import induced_velocity_grouped, wake_self_velocity
         m, nb = store.m, store.nb
         wx, wz, wg = store.wake()
         u, w = store.vel_u[:m], store.vel_w[:m]
         bu, bw = store.bu[:m], store.bw[:m]
-        induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground=z_g)
+        wake_self_velocity(wx, wz, wg, r_c, u, w, ground=z_g)
         induced_velocity_grouped(wx, wz, self.wake_groups(store.site[:m], soft), store.x[:nb], store.z[:nb],
                                  store.g[:nb], self.bound_group, self.core4_t, self.core4_img_t,
                                  z_g is not None, 0.0 if z_g is None else float(z_g), bu, bw)

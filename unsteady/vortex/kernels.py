@@ -306,3 +306,266 @@ def normal_influence_grouped(xt, zt, nx, nz, gt, xs, zs, gs, core4, core4_img, g
                 fi = inv_2pi / math.sqrt(r2i * r2i + core4_img[gt[i], gs[j]])
                 v -= fi * (-dzi * nx[i] + dx * nz[i])
             a[i, j] = v
+
+
+# ---------------------------------------------------------------------------
+# Several elements: the wake's sum on itself once per pair.
+#
+# The wake acts on itself through one core r_c, so the kernel is antisymmetric
+# between two of its vortices: one square root gives both velocities.  Rows go
+# in tiles of four: the inner loop over the later vortices j accumulates the
+# four rows' sums and writes the four rows' pull on j to a column buffer
+# (stores that do not alias the positions, so the loop vectorizes), then added
+# to j.  With the ground, each pair's two images share one distance too.
+#: row blocks of the threaded wake sum (fixed, so the sum does not depend on the threads)
+WAKE_BLOCKS = 16
+
+
+#: bytes to which the once-per-pair wake sum aligns its arrays (a cache line; any SIMD width divides it)
+ALIGN_BYTES = 64
+
+
+def _aligned_rows(rows, m):
+    """An uninitialised (rows, m) float64 array whose rows each start on an ALIGN_BYTES boundary."""
+    per = ALIGN_BYTES // 8
+    mp = -(-max(m, 1) // per) * per                  # row length padded to whole lines
+    buf = np.empty(rows * mp + per)
+    k = (-buf.ctypes.data % ALIGN_BYTES) // 8
+    return buf[k:k + rows * mp].reshape(rows, mp)[:, :m]
+
+
+def _aligned(a):
+    """A copy of the 1-D float64 array ``a`` starting on an ALIGN_BYTES boundary."""
+    out = _aligned_rows(1, a.shape[0])[0]
+    out[:] = a
+    return out
+
+
+def wake_self_velocity(wx, wz, wg, r_c, u, w, ground=None):
+    """The wake's velocity (m/s) on itself through the core ``r_c`` (in place), each pair once.
+
+    The same sum as ``induced_velocity(wx, wz, wx, wz, wg, r_c, u, w, ground)``
+    in another order (round-off apart).  Large sums run on threads over
+    ``WAKE_BLOCKS`` fixed blocks of tiles, each into its own buffers, added in
+    block order: the same arithmetic on any number of threads.
+    """
+    m = wx.shape[0]
+    blocks = WAKE_BLOCKS if m * m // 2 >= PARALLEL_PAIRS and m >= 8 * WAKE_BLOCKS else 1
+    edges = _tile_blocks(m, blocks)
+    # every array on a 64-byte boundary (rows too): the compiled loops peel a few iterations to
+    # reach an aligned address, and with fast math where they start regroups the sums, so an
+    # array's place in memory would otherwise show in the last bits
+    wx, wz, wg = _aligned(wx), _aligned(wz), _aligned(wg)
+    bu, bw, cu, cw = (_aligned_rows(blocks, m) for _ in range(4))
+    g = ground is not None
+    z_g = float(ground) if g else 0.0
+    if blocks > 1:
+        _wake_tiles_threads(wx, wz, wg, r_c, g, z_g, edges, bu, bw, cu, cw)
+    else:
+        _wake_tiles_block(wx, wz, wg, r_c, g, z_g, 0, edges[1], bu[0], bw[0], cu[0], cw[0])
+    _sum_blocks(bu, bw, u, w)
+
+
+@njit(cache=True)
+def _tile_blocks(m, blocks):
+    """Tile edges (tiles of four rows) of ``blocks`` blocks with about equal pair counts."""
+    nt = m // 4
+    edges = np.empty(blocks + 1, dtype=np.int64)
+    edges[0] = 0
+    total = m * (m - 1) / 2.0
+    t = 0
+    done = 0.0
+    for k in range(1, blocks):
+        while t < nt and done < total * k / blocks:
+            done += 4.0 * (m - 4 * t) - 10.0     # pairs of rows 4t..4t+3 with later rows
+            t += 1
+        edges[k] = t
+    edges[blocks] = nt
+    return edges
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _tile_free(wx, wz, wg, r_c4, i0, cu, cw):
+    """Rows i0..i0+3 against every later vortex j: their four sums, and their pull on j into cu, cw."""
+    m = wx.shape[0]
+    xa = wx[i0]; xb = wx[i0 + 1]; xc = wx[i0 + 2]; xd = wx[i0 + 3]  # noqa: E702
+    za = wz[i0]; zb = wz[i0 + 1]; zc = wz[i0 + 2]; zd = wz[i0 + 3]  # noqa: E702
+    ga = wg[i0]; gb = wg[i0 + 1]; gc = wg[i0 + 2]; gd = wg[i0 + 3]  # noqa: E702
+    ua = ub = uc = ud = 0.0
+    wa = wb = wc = wd = 0.0
+    for j in range(i0 + 4, m):
+        xj = wx[j]
+        zj = wz[j]
+        gj = wg[j]
+        dx = xa - xj
+        dz = za - zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        ua -= gj * f * dz
+        wa += gj * f * dx
+        su = ga * f * dz
+        sw = ga * f * dx
+        dx = xb - xj
+        dz = zb - zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        ub -= gj * f * dz
+        wb += gj * f * dx
+        su += gb * f * dz
+        sw += gb * f * dx
+        dx = xc - xj
+        dz = zc - zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        uc -= gj * f * dz
+        wc += gj * f * dx
+        su += gc * f * dz
+        sw += gc * f * dx
+        dx = xd - xj
+        dz = zd - zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        ud -= gj * f * dz
+        wd += gj * f * dx
+        su += gd * f * dz
+        sw += gd * f * dx
+        cu[j] = su
+        cw[j] = -sw
+    return ua, ub, uc, ud, wa, wb, wc, wd
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _tile_images(wx, wz, wg, r_c4, z_g, i0, cu, cw):
+    """:func:`_tile_free` for the ground images: the image of j on row i and of row i on j share
+    dz' = z_i + z_j - 2 z_g (circulations -gamma)."""
+    m = wx.shape[0]
+    xa = wx[i0]; xb = wx[i0 + 1]; xc = wx[i0 + 2]; xd = wx[i0 + 3]  # noqa: E702
+    za = wz[i0] - 2.0 * z_g; zb = wz[i0 + 1] - 2.0 * z_g  # noqa: E702
+    zc = wz[i0 + 2] - 2.0 * z_g; zd = wz[i0 + 3] - 2.0 * z_g  # noqa: E702
+    ga = wg[i0]; gb = wg[i0 + 1]; gc = wg[i0 + 2]; gd = wg[i0 + 3]  # noqa: E702
+    ua = ub = uc = ud = 0.0
+    wa = wb = wc = wd = 0.0
+    for j in range(i0 + 4, m):
+        xj = wx[j]
+        zj = wz[j]
+        gj = wg[j]
+        dx = xa - xj
+        dz = za + zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        ua += gj * f * dz
+        wa -= gj * f * dx
+        su = ga * f * dz
+        sw = ga * f * dx
+        dx = xb - xj
+        dz = zb + zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        ub += gj * f * dz
+        wb -= gj * f * dx
+        su += gb * f * dz
+        sw += gb * f * dx
+        dx = xc - xj
+        dz = zc + zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        uc += gj * f * dz
+        wc -= gj * f * dx
+        su += gc * f * dz
+        sw += gc * f * dx
+        dx = xd - xj
+        dz = zd + zj
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        ud += gj * f * dz
+        wd -= gj * f * dx
+        su += gd * f * dz
+        sw += gd * f * dx
+        cu[j] = su
+        cw[j] = sw
+    return ua, ub, uc, ud, wa, wb, wc, wd
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _pair(wx, wz, wg, r_c4, ground, z_g, i, j, u, w):
+    """One pair (i, j) and, with the ground, its two images, added to both."""
+    dx = wx[i] - wx[j]
+    dz = wz[i] - wz[j]
+    r2 = dx * dx + dz * dz
+    f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+    u[i] -= wg[j] * f * dz
+    w[i] += wg[j] * f * dx
+    u[j] += wg[i] * f * dz
+    w[j] -= wg[i] * f * dx
+    if ground:
+        dz = wz[i] + wz[j] - 2.0 * z_g
+        r2 = dx * dx + dz * dz
+        f = 1.0 / math.sqrt(r2 * r2 + r_c4)
+        u[i] += wg[j] * f * dz
+        w[i] -= wg[j] * f * dx
+        u[j] += wg[i] * f * dz
+        w[j] += wg[i] * f * dx
+
+
+@njit(fastmath=True, cache=True, error_model="numpy")
+def _wake_tiles_block(wx, wz, wg, r_c, ground, z_g, t0, t1, u, w, cu, cw):
+    """Tiles t0 <= t < t1 (rows 4t..4t+3) into the buffers u, w (zeroed here, scaled by 1/2pi); the
+    block holding the last tile also takes the last rows (fewer than four) and, with the ground,
+    each vortex's own image."""
+    m = wx.shape[0]
+    nt = m // 4
+    r_c4 = r_c * r_c * r_c * r_c
+    for i in range(m):
+        u[i] = 0.0
+        w[i] = 0.0
+    for t in range(t0, t1):
+        i0 = 4 * t
+        for i in range(i0, i0 + 4):
+            for j in range(i + 1, i0 + 4):
+                _pair(wx, wz, wg, r_c4, ground, z_g, i, j, u, w)
+        r = _tile_free(wx, wz, wg, r_c4, i0, cu, cw)
+        for j in range(i0 + 4, m):
+            u[j] += cu[j]
+            w[j] += cw[j]
+        if ground:
+            q = _tile_images(wx, wz, wg, r_c4, z_g, i0, cu, cw)
+            for j in range(i0 + 4, m):
+                u[j] += cu[j]
+                w[j] += cw[j]
+            for k in range(4):
+                u[i0 + k] += q[k]
+                w[i0 + k] += q[4 + k]
+        for k in range(4):
+            u[i0 + k] += r[k]
+            w[i0 + k] += r[4 + k]
+    if t1 == nt:
+        for i in range(4 * nt, m):
+            for j in range(i + 1, m):
+                _pair(wx, wz, wg, r_c4, ground, z_g, i, j, u, w)
+        if ground:
+            for i in range(m):
+                dz = 2.0 * (wz[i] - z_g)
+                u[i] += wg[i] * dz / math.sqrt(dz * dz * dz * dz + r_c4)
+    inv_2pi = 1.0 / TWO_PI
+    for i in range(m):
+        u[i] *= inv_2pi
+        w[i] *= inv_2pi
+
+
+@njit(parallel=True, cache=True, error_model="numpy")
+def _wake_tiles_threads(wx, wz, wg, r_c, ground, z_g, edges, bu, bw, cu, cw):
+    for k in prange(edges.shape[0] - 1):
+        _wake_tiles_block(wx, wz, wg, r_c, ground, z_g, edges[k], edges[k + 1], bu[k], bw[k], cu[k], cw[k])
+
+
+@njit(cache=True)
+def _sum_blocks(bu, bw, u, w):
+    """u, w = the blocks' buffers added in block order."""
+    m = u.shape[0]
+    for i in range(m):
+        u[i] = bu[0, i]
+        w[i] = bw[0, i]
+    for k in range(1, bu.shape[0]):
+        for i in range(m):
+            u[i] += bu[k, i]
+            w[i] += bw[k, i]

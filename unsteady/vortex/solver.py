@@ -288,7 +288,8 @@ class VortexSolver:
     cross_core : bool
         With several bodies, a wake vortex meets every body but its own,
         both ways, through a core of that body's element spacing
-        (:class:`~unsteady.vortex.elements.CrossCores`); False (for comparison only): every
+        (:class:`~unsteady.vortex.elements.CrossCores`), and the wake's sum
+        on itself takes each pair once; False (for comparison only): every
         wake meets every body through ``body_core_radius``.  No effect on a
         single body.
     """
