@@ -326,17 +326,19 @@ ALIGN_BYTES = 64
 
 
 def _aligned_rows(rows, m):
-    """An uninitialised (rows, m) float64 array whose rows each start on an ALIGN_BYTES boundary."""
+    """An uninitialised C-contiguous (rows, mp) float64 array, mp >= m padded to whole ALIGN_BYTES,
+    so that each row starts on an ALIGN_BYTES boundary (the kernels use its first m columns; a
+    [:, :m] view would not be contiguous, and the compiled loops would not vectorize on it)."""
     per = ALIGN_BYTES // 8
-    mp = -(-max(m, 1) // per) * per                  # row length padded to whole lines
+    mp = -(-max(m, 1) // per) * per
     buf = np.empty(rows * mp + per)
     k = (-buf.ctypes.data % ALIGN_BYTES) // 8
-    return buf[k:k + rows * mp].reshape(rows, mp)[:, :m]
+    return buf[k:k + rows * mp].reshape(rows, mp)
 
 
 def _aligned(a):
     """A copy of the 1-D float64 array ``a`` starting on an ALIGN_BYTES boundary."""
-    out = _aligned_rows(1, a.shape[0])[0]
+    out = _aligned_rows(1, a.shape[0])[0, :a.shape[0]]
     out[:] = a
     return out
 
