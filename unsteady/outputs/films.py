@@ -656,7 +656,10 @@ class FilmRenderer:
         if f.opt.surface_pressure:
             self.cp_line, = ax.plot([], [], color=LOOK["ccw"], lw=1.3, animated=True, zorder=4)
             self.animated.append(self.cp_line)
-            ax.text(0.01, 0.02, f"line round the airfoil: surface pressure, {PRESSURE_OFFSET:g} chord off the "
+            # above the gust band's caption when there is one (both sit at the bottom left)
+            gust_cap = getattr(self, "gust_caption", None)
+            y_cp = 0.02 if gust_cap is None else gust_cap.get_position()[1] + 0.045
+            ax.text(0.01, y_cp, f"line round the airfoil: surface pressure, {PRESSURE_OFFSET:g} chord off the "
                     "outline per unit of -Cp (outward: suction; inviscid)", transform=ax.transAxes,
                     fontsize=self.fs * 0.7, color=LOOK["ccw"], ha="left", va="bottom")
         self._build_clock()
