@@ -151,31 +151,43 @@ def _induced(xt, zt, xs, zs, gs):
     return (-f * dz).sum(1), (f * dx).sum(1)
 
 
+def impulse_lift_per_element(steps, owner_of, dt, density=RHO, speed=U, chord=C):
+    """Per element b (0, 1): the lift coefficient by its own vortices' impulse plus the other element's
+    Kutta-Joukowski pull, from the third recorded step on (Wu 1981; Saffman 1992, sec. 3.2; module
+    docstring): F_z = rho d/dt sum_a Gamma_a x_a - rho sum_a Gamma_a u_B(r_a), x in the frame of the
+    air at rest, d/dt by second-order backward differences.  ``owner_of(step) -> array``: the element
+    (0 or 1) of each of the step's bound vortices, then of each wake vortex."""
+    s1x = {0: [], 1: []}
+    cross = {0: [], 1: []}
+    for st in steps:
+        xs = np.concatenate((st["xb"], st["xw"])) - speed * st["t"]      # the frame of the air at rest
+        zs = np.concatenate((st["zb"], st["zw"]))
+        gs = np.concatenate((st["gamma"], st["gw"]))
+        owner = owner_of(st)
+        for b in (0, 1):
+            a = owner == b
+            s1x[b].append((gs[a] * xs[a]).sum())
+            u, _ = _induced(xs[a], zs[a], xs[~a], zs[~a], gs[~a])
+            cross[b].append(-density * (gs[a] * u).sum())
+    q = 0.5 * density * speed * speed
+    out = {}
+    for b in (0, 1):
+        x = np.array(s1x[b])
+        d = (3.0 * x[2:] - 4.0 * x[1:-1] + x[:-2]) / (2.0 * dt)            # second-order backward
+        out[b] = (density * d + np.array(cross[b])[2:]) / (q * chord)
+    return out
+
+
 def test_pressure_and_impulse_loads_agree_per_element(wt):
     # Vortex impulse per element with the mutual Kutta-Joukowski forces (Wu 1981; Saffman 1992, sec.
     # 3.2; module docstring) against each element's pressure-route lift: within 1 % of the peak,
     # after the start (the first three steps carry the impulsive start's one-step transient).
     sc, bodies, rec = wt
     n0 = bodies[0].n
-    q = 0.5 * RHO * U * U
-    dt = sc.dt
-    own_imp = {0: [], 1: []}
-    cross = {0: [], 1: []}
-    for st in rec.steps:
-        xs = np.concatenate((st["xb"], st["xw"])) - U * st["t"]      # the frame of the air at rest
-        zs = np.concatenate((st["zb"], st["zw"]))
-        gs = np.concatenate((st["gamma"], st["gw"]))
-        owner = np.concatenate((np.repeat([0, 1], [n0, bodies[1].n]), st["site"]))
-        for b in (0, 1):
-            a = owner == b
-            own_imp[b].append(np.array([(gs[a] * zs[a]).sum(), -(gs[a] * xs[a]).sum()]))
-            u, w = _induced(xs[a], zs[a], xs[~a], zs[~a], gs[~a])
-            cross[b].append(RHO * np.array([(gs[a] * w).sum(), -(gs[a] * u).sum()]))
+    lift = impulse_lift_per_element(
+        rec.steps, lambda st: np.concatenate((np.repeat([0, 1], [n0, bodies[1].n]), st["site"])), sc.dt)
     for b, ref in ((0, "cl_1"), (1, "cl_2")):
-        imp = np.array(own_imp[b])
-        dI = (3.0 * imp[2:] - 4.0 * imp[1:-1] + imp[:-2]) / (2.0 * dt)     # second-order backward
-        fz = -RHO * dI[:, 1] + np.array(cross[b])[2:, 1]
-        cl_imp = fz / (q * C)
+        cl_imp = lift[b]
         cl_p = np.array([s["loads"][ref] for s in rec.steps])[2:]
         peak = np.abs(cl_p[3:]).max()
         err = np.abs(cl_imp[3:] - cl_p[3:]).max()

@@ -43,6 +43,9 @@ from unsteady.vortex.elements import build_elements
 from unsteady.vortex.sites import LeadingEdgeSite, TrailingEdgeSite
 from unsteady.vortex.solver import VortexSolver
 
+# the per-element impulse of two elements and the step recorder it reads (Wu 1981; Saffman 1992)
+from test_elements_classical import Record, impulse_lift_per_element  # noqa: E402
+
 U, C, RHO = 10.0, 0.2, 1.2
 K_RATE = 0.2                                   # alpha_dot c / (2 U)
 RAMP_S = math.radians(45.0) / (2.0 * K_RATE * U / C)
@@ -63,18 +66,6 @@ def pitch_up(crit_1=0.18, crit_2=0.2, chords=None, position=SECOND, elements=40,
                                             "duration": RAMP_S, "smoothing": 0.01}},
          "run": {"chords": chords if chords is not None else RAMP_S * U / C + 1.2, "dt": DT}}
     return unsteady.simulate(unsteady.load_scenario(d), observers=list(observers))
-
-
-class Record:
-    """Every step's bound and wake vortices (what the per-element impulse needs)."""
-
-    def __init__(self):
-        self.steps = []
-
-    def on_step(self, st):
-        self.steps.append(dict(t=st.t, gamma=st.gamma_bound.copy(), xb=st.x_body.copy(), zb=st.z_body.copy(),
-                               xw=st.x_wake.copy(), zw=st.z_wake.copy(), gw=st.gamma_wake.copy(),
-                               site=st.wake_site.copy(), loads=dict(st.loads)))
 
 
 @pytest.fixture(scope="module")
@@ -143,15 +134,6 @@ def test_kelvin_with_both_leading_edges_shedding(both):
             assert abs(own - start[b]) < 1e-11 * scale, b
 
 
-def _induced(xt, zt, xs, zs, gs):
-    dx = xt[:, None] - xs[None, :]
-    dz = zt[:, None] - zs[None, :]
-    r2 = dx * dx + dz * dz
-    r2[r2 == 0.0] = np.inf
-    f = gs[None, :] / (2.0 * math.pi * r2)
-    return (-f * dz).sum(1), (f * dx).sum(1)
-
-
 def test_pressure_and_impulse_lift_per_element_with_both_shedding(both, capsys):
     # Wu (1981), Saffman (1992) sec. 3.2 (module docstring): each element's pressure-route lift against
     # its own vortices' impulse plus the mutual Kutta-Joukowski force, within 3 % of the peak on the
@@ -164,23 +146,11 @@ def test_pressure_and_impulse_lift_per_element_with_both_shedding(both, capsys):
     h = res.history
     n0 = rec.steps[0]["gamma"].size // 2
     k = int(round(res.summary["peaks_running_mean_s"] / res.scenario.dt))
-    q = 0.5 * RHO * U * U
-    own_imp = {0: [], 1: []}
-    cross = {0: [], 1: []}
-    for st in rec.steps:
-        xs = np.concatenate((st["xb"], st["xw"])) - U * st["t"]      # the frame of the air at rest
-        zs = np.concatenate((st["zb"], st["zw"]))
-        gs = np.concatenate((st["gamma"], st["gw"]))
-        owner = np.concatenate((np.repeat([0, 1], [n0, n0]), np.where(st["site"] >= 2, 1, 0)))
-        for b in (0, 1):
-            a = owner == b
-            own_imp[b].append((gs[a] * xs[a]).sum())
-            u, _ = _induced(xs[a], zs[a], xs[~a], zs[~a], gs[~a])
-            cross[b].append(-RHO * (gs[a] * u).sum())
+    lift = impulse_lift_per_element(
+        rec.steps, lambda st: np.concatenate((np.repeat([0, 1], [n0, n0]), np.where(st["site"] >= 2, 1, 0))),
+        DT, density=RHO, speed=U, chord=C)
     for b in (0, 1):
-        s1x = np.array(own_imp[b])
-        d = (3.0 * s1x[2:] - 4.0 * s1x[1:-1] + s1x[:-2]) / (2.0 * DT)      # second-order backward
-        cl_imp = (RHO * d + np.array(cross[b])[2:]) / (q * C)
+        cl_imp = lift[b]
         cl_p = h[f"cl_{b + 1}"][2:]
         peak = np.abs(cl_p).max()
         gap = np.abs(running_mean(cl_p, k) - running_mean(cl_imp, k))

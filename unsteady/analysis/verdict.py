@@ -214,9 +214,8 @@ def measured_warnings(history, sc, summary, snapshots=None):
     return out
 
 
-def _wake_in_body_frame(snapshots):
-    """Per snapshot: (t, xi, zeta) of its wake vortices in the body frame (m, origin at the pitch axis)
-    and the snapshot's leading-edge mask (or None); nothing for an empty snapshot."""
+def _wake_snapshots(snapshots):
+    """Per non-empty snapshot: (t, x, z, alpha, h, leading-edge mask or None) of its wake vortices."""
     t = np.asarray(snapshots.get("t", ()), dtype=float)
     off = np.asarray(snapshots.get("offsets", ()), dtype=np.int64)
     if t.size == 0 or off.size < t.size + 1:
@@ -228,47 +227,39 @@ def _wake_in_body_frame(snapshots):
         a, b = off[k], off[k + 1]
         if b <= a:
             continue
-        al, h = float(snapshots["alpha"][k]), float(snapshots["h"][k])
-        dx, dz = x[a:b], z[a:b] - h
-        xi = dx * math.cos(al) - dz * math.sin(al)
-        zeta = dx * math.sin(al) + dz * math.cos(al)
-        yield float(t[k]), xi, zeta, (None if lev is None else lev[a:b])
+        yield (float(t[k]), x[a:b], z[a:b], float(snapshots["alpha"][k]), float(snapshots["h"][k]),
+               None if lev is None else lev[a:b])
+
+
+def _wake_in_body_frame(snapshots):
+    """Per snapshot: (t, xi, zeta) of its wake vortices in the body frame (m, origin at the pitch axis)
+    and the snapshot's leading-edge mask (or None); nothing for an empty snapshot."""
+    for t, x, z, al, h, lev in _wake_snapshots(snapshots):
+        dz = z - h
+        yield t, x * math.cos(al) - dz * math.sin(al), x * math.sin(al) + dz * math.cos(al), lev
 
 
 def wake_through_elements(snapshots, sc):
     """[(i, first time (s))] for each further element i = 2, 3, ... of ``[[airfoil]]`` on whose camber
     line a wake vortex of a snapshot lies: within WAKE_BAND of its chord of the camber line, between
     2 % and 98 % of its chord (the same band as the first element's, :func:`wake_through_airfoil`),
-    the elements placed as the solver places them (:func:`unsteady.inputs.elements.placed_nodes`)."""
-    from ..inputs.elements import placed_nodes
-    from ..inputs.sections import section_from_shape
-    more = sc.data.get("airfoil", {}).get("_more") or []
-    if not more:
+    measured as the solver's crossing guard measures it (:meth:`unsteady.vortex.elements.CrossingGuard.offsets`,
+    on the elements as the solver builds them)."""
+    if not sc.data.get("airfoil", {}).get("_more"):
         return []
-    lines = []
-    for el in more:
-        px, pz = placed_nodes(section_from_shape(el["shape"], sc.base_dir), 200, el["chord"],
-                              el.get("incidence", 0.0), el["position"])
-        px = px - sc.pivot * sc.chord                     # to the pitch axis, as the snapshots' body frame
-        tx, tz = px[-1] - px[0], pz[-1] - pz[0]
-        L = math.hypot(tx, tz)
-        tx, tz = tx / L, tz / L
-        s_n = (px - px[0]) * tx + (pz - pz[0]) * tz
-        d_n = -(px - px[0]) * tz + (pz - pz[0]) * tx
-        lines.append((px[0], pz[0], tx, tz, L, s_n, d_n))
+    from ..vortex.elements import CrossingGuard, build_elements
+    guard = CrossingGuard([getattr(m, "geometry", m) for m in build_elements(sc)[1:]])
     first = {}
-    for t, xi, zeta, lev in _wake_in_body_frame(snapshots):
-        for i, (x0, z0, tx, tz, L, s_n, d_n) in enumerate(lines, start=2):
+    for k, (t, x, z, al, h, lev) in enumerate(_wake_snapshots(snapshots)):
+        for i, (s, d, L) in enumerate(guard.offsets(x, z, al, h), start=2):
             if i in first:
                 continue
-            s = (xi - x0) * tx + (zeta - z0) * tz
-            d = -(xi - x0) * tz + (zeta - z0) * tx - np.interp(s, s_n, d_n)
             inside = (np.abs(d) < WAKE_BAND * L) & (s > 0.02 * L) & (s < 0.98 * L)
             if lev is not None:
                 inside &= ~lev
             if np.any(inside):
                 first[i] = t
-        if len(first) == len(lines):
+        if len(first) == len(guard.frames):
             break
     return sorted(first.items())
 

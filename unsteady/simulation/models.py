@@ -229,9 +229,9 @@ class _Fixed:
         pass
 
 
-class _LastCl:
+class _LastLoads:
     def on_step(self, s):
-        self.cl = s.loads["cl"]
+        self.loads = s.loads
 
 
 class _Relay:
@@ -322,16 +322,23 @@ class VortexModel(Model):
             if several_thick else ())
         self._pressure = None
 
+    def _steady_loads_row(self, body, alpha, alpha_dot=0.0, gust=True, ground="run"):
+        """The loads row of the solver's steady start of ``body`` at a fixed attitude (step 0 at t = 0,
+        no wake shed yet): in the gust field as it stands at t = 0 when the airfoil is inside it
+        (``gust``), over the run's ground (``ground="run"``), another ``Ground`` or none (None)."""
+        sc = self.sc
+        obs = _LastLoads()
+        g = self.gust if gust and self.gust is not None and self.gust.present_at_start else None
+        if ground == "run":
+            ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
+        VortexSolver(body, _Fixed(float(alpha), alpha_dot), speed=sc.speed, density=sc.density,
+                     dt=sc.dt, steps=0, start="steady", gust=g, ground=ground).run([obs])
+        return obs.loads
+
     def steady_cl(self, alpha, alpha_dot):
         """cl of the solver's steady start at a fixed attitude (step 0 at t = 0, no wake shed
         yet), in the gust field as it stands at t = 0 when the airfoil is inside it (rule 3)."""
-        sc = self.sc
-        obs = _LastCl()
-        gust = self.gust if self.gust is not None and self.gust.present_at_start else None
-        VortexSolver(self.body, _Fixed(alpha, alpha_dot), speed=sc.speed, density=sc.density,
-                     dt=sc.dt, steps=0, start="steady", gust=gust,
-                     ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([obs])
-        return obs.cl
+        return self._steady_loads_row(self.body, alpha, alpha_dot)["cl"]
 
     def quasi_steady_cl(self, alpha_eff, height):
         """Steady lift of this body at the effective angles ``alpha_eff`` (rad), rows of a history (rule 7).
@@ -359,10 +366,7 @@ class VortexModel(Model):
         a_nodes = 0.5 * (lo + hi) + 0.5 * (hi - lo) * np.cos(np.pi * (np.arange(n_a) + 0.5) / n_a)
 
         def steady(alpha, ground):
-            obs = _LastCl()
-            VortexSolver(self.body, _Fixed(float(alpha), 0.0), speed=self.sc.speed, density=self.sc.density,
-                         dt=self.sc.dt, steps=0, start="steady", ground=ground).run([obs])
-            return obs.cl
+            return self._steady_loads_row(self.body, alpha, gust=False, ground=ground)["cl"]
 
         def fit_in_alpha(values):
             if n_a == 1:
@@ -401,18 +405,8 @@ class VortexModel(Model):
         """(cl, cm about the pitch axis) of the solver's steady start at attitude alpha (rad) with the
         last element turned by ``tail_turn`` (rad) and, when given, its flap deflected by ``tail_flap``
         (rad, trailing edge down): what the trim of pitch freedom solves on."""
-        sc = self.sc
-        rows = []
-
-        class _Last:
-            def on_step(self, s):
-                rows.append(s.loads)
-
-        gust = self.gust if self.gust is not None and self.gust.present_at_start else None
-        VortexSolver(self._elements(tail_turn, tail_flap), _Fixed(alpha, 0.0), speed=sc.speed,
-                     density=sc.density, dt=sc.dt, steps=0, start="steady", gust=gust,
-                     ground=None if self.ground is None else Ground(-sc.data["ground"]["height"])).run([_Last()])
-        return rows[-1]["cl"], rows[-1]["cm_pivot"]
+        row = self._steady_loads_row(self._elements(tail_turn, tail_flap), alpha)
+        return row["cl"], row["cm_pivot"]
 
     def _elements(self, tail_turn, tail_flap=None):
         first = self.body[0] if isinstance(self.body, list) else self.body

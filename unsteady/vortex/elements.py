@@ -181,12 +181,17 @@ class CrossingGuard:
         d = -(xi - x0) * tz + (zeta - z0) * tx
         return s, d - np.interp(s, s_n, d_n)
 
+    def offsets(self, x, z, alpha, h):
+        """Per element: ``(s, d, L)``, each point's (x, z, m) distance along the element's chord from
+        its leading edge and off its camber line (m, the assembly at attitude ``alpha``, pitch axis at
+        height ``h``), and the element's chord length L (m)."""
+        return [(*self._local(f, x, z, alpha, h), f[4]) for f in self.frames]
+
     def before(self, x, z, alpha, h):
         """Per element: indices of the wake vortices within a chord of it and their sides."""
         out = []
-        for f in self.frames:
-            s, dd = self._local(f, x, z, alpha, h)
-            near = np.nonzero((s > -f[4]) & (s < 2.0 * f[4]) & (np.abs(dd) < f[4]))[0]
+        for s, dd, L in self.offsets(x, z, alpha, h):
+            near = np.nonzero((s > -L) & (s < 2.0 * L) & (np.abs(dd) < L))[0]
             out.append((near, np.sign(dd[near])))
         return out
 
