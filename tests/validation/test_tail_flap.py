@@ -178,16 +178,3 @@ def test_wing_flap_law_with_pitch_freedom_trims_at_its_start():
     h = res.history
     assert abs(h["n"][0] - 1.0) < 1e-8 and abs(h["cm_pivot"][0]) < 1e-8
     assert abs(h["pitch_deg"][-1] - h["pitch_deg"][0]) > 0.05
-
-
-def test_attitude_runaway_stops_the_run():
-    # Common practice: a run whose state grows without bound stops with the steps so far kept.  A tail
-    # as large as the wing 12 chords aft with a light pitch inertia (its apparent pitch inertia a quarter
-    # of it) ran away (the attitude 1e130 degrees off, no error) before the stop existed.
-    r = aircraft(chords=60, inertia=5.0)
-    r["airfoil"][1].update(chord=0.25, position=[3.0, 0.05])
-    res = simulate(load_scenario(r))
-    assert res.error and "the attitude left the trim" in res.error
-    h = res.history
-    assert len(h["n"]) == len(h["t"]) == len(h["tail_load_N"]) < 60 * 16
-    assert "heave_only" not in res.summary                # no comparison with a run that stopped

@@ -14,12 +14,19 @@ element and cm_cg their nose-up moment about the centre of gravity, both
 on the reference chord (:func:`unsteady.vortex.elements.combine_loads`;
 the pitch axis of the run is the centre of gravity, ``Scenario.pivot``).
 The 2-D sections stand for the wing and the tail with the same span: the
-tail's area is span times its chord.  The heave is
-:func:`unsteady.linear.kernels.heave_step`; the pitch rate advances by
-second-order Adams-Bashforth and the attitude by the trapezoidal rule, the
-same scheme, with the moment of the previous step (explicit, like the
-heave: stable while the apparent pitch inertia of the elements is a small
-part of I').
+tail's area is span times its chord.  The rates advance by second-order
+Adams-Bashforth and the attitude and height by the trapezoidal rule with
+the loads of the step: the heave explicitly, as for a single section
+(:func:`unsteady.linear.kernels.heave_step`; the elements' apparent mass is
+a few per cent of the aircraft's), the pitch with the part of the moment
+that answers the change of the rates within the step (the elements'
+apparent inertia, measured on the run model after the trim,
+:meth:`unsteady.simulation.models.VortexModel.apparent_inertia`) taken
+implicitly (:func:`pitch_step`).  Taken explicitly, the apparent pitch
+inertia of a tail, about pi rho (c_t/2)^2 l_t^2 per span, made the step grow
+without bound once it was a quarter of I' (measured: a tail of the wing's
+chord 12 chords aft on 5 kg m^2, or 6 chords aft on 0.15 kg m^2), and sooner
+with a smaller step.
 
 The start is trimmed (:meth:`PitchHeaveMotion.trim`): level flight, lift
 equal to the weight and zero moment about the centre of gravity, solved by
@@ -66,22 +73,62 @@ class PitchRunaway(RunStopped):
 
     def __init__(self, step, t, change_deg):
         RuntimeError.__init__(self, f"the attitude left the trim by {change_deg:.3g} degrees at step {step} "
-                                    f"(t = {t:.6g} s), beyond {RUNAWAY_DEG:g}: most likely the explicit pitch step, "
-                                    f"which grows without bound when the tail's apparent pitch inertia (about pi rho "
-                                    f"(c_t/2)^2 l_t^2 per span) is not a small part of aircraft.pitch_inertia "
-                                    f"per span, and a statically unstable aircraft diverges; raise "
-                                    f"aircraft.pitch_inertia, or move aircraft.cg forward")
+                                    f"(t = {t:.6g} s), beyond {RUNAWAY_DEG:g}: the aircraft diverges in pitch, "
+                                    f"most likely statically unstable (the centre of gravity aft of the neutral "
+                                    f"point); move aircraft.cg forward, or the tail aft or larger")
         self.step, self.t = step, t
 
 
-def pitch_step(m_coef, theta, theta_dot, acc_prev, first, dt):
-    """One step of the free pitch: theta'' = ``m_coef`` (rad/s^2, from the step's moment); AB2 on
-    the rate (Euler on the ``first`` step), trapezoidal rule on the angle (common practice)."""
-    if first:
-        rate_next = theta_dot + dt * m_coef
-    else:
-        rate_next = theta_dot + dt * (1.5 * m_coef - 0.5 * acc_prev)
-    return theta + 0.5 * dt * (theta_dot + rate_next), rate_next
+def pitch_step(acc, rates, rest_prev, dt, inertia, apparent, heave_accel, difference):
+    """One step of the free pitch, the model's apparent pitch inertia taken implicitly.
+
+    The pitch equation (module docstring), I' theta'' = M'.  The step's moment holds a part that
+    answers the change of the rates within the step, -(A_tt D_theta + A_th D_h), D the loads' own
+    difference of the rates (``difference(values, dt)``, the model's rule; for the vortex model the
+    second-order backward difference, :func:`unsteady.vortex.loads.backward_derivative`), A_tt and
+    A_th the pitch row of the model's measured apparent inertia
+    (:meth:`unsteady.simulation.models.VortexModel.apparent_inertia`).  Taken explicitly (the moment
+    of the step driving the next rate) that part feeds back on itself and grows without bound once
+    A_tt is about a quarter of I' (with the second-order difference); so it is moved to the left,
+    the added-mass partitioned scheme of fluid-structure coupling (common practice; C. Förster,
+    W. A. Wall & E. Ramm, Comput. Methods Appl. Mech. Engrg. 196, 2007, show why the explicit
+    coupling fails)::
+
+        M_rest,n = M'_n + A_tt D_theta,n + A_th D_h,n
+        (I' + A_tt) (theta'_{n+1} - theta'_n) / dt = 1.5 M_rest,n - 0.5 M_rest,n-1 - A_th h''_n+
+
+    (Euler on the first step) with h''_n+ = (h'_{n+1} - h'_n) / dt the heave's own step, taken
+    first and explicitly (:func:`unsteady.linear.kernels.heave_step`: the heave's apparent mass is a
+    few per cent of the aircraft's mass).  The angle follows by the trapezoidal rule.  With A = 0
+    it is the explicit step.
+
+    Parameters
+    ----------
+    acc : float
+        M'_n / I' (rad/s^2).
+    rates : list of (theta', h')
+        The rates of the steps so far, oldest first (the last three are used); the last is this step's.
+    rest_prev : float or None
+        The previous step's M_rest / I' (None on the first step).
+    dt, inertia : float
+        Step (s) and I' (kg m^2 per span).
+    apparent : (float, float)
+        (A_tt, A_th), per span.
+    heave_accel : float
+        h''_n+ (m/s^2).
+    difference : callable
+
+    Returns
+    -------
+    rate_next, rest : float
+        theta' at the next step, and this step's M_rest / I'.
+    """
+    a_tt, a_th = apparent
+    d_theta = difference([r[0] for r in rates[-3:]], dt)
+    d_h = difference([r[1] for r in rates[-3:]], dt)
+    rest = acc + (a_tt * d_theta + a_th * d_h) / inertia
+    drive = rest if rest_prev is None else 1.5 * rest - 0.5 * rest_prev
+    return rates[-1][0] + dt * (inertia * drive - a_th * heave_accel) / (inertia + a_tt), rest
 
 
 class PitchHeaveMotion(HeaveMotion):
@@ -111,7 +158,11 @@ class PitchHeaveMotion(HeaveMotion):
         self.tail_flap_trim = None
         self.theta = 0.0
         self.theta_dot = 0.0
-        self.m_prev = None
+        #: the model's apparent inertia, heave row scaled by kappa (:meth:`set_apparent_inertia`)
+        self.apparent = None
+        self.difference = None
+        self.rates = []
+        self.rest_prev = None
         self.pa_rows = []
         self.tail_rows = []
 
@@ -191,15 +242,31 @@ class PitchHeaveMotion(HeaveMotion):
         self._offset()
         return self.theta, self.theta_dot, self.h, self.h_dot
 
+    def set_apparent_inertia(self, A, difference):
+        """The run model's apparent inertia ``A`` (2 x 2, per span: rows M' and L', columns theta'' and
+        h''; :meth:`unsteady.simulation.models.VortexModel.apparent_inertia`) and the difference rule
+        of its loads (``difference(values, dt)``): its pitch row is taken implicitly by the step
+        (:func:`pitch_step`).  Call once, after the trim, before the march."""
+        A = np.asarray(A, dtype=float)
+        self.apparent = (float(A[0, 0]), float(A[0, 1]))    # the pitch row (the heave stays explicit)
+        self.difference = difference
+        return self
+
     def after_step(self, t, dt, loads):
+        if self.apparent is None:
+            raise RuntimeError("PitchHeaveMotion.set_apparent_inertia(A, difference) must run before the march")
         first = self.a_prev is None
-        n, a, self.h, self.h_dot = heave_step.py_func(float(loads["cl"]), self.h, self.h_dot,
+        h_dot = self.h_dot
+        self.rates.append((self.theta_dot, h_dot))
+        del self.rates[:-3]
+        n, a, self.h, self.h_dot = heave_step.py_func(float(loads["cl"]), self.h, h_dot,
                                                       0.0 if first else self.a_prev, first, dt,
                                                       self.n_per_cl, G)
         m = self.m_per_cm * float(loads["cm_pivot"])      # the pitch axis is the centre of gravity
-        self.theta, self.theta_dot = pitch_step(m, self.theta, self.theta_dot,
-                                                0.0 if first else self.m_prev, first, dt)
-        self.m_prev = m
+        rate_next, self.rest_prev = pitch_step(m, self.rates, self.rest_prev, dt, self.I_span, self.apparent,
+                                               (self.h_dot - h_dot) / dt, self.difference)
+        self.theta += 0.5 * dt * (self.theta_dot + rate_next)
+        self.theta_dot = rate_next
         self.n_rows.append(n)
         self.a_rows.append(a)
         self.a_prev = a

@@ -12,9 +12,11 @@ from ..inputs.sections import camber_elements
 from ..inputs.elements import lesp_criticals
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
+from ..vortex.bodies import as_body_models
 from ..vortex.flap import build_flap_body, hinge_nodes
 from ..vortex.elements import build_elements
 from ..vortex.ground import Ground
+from ..vortex.loads import backward_derivative
 from ..vortex.flap_panels import build_flap_surface
 from ..vortex.panels import build_surface
 from ..vortex.solver import (LeadingEdgeSite, SolverDiverged, StepState, TrailingEdgeSite, VortexSolver,
@@ -229,6 +231,34 @@ class _Fixed:
         pass
 
 
+class _RateStep:
+    """A probe motion: held at ``alpha`` (rad), then from step 2 on the pitch rate (``which`` 0) or the
+    heave rate (1) changed by ``dv`` (rad/s or m/s), the angle or height following it
+    (:meth:`VortexModel.apparent_inertia`)."""
+
+    def __init__(self, alpha, which, dv, dt):
+        self.alpha, self.which, self.dv, self.dt = alpha, which, dv, dt
+
+    def state(self, t):
+        n = int(round(t / self.dt))
+        s = self.dv * (n - 2) * self.dt if n >= 2 else 0.0
+        v = self.dv if n >= 2 else 0.0
+        if self.which == 0:
+            return self.alpha + s, v, 0.0, 0.0
+        return self.alpha, 0.0, s, v
+
+    def after_step(self, t, dt, loads):
+        pass
+
+
+class _AllLoads:
+    def __init__(self):
+        self.rows = []
+
+    def on_step(self, s):
+        self.rows.append(s.loads)
+
+
 class _LastLoads:
     def on_step(self, s):
         self.loads = s.loads
@@ -290,6 +320,8 @@ class VortexModel(Model):
     """
 
     COLUMNS = ("lesp",)
+    #: the loads' time derivative of the bound circulation, the rule :meth:`apparent_inertia` assumes
+    rate_difference = staticmethod(backward_derivative)
 
     def __init__(self, sc, gust, motion):
         super().__init__(sc, gust, motion)
@@ -407,6 +439,41 @@ class VortexModel(Model):
         (rad, trailing edge down): what the trim of pitch freedom solves on."""
         row = self._steady_loads_row(self._elements(tail_turn, tail_flap), alpha)
         return row["cl"], row["cm_pivot"]
+
+    def apparent_inertia(self, alpha):
+        """The model's own apparent inertia in pitch and heave at attitude ``alpha`` (rad): a 2 x 2 matrix
+        A (per span, SI) with the step's loads (M' nose-up about the pitch axis, L' up) = -A (theta'', h'')
+        in their part that answers a change of the rates within the step.
+
+        Measured, not estimated: in the model a step change of a rate (theta' or h', at step 2 of a steady
+        start at ``alpha``, the bodies as they march) changes the bound circulation within the step, and
+        the loads' second-order backward difference of it (:attr:`rate_difference`)
+        turns that into a load of -1.5 A dv / dt at that step and +0.5 A dv / dt at the next; so
+        A = -(dF_2 - dF_3) dt / (2 dv), from runs with +dv and -dv (the quadratic part cancels).  What
+        remains of the difference (the circulatory part of the response, of order U dt / c of it) is left
+        in the estimate.  It is what the added-mass partitioned step of the pitch freedom needs
+        (:func:`unsteady.dynamics.pitch.pitch_heave_step`).  Rates: 1e-3 U over the farthest element
+        point from the axis for theta', 1e-3 U for h'.
+        """
+        sc = self.sc
+        U, dt = sc.speed, sc.dt
+        q, c = 0.5 * sc.density * U * U, sc.chord
+        bodies = self.body if isinstance(self.body, list) else [self.body]
+        reach = max(float(np.max(np.hypot(m.geometry.xi_v, m.geometry.zeta_v))) for m in as_body_models(bodies))
+        ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
+        A = np.zeros((2, 2))
+        for k, dv in ((0, 1e-3 * U / reach), (1, 1e-3 * U)):
+            f = []
+            for sign in (1.0, -1.0):
+                obs = _AllLoads()
+                VortexSolver(self.body, _RateStep(float(alpha), k, sign * dv, dt), speed=U, density=sc.density,
+                             dt=dt, steps=3, start="steady", ground=ground,
+                             shed_offset=sc.data["run"].get("shed_offset", 0.3),
+                             core_radius=sc.data["run"].get("core_radius")).run([obs])
+                f.append(np.array([[r["cm_pivot"] * q * c * c, r["cl"] * q * c] for r in obs.rows]))
+            d = 0.5 * (f[0] - f[1])                     # (step, load) per unit sign, linear part
+            A[:, k] = -(d[2] - d[3]) * dt / (2.0 * dv)
+        return A
 
     def _elements(self, tail_turn, tail_flap=None):
         first = self.body[0] if isinstance(self.body, list) else self.body

@@ -107,6 +107,7 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
     if pitching:
         heave.trim(model.steady_loads)
         model.set_tail_turn(*heave.tail_control)
+        heave.set_apparent_inertia(model.apparent_inertia(heave.alpha_trim), model.rate_difference)
     elif heave is not None:
         heave.trim(model.steady_cl)
     builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
