@@ -291,6 +291,9 @@ class PitchHeaveMotion(HeaveMotion):
         else:
             out.update(trimmed=self.trimmed(), tail_trim_deg=math.degrees(self.tail_trim))
         out["pitch_inertia_per_span"] = self.I_span
+        if self.apparent is not None:
+            # the elements' apparent pitch inertia about the centre of gravity (per span), as measured
+            out["apparent_pitch_inertia_per_span"] = self.apparent[0]
         p = history.get("pitch_deg")
         if p is not None and len(p):
             out["pitch_change_max_deg"] = float(np.nanmax(np.abs(np.asarray(p) - math.degrees(self.alpha_trim))))

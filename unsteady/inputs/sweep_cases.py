@@ -158,8 +158,8 @@ SPAN_NUMBERS = ("root_bending_max_Nm",)
 FORMULA_NUMBERS = ("dn_formula", "gust_alleviation_factor", "dn_ratio")
 #: pitch freedom (dynamics.pitch): the trim, the pitch response, the tail load; with a gust the
 #: heave-only companion's ratios (its block's numbers are not flattened into the table)
-PITCH_NUMBERS = ("tail_trim_deg", "tail_flap_trim_deg", "pitch_inertia_per_span", "pitch_change_max_deg",
-                 "tail_load_max_N", "tail_load_min_N")
+PITCH_NUMBERS = ("tail_trim_deg", "tail_flap_trim_deg", "pitch_inertia_per_span", "apparent_pitch_inertia_per_span",
+                 "pitch_change_max_deg", "tail_load_max_N", "tail_load_min_N")
 HEAVE_ONLY_NUMBERS = ("dn_ratio_pitch_to_heave_only", "tail_load_ratio_pitch_to_heave_only")
 TURBULENCE_NUMBERS = ("n_rms", "A_bar", "N0", "N0_cut_off_Hz", "n_rms_std", "A_bar_std", "N0_std")
 

@@ -459,7 +459,7 @@ class VortexModel(Model):
         U, dt = sc.speed, sc.dt
         q, c = 0.5 * sc.density * U * U, sc.chord
         bodies = self.body if isinstance(self.body, list) else [self.body]
-        reach = max(float(np.max(np.hypot(m.geometry.xi_v, m.geometry.zeta_v))) for m in as_body_models(bodies))
+        reach = max(float(np.max(np.hypot(m.geometry.xi_c, m.geometry.zeta_c))) for m in as_body_models(bodies))
         ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
         A = np.zeros((2, 2))
         for k, dv in ((0, 1e-3 * U / reach), (1, 1e-3 * U)):
