@@ -252,16 +252,13 @@ class _RateStep:
 
 
 class _AllLoads:
+    """The loads row of every step."""
+
     def __init__(self):
         self.rows = []
 
     def on_step(self, s):
         self.rows.append(s.loads)
-
-
-class _LastLoads:
-    def on_step(self, s):
-        self.loads = s.loads
 
 
 class _Relay:
@@ -359,13 +356,13 @@ class VortexModel(Model):
         no wake shed yet): in the gust field as it stands at t = 0 when the airfoil is inside it
         (``gust``), over the run's ground (``ground="run"``), another ``Ground`` or none (None)."""
         sc = self.sc
-        obs = _LastLoads()
+        obs = _AllLoads()
         g = self.gust if gust and self.gust is not None and self.gust.present_at_start else None
         if ground == "run":
             ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
         VortexSolver(body, _Fixed(float(alpha), alpha_dot), speed=sc.speed, density=sc.density,
                      dt=sc.dt, steps=0, start="steady", gust=g, ground=ground).run([obs])
-        return obs.loads
+        return obs.rows[-1]
 
     def steady_cl(self, alpha, alpha_dot):
         """cl of the solver's steady start at a fixed attitude (step 0 at t = 0, no wake shed
