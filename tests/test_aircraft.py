@@ -112,11 +112,11 @@ def test_heave_step_integrates_a_linear_acceleration_exactly():
     n_per_cl, dt, c0, c1 = 1.7, 0.01, 0.8, 3.0          # cl = c0 + c1 t, so h'' = g (n_per_cl cl - 1)
     k = aircraft.G * n_per_cl * c1                       # d h'' / dt
     for step in (heave_step, heave_step.py_func):
-        h = h_dot = a_prev = 0.0
+        h = h_dot = r_prev = 0.0
         for i in range(50):
             t = i * dt
-            n, acc, h, h_dot = step(c0 + c1 * t, h, h_dot, a_prev, i == 0, dt, n_per_cl, aircraft.G)
-            a_prev = acc
+            n, acc, r_prev, h, h_dot = step(c0 + c1 * t, h, h_dot, r_prev, i == 0, dt, n_per_cl, aircraft.G,
+                                            0.0, 0.0)
             assert acc == pytest.approx(aircraft.G * (n_per_cl * (c0 + c1 * t) - 1.0), rel=1e-14)
         t = 50 * dt
         a0 = aircraft.G * (n_per_cl * c0 - 1.0)

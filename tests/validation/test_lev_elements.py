@@ -233,7 +233,7 @@ def _aircraft(pitch=True, inertia=1e7, tail_incidence=-2.0, crit=(0.1, 0.02), ch
 def test_pitch_freedom_with_both_leading_edges_shedding(capsys):
     # Rigid-body dynamics (Etkin & Reid 1996; module docstring): with a huge pitch inertia the free
     # aircraft is the heave-only one at the trimmed attitude and tail incidence, shedding included
-    # (load factor within 0.5 % of the peak increment; measured 5e-5 over these 15 chords, after
+    # (load factor within 0.5 % of the peak increment; measured 2e-4 over these 15 chords, after
     # which the shedding wake's chaos grows the 1e-9 difference of the held attitude); a realistic
     # inertia differs by far more (the check has teeth).  Ramesh et al. (2014): while each element
     # sheds, its |LESP| is its own critical value.

@@ -28,10 +28,16 @@ Integration: the model calls :meth:`HeaveMotion.state` before the solve at
 each step and :meth:`HeaveMotion.after_step` after the loads; the heave rate
 advances by second-order Adams-Bashforth and the height by the trapezoidal
 rule (:func:`unsteady.linear.kernels.heave_step`, shared with the compiled
-march of the linear model).  The apparent mass of the section, pi rho c^2 / 4 per span, is a
-fraction 1/(4 mu_g) of the wing mass (2-D); it enters explicitly, through
-the loads of the previous step, which is stable for the mass ratios of
-aircraft (mu_g of order 10 or more).
+march of the linear model).  The apparent mass of the section, about
+pi rho c^2 / 4 per span, is a fraction of about 1/(4 mu_g) of the wing mass
+(2-D): with the loads of the previous step alone the step grew without
+bound once that fraction reached a quarter, as in a light aircraft of broad
+chord (measured: mu_g 0.53, W/S 10 N/m^2 on a 0.5 m chord, diverged in the
+vortex model; mu_g 0.26 in the linear one).  So the run model hands over its
+own apparent mass and the difference rule of its loads after the trim
+(:meth:`HeaveMotion.set_apparent_mass`; the vortex model measures it,
+:meth:`unsteady.simulation.models.VortexModel.heave_apparent_mass`), and the
+step takes that part of the lift implicitly.
 """
 
 from __future__ import annotations
@@ -91,6 +97,10 @@ class HeaveMotion:
         self.h = 0.0
         self.h_dot = 0.0
         self.a_prev = None
+        self.rest_prev = 0.0
+        self.h_rates = []
+        self.mu_a = None                  # set by set_apparent_mass()
+        self.difference = None
         self.n_rows = []
         self.a_rows = []
 
@@ -135,6 +145,16 @@ class HeaveMotion:
                                               f"aircraft.wing_area, or lower aircraft.mass")
         return a1
 
+    def set_apparent_mass(self, A, difference):
+        """The run model's apparent mass ``A`` in heave (kg/m, per span; its lift's part -A h'') and
+        the difference rule of its loads, ``difference(values, dt)`` (the time derivative of the last
+        of a short history of h'); the heave step takes that part implicitly
+        (:func:`unsteady.linear.kernels.heave_step`).  Call once, after the trim, before the march."""
+        self.apparent_mass = float(A)
+        self.mu_a = self.kappa * self.apparent_mass / self.m_span
+        self.difference = difference
+        return self
+
     # -- the solver's motion interface --------------------------------------
     def state(self, t):
         """(alpha, alpha_dot, h, h_dot) at time t: prescribed pitch + trim, free heave."""
@@ -148,15 +168,25 @@ class HeaveMotion:
 
     def after_step(self, t, dt, loads):
         """Advance the heave from t to t + dt with the lift of step t (:func:`unsteady.linear.kernels.heave_step`)."""
-        first = self.a_prev is None
-        # the step's Python source as it stands (plain IEEE arithmetic; the compiled
-        # form may fuse multiply-adds, which the vortex histories need not see)
-        n, a, self.h, self.h_dot = heave_step.py_func(float(loads["cl"]), self.h, self.h_dot,
-                                                      0.0 if first else self.a_prev, first, dt,
-                                                      self.n_per_cl, G)
+        n, a = self._heave(dt, loads)
         self.n_rows.append(n)
         self.a_rows.append(a)
         self.a_prev = a
+
+    def _heave(self, dt, loads):
+        """The heave from t to t + dt (:func:`unsteady.linear.kernels.heave_step`); returns (n, h'')."""
+        if self.mu_a is None:
+            raise RuntimeError("HeaveMotion.set_apparent_mass(A, difference) must run before the march")
+        first = self.a_prev is None
+        self.h_rates.append(self.h_dot)
+        del self.h_rates[:-3]
+        # the step's Python source as it stands (plain IEEE arithmetic; the compiled
+        # form may fuse multiply-adds, which the vortex histories need not see)
+        n, a, self.rest_prev, self.h, self.h_dot = heave_step.py_func(
+            float(loads["cl"]), self.h, self.h_dot, self.rest_prev, first, dt, self.n_per_cl, G,
+            self.mu_a, float(self.difference(self.h_rates, dt)))
+        self.a_prev = a
+        return n, a
 
     # -- for a compiled march (unsteady.linear.kernels.march_heave) -----------
     def pitch(self, t):
@@ -168,8 +198,11 @@ class HeaveMotion:
 
     def heave_constants(self):
         """The constants of :meth:`after_step`: ``n_per_cl`` (n = n_per_cl cl, i.e. kappa q c / (m' g)),
-        ``g`` (m/s^2), and the start state ``h``, ``h_dot`` (m, m/s)."""
-        return {"n_per_cl": self.n_per_cl, "g": G, "h": self.h, "h_dot": self.h_dot}
+        ``g`` (m/s^2), ``mu_a`` (kappa A / m', :meth:`set_apparent_mass`) and the start state ``h``,
+        ``h_dot`` (m, m/s)."""
+        if self.mu_a is None:
+            raise RuntimeError("HeaveMotion.set_apparent_mass(A, difference) must run before the march")
+        return {"n_per_cl": self.n_per_cl, "g": G, "mu_a": self.mu_a, "h": self.h, "h_dot": self.h_dot}
 
     def take_rows(self, n, h_ddot, h_end, h_dot_end):
         """Record the rows of a compiled march, as if :meth:`after_step` had run for each."""
@@ -196,6 +229,9 @@ class HeaveMotion:
             "wing_loading_N_m2": wing_loading,
             "mass_ratio_mu_g": mu_g,
             "lift_slope_per_rad": lift_slope,
+            # the run model's own apparent mass in heave (kg/m, per span) beside the wing's mass per span
+            "apparent_mass_per_span": getattr(self, "apparent_mass", None),
+            "mass_per_span": self.m_span,
             "lift_scaling": (f"section lift scaled by kappa = {self.kappa:.4f} (Helmbold slope for aspect ratio "
                              f"{self.sc.data['aircraft']['aspect_ratio']:g} over 2 pi); unsteady finite-wing "
                              f"effects are not modelled" if self.kappa != 1.0 else

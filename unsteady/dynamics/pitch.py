@@ -16,17 +16,16 @@ the pitch axis of the run is the centre of gravity, ``Scenario.pivot``).
 The 2-D sections stand for the wing and the tail with the same span: the
 tail's area is span times its chord.  The rates advance by second-order
 Adams-Bashforth and the attitude and height by the trapezoidal rule with
-the loads of the step: the heave explicitly, as for a single section
-(:func:`unsteady.linear.kernels.heave_step`; the elements' apparent mass is
-a few per cent of the aircraft's), the pitch with the part of the moment
-that answers the change of the rates within the step (the elements'
-apparent inertia, measured on the run model after the trim,
-:meth:`unsteady.simulation.models.VortexModel.apparent_inertia`) taken
-implicitly (:func:`pitch_step`).  Taken explicitly, the apparent pitch
-inertia of a tail, about pi rho (c_t/2)^2 l_t^2 per span, made the step grow
-without bound once it was a quarter of I' (measured: a tail of the wing's
-chord 12 chords aft on 5 kg m^2, or 6 chords aft on 0.15 kg m^2), and sooner
-with a smaller step.
+the loads of the step, less the part that answers the change of the rates
+within the step (the elements' apparent inertia, measured on the run model
+after the trim, :meth:`unsteady.simulation.models.VortexModel.apparent_inertia`),
+which is taken implicitly: in the heave as for a single section
+(:func:`unsteady.linear.kernels.heave_step`, its cross term from the pitch
+explicit), then in the pitch with the heave's step (:func:`pitch_step`).
+Taken explicitly, the apparent pitch inertia of a tail, about
+pi rho (c_t/2)^2 l_t^2 per span, made the step grow without bound once it was
+a quarter of I' (measured: a tail of the wing's chord 12 chords aft on
+5 kg m^2, or 6 chords aft on 0.15 kg m^2), and sooner with a smaller step.
 
 The start is trimmed (:meth:`PitchHeaveMotion.trim`): level flight, lift
 equal to the weight and zero moment about the centre of gravity, solved by
@@ -53,8 +52,6 @@ import math
 import numpy as np
 
 from ..core.errors import InputError, RunStopped
-from ..inputs.aircraft import G
-from ..linear.kernels import heave_step
 from .heave import HeaveMotion
 
 __all__ = ["PitchHeaveMotion", "HeldAttitudeHeave", "heave_only_comparison", "pitch_step"]
@@ -98,8 +95,7 @@ def pitch_step(acc, rates, rest_prev, dt, inertia, apparent, heave_accel, differ
         (I' + A_tt) (theta'_{n+1} - theta'_n) / dt = 1.5 M_rest,n - 0.5 M_rest,n-1 - A_th h''_n+
 
     (Euler on the first step) with h''_n+ = (h'_{n+1} - h'_n) / dt the heave's own step, taken
-    first and explicitly (:func:`unsteady.linear.kernels.heave_step`: the heave's apparent mass is a
-    few per cent of the aircraft's mass).  The angle follows by the trapezoidal rule.  With A = 0
+    first (:func:`unsteady.linear.kernels.heave_step`).  The angle follows by the trapezoidal rule.  With A = 0
     it is the explicit step.
 
     Parameters
@@ -158,11 +154,10 @@ class PitchHeaveMotion(HeaveMotion):
         self.tail_flap_trim = None
         self.theta = 0.0
         self.theta_dot = 0.0
-        #: the model's apparent inertia, heave row scaled by kappa (:meth:`set_apparent_inertia`)
+        #: (A_tt, A_th), the pitch row of the model's apparent inertia (:meth:`set_apparent_inertia`)
         self.apparent = None
-        self.difference = None
         self.rates = []
-        self.rest_prev = None
+        self.pitch_rest_prev = None
         self.pa_rows = []
         self.tail_rows = []
 
@@ -248,28 +243,24 @@ class PitchHeaveMotion(HeaveMotion):
         of its loads (``difference(values, dt)``): its pitch row is taken implicitly by the step
         (:func:`pitch_step`).  Call once, after the trim, before the march."""
         A = np.asarray(A, dtype=float)
-        self.apparent = (float(A[0, 0]), float(A[0, 1]))    # the pitch row (the heave stays explicit)
-        self.difference = difference
+        self.apparent = (float(A[0, 0]), float(A[0, 1]))    # the pitch row
+        self.set_apparent_mass(A[1, 1], difference)         # the heave's own (its cross term explicit)
         return self
 
     def after_step(self, t, dt, loads):
         if self.apparent is None:
             raise RuntimeError("PitchHeaveMotion.set_apparent_inertia(A, difference) must run before the march")
-        first = self.a_prev is None
         h_dot = self.h_dot
         self.rates.append((self.theta_dot, h_dot))
         del self.rates[:-3]
-        n, a, self.h, self.h_dot = heave_step.py_func(float(loads["cl"]), self.h, h_dot,
-                                                      0.0 if first else self.a_prev, first, dt,
-                                                      self.n_per_cl, G)
+        n, a = self._heave(dt, loads)
         m = self.m_per_cm * float(loads["cm_pivot"])      # the pitch axis is the centre of gravity
-        rate_next, self.rest_prev = pitch_step(m, self.rates, self.rest_prev, dt, self.I_span, self.apparent,
-                                               (self.h_dot - h_dot) / dt, self.difference)
+        rate_next, self.pitch_rest_prev = pitch_step(m, self.rates, self.pitch_rest_prev, dt, self.I_span,
+                                                     self.apparent, (self.h_dot - h_dot) / dt, self.difference)
         self.theta += 0.5 * dt * (self.theta_dot + rate_next)
         self.theta_dot = rate_next
         self.n_rows.append(n)
         self.a_rows.append(a)
-        self.a_prev = a
         self.pa_rows.append(math.degrees(m))
         self.tail_rows.append(float(loads[f"cl_{self.n_el}"]) * self.q * self.c * self.span)
         if not abs(self.theta - self.alpha_trim) <= math.radians(RUNAWAY_DEG):

@@ -153,7 +153,8 @@ LEV_NUMBERS = ("lev_onset_t", "gamma_lev_final", "lesp_critical")
 LEV_PEAK_NUMBERS = ("cl_max_steps", "peaks_running_mean_s")
 GUST_NUMBERS = ("w_gust_max", "w_gust_min", "u_gust_max", "u_gust_min", "alpha_eff_max_deg")
 AIRCRAFT_NUMBERS = ("n_max", "t_n_max", "n_min", "t_n_min", "alpha_trim_deg", "cl_level", "wing_loading_N_m2",
-                    "mass_ratio_mu_g", "lift_slope_per_rad", "dn_max", "dn_min", "lift_max_N")
+                    "mass_ratio_mu_g", "lift_slope_per_rad", "apparent_mass_per_span", "mass_per_span", "dn_max",
+                    "dn_min", "lift_max_N")
 SPAN_NUMBERS = ("root_bending_max_Nm",)
 FORMULA_NUMBERS = ("dn_formula", "gust_alleviation_factor", "dn_ratio")
 #: pitch freedom (dynamics.pitch): the trim, the pitch response, the tail load; with a gust the

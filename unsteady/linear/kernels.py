@@ -96,15 +96,31 @@ _apparent_mass = njit(cache=True, fastmath=True)(theory.apparent_mass)
 
 
 @njit(cache=True, fastmath=True)
-def heave_step(cl, h, h_dot, h_ddot_prev, first, dt, n_per_cl, g):
+def heave_step(cl, h, h_dot, rest_prev, first, dt, n_per_cl, g, mu_a, d_rate):
     """One step of the free heave, m' h'' = L' - m' g (the one copy of this step).
 
-    n = n_per_cl cl (n_per_cl = kappa q c / (m' g)), h'' = g (n - 1); the rate
-    advances by second-order Adams-Bashforth (an Euler step on the ``first``
-    step) and the height by the trapezoidal rule (common practice of
-    multistep integration).  Called by :meth:`unsteady.dynamics.heave.HeaveMotion.after_step`
-    (from Python, for the vortex model and the Python march) and by
-    :func:`march_heave` (compiled); it lives here, the lowest layer both reach.
+    n = n_per_cl cl (n_per_cl = kappa q c / (m' g)), h'' = g (n - 1).  The
+    lift holds a part that answers the change of the heave rate within the
+    step, -kappa A D (A the run model's apparent mass per span, D = ``d_rate``
+    its loads' own difference of h' at this step); taken with the lift of the
+    step to drive the next rate it feeds back on itself and grows without
+    bound once mu_a = kappa A / m' is about a quarter (the model's
+    second-order difference) or a half (a first-order one), which a light
+    aircraft with a broad chord reaches (mu_a = pi/(4 mu_g) a / (2 pi), mu_g
+    the gust mass ratio).  So that part is moved to the left, the added-mass
+    partitioned scheme of fluid-structure coupling (common practice;
+    C. Förster, W. A. Wall & E. Ramm, Comput. Methods Appl. Mech. Engrg. 196,
+    2007)::
+
+        r_n = h''_n + mu_a D_n
+        (1 + mu_a) (h'_{n+1} - h'_n) / dt = 1.5 r_n - 0.5 r_{n-1}   (Euler on the ``first`` step)
+
+    second-order Adams-Bashforth on the rate and the trapezoidal rule on the
+    height (common practice of multistep integration); with mu_a = 0 it is
+    the explicit step.  Called by
+    :meth:`unsteady.dynamics.heave.HeaveMotion.after_step` (from Python, for
+    the vortex model and the Python march) and by :func:`march_heave`
+    (compiled); it lives here, the lowest layer both reach.
 
     Parameters
     ----------
@@ -112,29 +128,32 @@ def heave_step(cl, h, h_dot, h_ddot_prev, first, dt, n_per_cl, g):
         Lift coefficient of the step.
     h, h_dot : float
         Height (m) and heave rate (m/s) at the step.
-    h_ddot_prev : float
-        Heave acceleration of the previous step, m/s^2 (ignored when ``first``).
+    rest_prev : float
+        r of the previous step, m/s^2 (ignored when ``first``).
     first : bool
     dt, n_per_cl, g : float
         Step (s), load factor per unit cl, gravity (m/s^2).
+    mu_a, d_rate : float
+        kappa A / m' and the loads' difference of h' at the step (m/s^2).
 
     Returns
     -------
-    n, h_ddot, h_next, h_dot_next : float
-        Load factor and heave acceleration of the step; height and rate at the next.
+    n, h_ddot, rest, h_next, h_dot_next : float
+        Load factor, heave acceleration and r of the step; height and rate at the next.
     """
     n = n_per_cl * cl
     acc = g * (n - 1.0)
+    rest = acc + mu_a * d_rate
     if first:
-        h_dot_next = h_dot + dt * acc
+        h_dot_next = h_dot + dt * rest / (1.0 + mu_a)
     else:
-        h_dot_next = h_dot + dt * (1.5 * acc - 0.5 * h_ddot_prev)
-    return n, acc, h + 0.5 * dt * (h_dot + h_dot_next), h_dot_next
+        h_dot_next = h_dot + dt * (1.5 * rest - 0.5 * rest_prev) / (1.0 + mu_a)
+    return n, acc, rest, h + 0.5 * dt * (h_dot + h_dot_next), h_dot_next
 
 
 @njit(cache=True, fastmath=True, error_model="numpy")
 def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, f_q, f_cl, f_m, f_shift, R_w, R_k, W_w, W_k,
-                cw, dw, ck, dk, h_ddot0, dt, U, c, pivot, alpha_L0, cm0, n_per_cl, g,
+                cw, dw, ck, dk, h_ddot0, dt, U, c, pivot, alpha_L0, cm0, n_per_cl, g, mu_a,
                 h, h_dot, h_ddot, n_load, cl, cd, cm, cm_pivot, cl_c, cl_nc, cl_gust, q34):
     """March the linear model with free heave over all rows (outputs filled in place).
 
@@ -149,7 +168,8 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, f_q, f_cl, f_m, f_shif
     * apparent mass (T. Theodorsen, NACA Report 496, 1935;
       :func:`unsteady.theory.apparent_mass`), h'' from a backward difference
       of h' (row 0: ``h_ddot0``);
-    * the heave by :func:`heave_step` (as HeaveMotion.after_step);
+    * the heave by :func:`heave_step` (as HeaveMotion.after_step), ``mu_a`` its apparent mass
+      over the aircraft's, D the h'' of the apparent-mass terms;
     * a prescribed flap's terms (:func:`unsteady.linear.model.flap_terms`, zeros
       without a flap): ``f_q`` added to Q, ``f_cl`` to the apparent-mass lift,
       ``f_m`` (2 cm about the pivot) to the moment, ``f_shift`` (T10 beta / pi)
@@ -173,7 +193,7 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, f_q, f_cl, f_m, f_shif
     hc = 0.0
     hdc = 0.0
     hd_prev = 0.0
-    a_prev = 0.0
+    r_prev = 0.0
     for n in range(N):
         ad_n = alpha_dot[n]
         hdd = h_ddot0 if n == 0 else (hdc - hd_prev) / dt
@@ -233,11 +253,10 @@ def march_heave(alpha, alpha_dot, alpha_ddot, w_le, u_le, f_q, f_cl, f_m, f_shif
         cl_nc[n] = clnc
         cl_gust[n] = clg
         # heave: m' h'' = L' - m' g
-        nl, acc, h_new, hd_new = heave_step(cl_n, hc, hdc, a_prev, n == 0, dt, n_per_cl, g)
+        nl, acc, r_prev, h_new, hd_new = heave_step(cl_n, hc, hdc, r_prev, n == 0, dt, n_per_cl, g, mu_a, hdd)
         n_load[n] = nl
         h_ddot[n] = acc
         hd_prev = hdc
         hc = h_new
         hdc = hd_new
-        a_prev = acc
     return hc, hdc

@@ -398,8 +398,9 @@ class LinearMarcher:
     pitch acceleration comes from ``accel(t) -> (alpha_ddot, h_ddot)`` when
     given, else from a backward difference of the rate; the plunge
     acceleration always from a backward difference of h_dot (a free-heave
-    model knows it only through its rate; it lags one step, and its
-    apparent-mass term is small next to an aircraft's own mass).
+    model knows it only through its rate; the heave step takes the
+    apparent-mass term that this gives implicitly,
+    :func:`unsteady.linear.kernels.heave_step`).
 
     Parameters
     ----------
@@ -565,7 +566,7 @@ class LinearMarcher:
             alpha, alpha_dot, alpha_ddot, w, u, self.flap["q"], self.flap["cl_nc"], self.flap["M_nc"],
             self.flap["shift"], R_w, R_k, Ww, Wk, cw, dw, ck, dk,
             float(h_ddot_p[0]), dt, self.U, self.c, self.pivot, self.alpha_L0, self.cm0,
-            float(hc["n_per_cl"]), float(hc["g"]), *(out[k] for k in names))
+            float(hc["n_per_cl"]), float(hc["g"]), float(hc["mu_a"]), *(out[k] for k in names))
         self.motion.take_rows(out["n"], out["h_ddot"], h_end, h_dot_end)
         H = {"t": t, "alpha": alpha, "alpha_dot": alpha_dot}
         H.update(out)

@@ -128,6 +128,15 @@ class Model:
        steady lift thin-airfoil theory does not give (thick, several
        elements, a ground); None (the default) keeps 2 pi (alpha_eff -
        alpha_L0) (:func:`unsteady.analysis.lag.add_quasi_steady`).
+    8. With free heave, ``heave_apparent_mass(alpha) -> float`` is the
+       model's own apparent mass in heave (kg/m per span: the part -A h''
+       of its lift) and ``rate_difference(values, dt)`` the difference of
+       the heave rate its loads take that h'' from (the last of a short
+       history, oldest first); the runner hands both to the heave after the
+       trim (:meth:`~unsteady.dynamics.heave.HeaveMotion.set_apparent_mass`),
+       whose step takes that part implicitly.  The defaults (0, a
+       first-order difference) suit a model whose loads have no such part:
+       the step is then the explicit one.
 
     What the base class and the runner own, for every model: ``on_start(model)``
     before the march and ``on_end(model)`` after it, also when it diverges
@@ -160,6 +169,16 @@ class Model:
 
     def _march(self, observers):
         raise NotImplementedError
+
+    def heave_apparent_mass(self, alpha):
+        """The model's apparent mass in heave, kg/m per span (rule 8; default none)."""
+        return 0.0
+
+    @staticmethod
+    def rate_difference(values, dt):
+        """The difference of the heave rate the loads take h'' from (rule 8): first-order backward
+        (0 on the first row)."""
+        return (values[-1] - values[-2]) / dt if len(values) >= 2 else 0.0
 
     def quasi_steady_cl(self, alpha_eff, height):
         """The model's own quasi-steady lift (rule 7); None: thin-airfoil theory's."""
@@ -437,7 +456,12 @@ class VortexModel(Model):
         row = self._steady_loads_row(self._elements(tail_turn, tail_flap), alpha)
         return row["cl"], row["cm_pivot"]
 
-    def apparent_inertia(self, alpha):
+    def heave_apparent_mass(self, alpha):
+        """The model's own apparent mass in heave at attitude ``alpha`` (rad), kg/m per span: the
+        heave column of :meth:`apparent_inertia` (its lift's part -A h''), measured the same way."""
+        return float(self.apparent_inertia(alpha, columns=(1,))[1, 1])
+
+    def apparent_inertia(self, alpha, columns=(0, 1)):
         """The model's own apparent inertia in pitch and heave at attitude ``alpha`` (rad): a 2 x 2 matrix
         A (per span, SI) with the step's loads (M' nose-up about the pitch axis, L' up) = -A (theta'', h'')
         in their part that answers a change of the rates within the step.
@@ -449,8 +473,10 @@ class VortexModel(Model):
         A = -(dF_2 - dF_3) dt / (2 dv), from runs with +dv and -dv (the quadratic part cancels).  What
         remains of the difference (the circulatory part of the response, of order U dt / c of it) is left
         in the estimate.  It is what the added-mass partitioned step of the pitch freedom needs
-        (:func:`unsteady.dynamics.pitch.pitch_heave_step`).  Rates: 1e-3 U over the farthest element
-        point from the axis for theta', 1e-3 U for h'.
+        (:func:`unsteady.dynamics.pitch.pitch_step`) and the free heave
+        (:func:`unsteady.linear.kernels.heave_step`).  Rates: 1e-3 U over the farthest element point
+        from the axis for theta', 1e-3 U for h'; ``columns`` the ones to measure (0 pitch, 1 heave;
+        the others are left zero).
         """
         sc = self.sc
         U, dt = sc.speed, sc.dt
@@ -460,6 +486,8 @@ class VortexModel(Model):
         ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
         A = np.zeros((2, 2))
         for k, dv in ((0, 1e-3 * U / reach), (1, 1e-3 * U)):
+            if k not in columns:
+                continue
             f = []
             for sign in (1.0, -1.0):
                 obs = _AllLoads()
@@ -588,6 +616,19 @@ class LinearModel(Model):
         self.march_options = march_options
         self._trim_model = None
         self._gust_at_start = None
+
+    # rate_difference: the base class's first-order difference, the plunge acceleration of the
+    # march's apparent-mass terms (unsteady.linear.model.LinearMarcher)
+
+    def heave_apparent_mass(self, alpha):
+        """Theodorsen's apparent mass of the section in heave, pi rho b^2 per span (kg/m), from the
+        march's own apparent-mass terms (:func:`unsteady.theory.apparent_mass`: the lift per unit
+        h'', on the chord's q c); ``alpha`` is not needed (linear)."""
+        from .. import theory
+        sc = self.sc
+        b, U = 0.5 * sc.chord, sc.speed
+        q_c = 0.5 * sc.density * U * U * sc.chord
+        return float(-q_c * theory.apparent_mass(-b / (U * U), 0.0, 0.0, 2.0 * sc.pivot - 1.0)[0])
 
     def steady_cl(self, alpha, alpha_dot):
         """The vortex model's steady lift (:meth:`VortexModel.steady_cl`), on purpose.
@@ -727,4 +768,5 @@ def linear_heave_marcher(sc, **options):
     gust = build_gust_field(sc) if sc.data.get("gust") else None
     model = LinearModel(sc, gust, HeaveMotion(sc, sc.kinematics), **options)
     model.motion.trim(model.steady_cl)
+    model.motion.set_apparent_mass(model.heave_apparent_mass(model.motion.alpha_trim), model.rate_difference)
     return model.marcher()

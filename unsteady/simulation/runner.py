@@ -110,6 +110,7 @@ def simulate(scenario, observers=(), *, progress=False, label="run"):
         heave.set_apparent_inertia(model.apparent_inertia(heave.alpha_trim), model.rate_difference)
     elif heave is not None:
         heave.trim(model.steady_cl)
+        heave.set_apparent_mass(model.heave_apparent_mass(heave.alpha_trim), model.rate_difference)
     builtin = ([GustObserver(gust, sc)] if gust is not None else []) + ([heave] if heave is not None else [])
     columns = list(model.COLUMNS)                # a model may add columns for its scenario
     for o in builtin:
@@ -206,6 +207,7 @@ def _heave_only_companion(sc, cls, gust, pitched, history, summary, progress):
     held = HeldAttitudeHeave(sc, sc.kinematics, pitched)
     model = cls(sc, gust, held)
     model.set_tail_turn(*pitched.tail_control)
+    held.set_apparent_mass(pitched.apparent_mass, model.rate_difference)
     rec = HistoryRecorder(sc.steps, sc.speed, sc.chord, list(model.COLUMNS))
     obs = [rec] + ([StepProgress(sc.steps, label="heave-only run")] if progress else [])
     error = model.run(obs)
