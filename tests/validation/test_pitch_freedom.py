@@ -227,7 +227,7 @@ def test_partitioned_step_keeps_an_oscillator_with_a_heavy_apparent_inertia():
 
 def test_large_tail_far_aft_is_bounded_and_step_converged():
     # A tail as large as the wing 12 chords aft on 5 kg m^2 (its apparent pitch inertia a quarter of the
-    # aircraft's): the explicit step ran away at t = 0.22 s (0.12 s at half the step).  Now the run
+    # aircraft's): the explicit step ran away at t = 0.25 s (0.15 s at half the step).  Now the run
     # is bounded and converged in the step (halving it moves n_max by 0.02 % and the pitch change by
     # 0.02 %, measured; bounds 0.2 % and 0.5 %; common practice of step studies).
     r = raw(inertia=5.0, chords=40)
