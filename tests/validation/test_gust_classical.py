@@ -114,7 +114,7 @@ def test_light_wing_heave_stays_bounded_and_agrees_with_the_indicial_model(W_S):
     # A light wing of broad chord (mass ratio mu_g 0.53 and 0.13, W/S 10 and 2.5 N/m^2 on 0.5 m): its
     # apparent mass is a third and more of its mass, and the heave step with the lift of the step
     # alone grew without bound (the vortex model at mu_g 0.53, the linear one at 0.26).  Both models
-    # now stay bounded and their peaks agree within 0.3 % (measured 0.06 %): the linear model is the
+    # now stay bounded and their peaks agree within 0.3 % (measured 0.067 % and 0.059 %): the linear model is the
     # indicial theory with the apparent mass (Wagner, ZAMM 5, 1925; Kuessner 1936; Theodorsen,
     # NACA Report 496, 1935), each part checked against its published values in test_linear_classical.
     dn_v, mu, _ = _light_wing(W_S, "vortex")
@@ -127,7 +127,7 @@ def test_wing_far_lighter_than_its_apparent_mass_rides_the_gust():
     # Newton's second law: a wing of negligible mass (mu_g 0.008) cannot carry lift, so it moves with
     # the air, h'' -> the gust's dw/dt, and n - 1 = h''/g peaks at pi U_de U / (H g) in a 1-cosine gust
     # of length H (long here: 12.5 chords, so that the lag of the circulation is small).  The linear
-    # model within 0.5 % (measured -0.1 %); the vortex model within 5 % (measured -3.9 %: the discrete
+    # model within 0.5 % (measured -0.12 %); the vortex model within 5 % (measured -3.9 %: the discrete
     # wake's response when the aerodynamic forces carry the whole motion; at mu_g 0.03 -3.4 %).
     dn_l, mu, limit = _light_wing(0.15, "linear")
     assert mu < 0.01

@@ -205,10 +205,10 @@ def test_partitioned_step_keeps_an_oscillator_with_a_heavy_apparent_inertia():
     def fly(apparent):
         theta, v, rates, rest, out = 1.0, 0.0, [], None, []
         for n in range(1000):
-            rates.append((v, 0.0))
+            rates.append(v)
             del rates[:-3]
-            load = -k * theta - A * backward_derivative([r[0] for r in rates], dt)
-            v_next, rest = pitch_step(load / I, rates, rest, dt, I, apparent, 0.0, backward_derivative)
+            load = -k * theta - A * backward_derivative(rates, dt)
+            v_next, rest = pitch_step(load / I, rates, 0.0, rest, dt, I, apparent, 0.0, backward_derivative)
             theta += 0.5 * dt * (v + v_next)
             v = v_next
             out.append(theta)

@@ -21,6 +21,8 @@ Sources, each named beside its check:
 """
 
 import math
+import sys
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -28,13 +30,16 @@ import pytest
 from unsteady import load_scenario, simulate
 from unsteady.theory import flap
 
+sys.path.insert(0, str(Path(__file__).parent))
+from test_pitch_freedom import raw  # noqa: E402  (the aircraft of the pitch-freedom checks)
+
 U, RHO, C = 15.0, 1.2, 0.25
 
 
-def _steady(raw):
-    raw.setdefault("run", {"chords": 0.05})
-    raw.setdefault("output", {"dir": "/tmp/never-written", "plots": False})
-    return simulate(load_scenario(raw)).history
+def _steady(data):
+    data.setdefault("run", {"chords": 0.05})
+    data.setdefault("output", {"dir": "/tmp/never-written", "plots": False})
+    return simulate(load_scenario(data)).history
 
 
 @pytest.mark.parametrize("hinge", [0.6, 0.8])
@@ -66,18 +71,12 @@ def test_far_element_flap_is_the_element_alone_and_glauert(hinge):
 
 
 def aircraft(hinge=0.7, inertia=0.15, gust=True, chords=30, tail_incidence=-2.0, **more):
-    tail = {"shape": "flat", "chord": 0.12, "elements": 8, "position": [0.9, 0.05],
-            "incidence": tail_incidence}
+    """The wing and tail of tests/validation/test_pitch_freedom.py, the tail's flap hinged at ``hinge``."""
+    r = raw(inertia=inertia, gust=gust, chords=chords, tail_incidence=tail_incidence)
+    tail = r["airfoil"][1]
     if hinge is not None:
         tail["flap_hinge"] = hinge
     tail.update(more)
-    r = {"flow": {"speed": U, "density": RHO},
-         "airfoil": [{"shape": "naca2412", "thick": False, "chord": C, "elements": 16}, tail],
-         "aircraft": {"mass": 3.0, "wing_area": 0.55, "pitch_inertia": inertia, "cg": 0.3},
-         "run": {"chords": chords, "far_wake": 30},
-         "output": {"dir": "/tmp/never-written", "plots": False}}
-    if gust:
-        r["gust"] = {"profile": "one-minus-cosine", "amplitude": 3.0, "length": 25 * C, "arrival": 0.02}
     return r
 
 

@@ -152,9 +152,3 @@ def lesp_warnings(history, sc):
                    f"would separate at {'its' if name else 'the'} leading edge; set {prefix}lesp_critical to "
                    f"let the vortex model shed there")
     return out
-
-
-def lesp_warning(history, sc):
-    """The first of :func:`lesp_warnings`, or None (a single element's one warning)."""
-    w = lesp_warnings(history, sc)
-    return w[0] if w else None

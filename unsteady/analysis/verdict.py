@@ -65,7 +65,8 @@ import math
 import numpy as np
 
 from ..inputs.estimates import angle_text, motion_key
-from .shedding import critical_value, element_criticals, lesp_warnings
+from ..inputs.elements import sheds_anywhere
+from .shedding import critical_value, lesp_warnings
 from .summary import impulse_mask, running_mean
 
 #: |cl| beyond which a real section would have stalled (common practice, see module docstring).
@@ -117,7 +118,7 @@ def measured_warnings(history, sc, summary, snapshots=None):
     lag = summary["lag"]
     v = lag["validity"]
     sheds = critical_value(sc) is not None          # the first element's (its effective angle)
-    sheds_any = any(c is not None for c in element_criticals(sc))
+    sheds_any = sheds_anywhere(sc.data.get("airfoil", {}))
     a_max = abs(lag.get("peak_effective_alpha_deg", 0.0))
     if not sheds and a_max > v["alpha_eff_limit_deg"]:
         i = int(np.nanargmax(np.abs(history["alpha_eff_deg"])))
@@ -250,7 +251,7 @@ def wake_through_elements(snapshots, sc):
     from ..vortex.elements import CrossingGuard, build_elements
     guard = CrossingGuard([getattr(m, "geometry", m) for m in build_elements(sc)[1:]])
     first = {}
-    for k, (t, x, z, al, h, lev) in enumerate(_wake_snapshots(snapshots)):
+    for t, x, z, al, h, lev in _wake_snapshots(snapshots):
         for i, (s, d, L) in enumerate(guard.offsets(x, z, al, h), start=2):
             if i in first:
                 continue

@@ -96,10 +96,11 @@ class HeaveMotion:
         self.alpha_trim = None
         self.h = 0.0
         self.h_dot = 0.0
-        self.a_prev = None
         self.rest_prev = 0.0
-        self.h_rates = []
-        self.mu_a = None                  # set by set_apparent_mass()
+        self.h_rates = []                 # h' of the last steps, oldest first (the difference's input)
+        self.h_diff = 0.0                 # the loads' difference of h' at the last step (m/s^2)
+        self.apparent_mass = None         # set by set_apparent_mass()
+        self.mu_a = None
         self.difference = None
         self.n_rows = []
         self.a_rows = []
@@ -171,21 +172,20 @@ class HeaveMotion:
         n, a = self._heave(dt, loads)
         self.n_rows.append(n)
         self.a_rows.append(a)
-        self.a_prev = a
 
     def _heave(self, dt, loads):
         """The heave from t to t + dt (:func:`unsteady.linear.kernels.heave_step`); returns (n, h'')."""
         if self.mu_a is None:
             raise RuntimeError("HeaveMotion.set_apparent_mass(A, difference) must run before the march")
-        first = self.a_prev is None
+        first = not self.h_rates
         self.h_rates.append(self.h_dot)
         del self.h_rates[:-3]
+        self.h_diff = float(self.difference(self.h_rates, dt))
         # the step's Python source as it stands (plain IEEE arithmetic; the compiled
         # form may fuse multiply-adds, which the vortex histories need not see)
         n, a, self.rest_prev, self.h, self.h_dot = heave_step.py_func(
             float(loads["cl"]), self.h, self.h_dot, self.rest_prev, first, dt, self.n_per_cl, G,
-            self.mu_a, float(self.difference(self.h_rates, dt)))
-        self.a_prev = a
+            self.mu_a, self.h_diff)
         return n, a
 
     # -- for a compiled march (unsteady.linear.kernels.march_heave) -----------
@@ -209,7 +209,6 @@ class HeaveMotion:
         self.n_rows = list(np.asarray(n, dtype=float))
         self.a_rows = list(np.asarray(h_ddot, dtype=float))
         self.h, self.h_dot = float(h_end), float(h_dot_end)
-        self.a_prev = self.a_rows[-1] if self.a_rows else None
 
     # -- for the runner, after the march ------------------------------------
     def finish(self, history):
@@ -230,7 +229,7 @@ class HeaveMotion:
             "mass_ratio_mu_g": mu_g,
             "lift_slope_per_rad": lift_slope,
             # the run model's own apparent mass in heave (kg/m, per span) beside the wing's mass per span
-            "apparent_mass_per_span": getattr(self, "apparent_mass", None),
+            "apparent_mass_per_span": self.apparent_mass,
             "mass_per_span": self.m_span,
             "lift_scaling": (f"section lift scaled by kappa = {self.kappa:.4f} (Helmbold slope for aspect ratio "
                              f"{self.sc.data['aircraft']['aspect_ratio']:g} over 2 pi); unsteady finite-wing "

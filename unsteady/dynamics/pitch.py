@@ -76,7 +76,7 @@ class PitchRunaway(RunStopped):
         self.step, self.t = step, t
 
 
-def pitch_step(acc, rates, rest_prev, dt, inertia, apparent, heave_accel, difference):
+def pitch_step(acc, rates, d_h, rest_prev, dt, inertia, apparent, heave_accel, difference):
     """One step of the free pitch, the model's apparent pitch inertia taken implicitly.
 
     The pitch equation (module docstring), I' theta'' = M'.  The step's moment holds a part that
@@ -102,8 +102,10 @@ def pitch_step(acc, rates, rest_prev, dt, inertia, apparent, heave_accel, differ
     ----------
     acc : float
         M'_n / I' (rad/s^2).
-    rates : list of (theta', h')
-        The rates of the steps so far, oldest first (the last three are used); the last is this step's.
+    rates : list of float
+        theta' of the steps so far, oldest first (the last three are used); the last is this step's.
+    d_h : float
+        D_h,n, the loads' difference of h' at this step (m/s^2; the heave's, ``HeaveMotion.h_diff``).
     rest_prev : float or None
         The previous step's M_rest / I' (None on the first step).
     dt, inertia : float
@@ -120,11 +122,9 @@ def pitch_step(acc, rates, rest_prev, dt, inertia, apparent, heave_accel, differ
         theta' at the next step, and this step's M_rest / I'.
     """
     a_tt, a_th = apparent
-    d_theta = difference([r[0] for r in rates[-3:]], dt)
-    d_h = difference([r[1] for r in rates[-3:]], dt)
-    rest = acc + (a_tt * d_theta + a_th * d_h) / inertia
+    rest = acc + (a_tt * difference(rates[-3:], dt) + a_th * d_h) / inertia
     drive = rest if rest_prev is None else 1.5 * rest - 0.5 * rest_prev
-    return rates[-1][0] + dt * (inertia * drive - a_th * heave_accel) / (inertia + a_tt), rest
+    return rates[-1] + dt * (inertia * drive - a_th * heave_accel) / (inertia + a_tt), rest
 
 
 class PitchHeaveMotion(HeaveMotion):
@@ -156,7 +156,7 @@ class PitchHeaveMotion(HeaveMotion):
         self.theta_dot = 0.0
         #: (A_tt, A_th), the pitch row of the model's apparent inertia (:meth:`set_apparent_inertia`)
         self.apparent = None
-        self.rates = []
+        self.theta_rates = []             # theta' of the last steps, oldest first
         self.pitch_rest_prev = None
         self.pa_rows = []
         self.tail_rows = []
@@ -251,12 +251,13 @@ class PitchHeaveMotion(HeaveMotion):
         if self.apparent is None:
             raise RuntimeError("PitchHeaveMotion.set_apparent_inertia(A, difference) must run before the march")
         h_dot = self.h_dot
-        self.rates.append((self.theta_dot, h_dot))
-        del self.rates[:-3]
+        self.theta_rates.append(self.theta_dot)
+        del self.theta_rates[:-3]
         n, a = self._heave(dt, loads)
         m = self.m_per_cm * float(loads["cm_pivot"])      # the pitch axis is the centre of gravity
-        rate_next, self.pitch_rest_prev = pitch_step(m, self.rates, self.pitch_rest_prev, dt, self.I_span,
-                                                     self.apparent, (self.h_dot - h_dot) / dt, self.difference)
+        rate_next, self.pitch_rest_prev = pitch_step(m, self.theta_rates, self.h_diff, self.pitch_rest_prev, dt,
+                                                     self.I_span, self.apparent, (self.h_dot - h_dot) / dt,
+                                                     self.difference)
         self.theta += 0.5 * dt * (self.theta_dot + rate_next)
         self.theta_dot = rate_next
         self.n_rows.append(n)

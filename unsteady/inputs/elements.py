@@ -21,7 +21,8 @@ from ..core.errors import InputError
 from .checks import integer, number, text, unknown_keys
 from .thick import DEFAULT_PANELS
 
-__all__ = ["check_further_elements", "element_problems", "lesp_criticals", "placed_outline", "sheds_anywhere",
+__all__ = ["check_further_elements", "element_problems", "flap_turn", "lesp_criticals", "place_points",
+           "placed_outline", "sheds_anywhere",
            "MAX_ELEMENTS", "MAX_INCIDENCE_DEG"]
 
 #: At most this many elements in one flow.
@@ -155,6 +156,23 @@ def placed_outline(section, n, chord, incidence_deg, position, lower_only=False)
     x, z = surface_nodes(section, n)
     if lower_only:
         x, z = x[:n // 2 + 1], z[:n // 2 + 1]
+    return place_points(x, z, chord, incidence_deg, position)
+
+
+def flap_turn(x, z, section, hinge, beta):
+    """Turn the chord-fraction points (x, z) aft of ``hinge`` (fraction of the chord, on the camber
+    line) by ``beta`` (rad, trailing edge down) about the hinge, in place."""
+    import numpy as np
+    z_h = float(np.asarray(section.camber(np.array([hinge])), float)[0])
+    aft = x > hinge
+    dx, dz = x[aft] - hinge, z[aft] - z_h
+    x[aft] = hinge + dx * math.cos(beta) + dz * math.sin(beta)
+    z[aft] = z_h - dx * math.sin(beta) + dz * math.cos(beta)
+
+
+def place_points(x, z, chord, incidence_deg, position):
+    """Chord-fraction points (x, z) of an element turned nose-up by ``incidence_deg`` about its leading
+    edge (the body frame's convention, vortex.bodies.to_inertial) and set at ``position`` (m)."""
     a = math.radians(incidence_deg)
     ca, sa = math.cos(a), math.sin(a)
     return (position[0] + chord * (x * ca + z * sa), position[1] + chord * (-x * sa + z * ca))
@@ -182,17 +200,8 @@ def placed_nodes(section, n, chord, incidence_deg, position, flap=None):
         x = np.unique(np.append(x, float(flap[0])))
     z = np.asarray(section.camber(x), float)
     if flap is not None and flap[1]:
-        xh = float(flap[0])
-        zh = float(np.asarray(section.camber(np.array([xh])), float)[0])
-        b = math.radians(flap[1])
-        aft = x > xh
-        dx, dz = x[aft] - xh, z[aft] - zh
-        x[aft] = xh + dx * math.cos(b) + dz * math.sin(b)
-        z[aft] = zh - dx * math.sin(b) + dz * math.cos(b)
-    a = math.radians(incidence_deg)
-    ca, sa = math.cos(a), math.sin(a)
-    # nose-up turn about the leading edge (the body frame's convention, vortex.bodies.to_inertial)
-    return (position[0] + chord * (x * ca + z * sa), position[1] + chord * (-x * sa + z * ca))
+        flap_turn(x, z, section, float(flap[0]), math.radians(flap[1]))
+    return place_points(x, z, chord, incidence_deg, position)
 
 
 def _orient(a, b, c):

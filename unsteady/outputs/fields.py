@@ -279,6 +279,7 @@ def element_outlines(sc, alpha, h, n=81, x_shift=0.0, flap=None, more_flaps=None
     ``more_flaps`` (one per further element, ``(hinge, beta)`` or None; :func:`element_flaps_at`)
     turns a further element's outline aft of its hinge."""
     out = [airfoil_outline(sc.section, sc.chord, sc.pivot, alpha, h, n=n, x_shift=x_shift, flap=flap)]
+    from ..inputs.elements import flap_turn
     from ..inputs.sections import section_from_shape
     for i, el in enumerate(sc.data["airfoil"].get("_more", ())):
         section = section_from_shape(el["shape"], sc.base_dir)
@@ -287,12 +288,7 @@ def element_outlines(sc, alpha, h, n=81, x_shift=0.0, flap=None, more_flaps=None
         zf = np.concatenate([zu, zl[::-1]])
         fl = more_flaps[i] if more_flaps is not None and i < len(more_flaps) else None
         if fl is not None and fl[1] != 0.0:
-            hinge, beta = float(fl[0]), float(fl[1])
-            z_h = float(np.asarray(section.camber(np.array([hinge])), float)[0])
-            aft = xf > hinge
-            dx, dz = xf[aft] - hinge, zf[aft] - z_h
-            xf[aft] = hinge + dx * math.cos(beta) + dz * math.sin(beta)
-            zf[aft] = z_h - dx * math.sin(beta) + dz * math.cos(beta)
+            flap_turn(xf, zf, section, float(fl[0]), float(fl[1]))
         xf, zf = xf * el["chord"], zf * el["chord"]
         xi, zeta = to_inertial(xf, zf, math.radians(el["incidence"]), 0.0)   # turned about its leading edge
         x, z = to_inertial(xi + el["position"][0] - sc.pivot * sc.chord, zeta + el["position"][1],

@@ -875,11 +875,10 @@ class FilmRenderer:
         zeta = np.asarray(f.snap["z_surface"], dtype=float) * f.c
         k = int(f.snap["cp_element"]) if "cp_element" in f.snap else 1
         if k > 1:                               # a further element of [[airfoil]]: placed as the solver places it
+            from ..inputs.elements import place_points
             el = f.sc.data["airfoil"]["_more"][k - 2]
-            xs, zs = xi / f.c + f.pivot, zeta / f.c
-            b = math.radians(el["incidence"])
-            xi = el["position"][0] - f.pivot * f.c + el["chord"] * (xs * math.cos(b) + zs * math.sin(b))
-            zeta = el["position"][1] + el["chord"] * (-xs * math.sin(b) + zs * math.cos(b))
+            x, zeta = place_points(xi / f.c + f.pivot, zeta / f.c, el["chord"], el["incidence"], el["position"])
+            xi = x - f.pivot * f.c
         tx, tz = np.roll(xi, -1) - np.roll(xi, 1), np.roll(zeta, -1) - np.roll(zeta, 1)
         norm = np.hypot(tx, tz)
         nx, nz = -tz / norm, tx / norm          # outward: the points run clockwise

@@ -9,7 +9,7 @@ from ..dynamics.heave import HeaveMotion
 from ..inputs import scenario
 from ..inputs.gusts import build_gust_field
 from ..inputs.sections import camber_elements
-from ..inputs.elements import lesp_criticals
+from ..inputs.elements import lesp_criticals, sheds_anywhere
 from ..linear import model as linear
 from ..linear.model import _gust_series, linear_loads, section_constants
 from ..vortex.bodies import as_body_models
@@ -358,7 +358,7 @@ class VortexModel(Model):
         self.ground = (None if not gr else
                        Ground(float(sc.kinematics.plunge.value(0.0)) - gr["height"]))
         crit = lesp_criticals(sc.data["airfoil"])
-        self.COLUMNS = (("lesp", "gamma_lev") if any(c is not None for c in crit)
+        self.COLUMNS = (("lesp", "gamma_lev") if sheds_anywhere(sc.data["airfoil"])
                         else ("lesp",)) + (("flap_deg", "ch") if sc.flap_law is not None else ()) + (
             ("ground_clearance_m",) if self.ground is not None else ()) + (
             tuple(f"{q}_{i}" for i in range(1, len(more) + 2) for q in ("cl", "cd", "cm")) if more else ()) + (
@@ -378,10 +378,14 @@ class VortexModel(Model):
         obs = _AllLoads()
         g = self.gust if gust and self.gust is not None and self.gust.present_at_start else None
         if ground == "run":
-            ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
+            ground = self._ground_at_rest()
         VortexSolver(body, _Fixed(float(alpha), alpha_dot), speed=sc.speed, density=sc.density,
                      dt=sc.dt, steps=0, start="steady", gust=g, ground=ground).run([obs])
         return obs.rows[-1]
+
+    def _ground_at_rest(self):
+        """The run's ground for a body whose pitch axis sits at h = 0 (a steady start, a probe), or None."""
+        return None if self.ground is None else Ground(-self.sc.data["ground"]["height"])
 
     def steady_cl(self, alpha, alpha_dot):
         """cl of the solver's steady start at a fixed attitude (step 0 at t = 0, no wake shed
@@ -481,9 +485,8 @@ class VortexModel(Model):
         sc = self.sc
         U, dt = sc.speed, sc.dt
         q, c = 0.5 * sc.density * U * U, sc.chord
-        bodies = self.body if isinstance(self.body, list) else [self.body]
-        reach = max(float(np.max(np.hypot(m.geometry.xi_c, m.geometry.zeta_c))) for m in as_body_models(bodies))
-        ground = None if self.ground is None else Ground(-sc.data["ground"]["height"])
+        reach = max(float(np.max(np.hypot(m.geometry.xi_c, m.geometry.zeta_c))) for m in as_body_models(self.body))
+        ground = self._ground_at_rest()
         A = np.zeros((2, 2))
         for k, dv in ((0, 1e-3 * U / reach), (1, 1e-3 * U)):
             if k not in columns:

@@ -501,11 +501,12 @@ class ElementImpulseLoads:
             xs = np.concatenate((s.xv[sl], wx[wm]))
             zs = np.concatenate((s.zv[sl], wz[wm]))
             gs = np.concatenate((s.gamma[sl], wg[wm]))
-            far_b = float(fg[np.isin(fsite, self.sites[b])].sum())
+            mine = np.isin(fsite, self.sites[b])   # its own far-wake lumps
+            far_b = float(fg[mine].sum())
             Fx, Fz, _, self.hist[b] = impulse_loads(self.hist[b], s.t, 0.0, 0.0, xs, zs, gs,
                                                     self.start[b] + far_b, solver.U, solver.rho, solver.dt)
             if far.n:                            # the other elements' far-wake lumps pull on its bound vortices
-                fo = ~np.isin(fsite, self.sites[b])
+                fo = ~mine
                 fx_, fz_ = _pull(s.xv[sl], s.zv[sl], s.gamma[sl], far.x[:far.n][fo], far.z[:far.n][fo], fg[fo],
                                  solver.r_c)
                 Fx, Fz = Fx + rho * fx_, Fz + rho * fz_

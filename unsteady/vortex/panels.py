@@ -368,9 +368,15 @@ class SurfaceLoads:
         N = self.body.n
         wx, wz, wg = solver.store.wake()
         fx, fz, fg = solver.far.views()
-        xc = np.concatenate((s.xv[:N + 1], wx[::-1], fx[::-1]))
-        zc = np.concatenate((s.zv[:N + 1], wz[::-1], fz[::-1]))
-        gam = np.concatenate((G, wg[::-1], fg[::-1]))
+        return self._chain(s.xc[:N], s.zc[:N], np.concatenate((s.xv[:N + 1], wx[::-1], fx[::-1])),
+                           np.concatenate((s.zv[:N + 1], wz[::-1], fz[::-1])),
+                           np.concatenate((G, wg[::-1], fg[::-1])), wx.shape[0], solver)
+
+    def _chain(self, xt, zt, px, pz, gam, n_wake, solver):
+        """The potential at this body's mid-points ``xt, zt`` of its chain: its nodes, then ``n_wake``
+        wake vortices (newest first) and the far-wake lumps (``px, pz, gam`` in that order), with the
+        ray to x = +infinity; returns (phi, the chain's strength on each panel)."""
+        N = self.body.n
         total = -np.cumsum(gam)
         mu = np.ascontiguousarray(total[:-1])
         tail = float(total[-1])
@@ -378,23 +384,23 @@ class SurfaceLoads:
         # NEAR_WAKE_CHORDS of wake at every mid-point; the older wake, whose potential is smooth
         # over the body, at every COARSE-th mid-point and interpolated
         phi = self._angles @ mu[:N]
-        cut = N + 1 + min(wx.shape[0], NEAR_WAKE_CHORDS * solver.lump_n)
-        whole = cut >= xc.shape[0] - 1
-        end = xc.shape[0] if whole else cut + 1
-        chain_potential(s.xc[:N], s.zc[:N], self._none_all, xc[N:end], zc[N:end], mu[N:end - 1],
-                        tail if whole else 0.0, self._phi)
+        cut = N + 1 + min(n_wake, NEAR_WAKE_CHORDS * solver.lump_n)
+        whole = cut >= px.shape[0] - 1
+        end = px.shape[0] if whole else cut + 1
+        chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:end]), np.ascontiguousarray(pz[N:end]),
+                        np.ascontiguousarray(mu[N:end - 1]), tail if whole else 0.0, self._phi)
         z_g = solver.z_g
         if z_g is not None:                        # the ground: the image of the body's and near wake's chain
-            chain_image_potential(s.xc[:N], s.zc[:N], xc[:end], zc[:end], mu[:end - 1],
-                                  tail if whole else 0.0, z_g, self._phi)
+            chain_image_potential(xt, zt, px[:end], pz[:end], mu[:end - 1], tail if whole else 0.0, z_g,
+                                  self._phi)
         phi += self._phi
         if not whole:
             far = np.empty(self._coarse.shape[0])
-            fx, fz, fm = (np.ascontiguousarray(a[cut:]) for a in (xc, zc, mu))
-            xt, zt = s.xc[self._coarse], s.zc[self._coarse]
-            chain_potential(xt, zt, self._none, fx, fz, fm, tail, far)
+            qx, qz, qm = (np.ascontiguousarray(a[cut:]) for a in (px, pz, mu))
+            xq, zq = xt[self._coarse], zt[self._coarse]
+            chain_potential(xq, zq, self._none, qx, qz, qm, tail, far)
             if z_g is not None:
-                chain_image_potential(xt, zt, fx, fz, fm, tail, z_g, far)
+                chain_image_potential(xq, zq, qx, qz, qm, tail, z_g, far)
             phi += np.interp(self._index, self._coarse, far)
         return phi, mu[:N]
 
@@ -432,33 +438,10 @@ class SurfaceLoads:
         wm = np.isin(solver.store.site[:wx.shape[0]], own_sites)
         fm = np.isin(solver.far.site[:fx.shape[0]], own_sites)
         z_g = solver.z_g
-        # this body's chain
-        px = np.concatenate((s.xv[sl], wx[wm][::-1], fx[fm][::-1]))
-        pz = np.concatenate((s.zv[sl], wz[wm][::-1], fz[fm][::-1]))
-        gam = np.concatenate((G, wg[wm][::-1], fg[fm][::-1]))
-        total = -np.cumsum(gam)
-        mu = np.ascontiguousarray(total[:-1])
-        tail = float(total[-1])
-        phi = self._angles @ mu[:N]
-        # the newest NEAR_WAKE_CHORDS of its wake at every mid-point, the older at every COARSE-th
-        # and interpolated, as :meth:`potential`
-        cut = N + 1 + min(int(wm.sum()), NEAR_WAKE_CHORDS * solver.lump_n)
-        whole = cut >= px.shape[0] - 1
-        end = px.shape[0] if whole else cut + 1
-        part = np.empty(N)
-        chain_potential(xt, zt, self._none_all, np.ascontiguousarray(px[N:end]), np.ascontiguousarray(pz[N:end]),
-                        np.ascontiguousarray(mu[N:end - 1]), tail if whole else 0.0, part)
-        if z_g is not None:
-            chain_image_potential(xt, zt, px[:end], pz[:end], mu[:end - 1], tail if whole else 0.0, z_g, part)
-        phi += part
-        if not whole:
-            far = np.empty(self._coarse.shape[0])
-            qx, qz, qm = (np.ascontiguousarray(a[cut:]) for a in (px, pz, mu))
-            xq, zq = xt[self._coarse], zt[self._coarse]
-            chain_potential(xq, zq, self._none, qx, qz, qm, tail, far)
-            if z_g is not None:
-                chain_image_potential(xq, zq, qx, qz, qm, tail, z_g, far)
-            phi += np.interp(self._index, self._coarse, far)
+        # this body's chain through its own site's wake, as :meth:`potential`
+        phi, mu = self._chain(xt, zt, np.concatenate((s.xv[sl], wx[wm][::-1], fx[fm][::-1])),
+                              np.concatenate((s.zv[sl], wz[wm][::-1], fz[fm][::-1])),
+                              np.concatenate((G, wg[wm][::-1], fg[fm][::-1])), int(wm.sum()), solver)
         # every other vortex, each with its own cut away from this body
         others = np.ones(s.xv.shape[0], dtype=bool)
         others[sl] = False
@@ -469,7 +452,7 @@ class SurfaceLoads:
         ca, sa = np.cos(s.alpha), np.sin(s.alpha)
         ray_vortex_potential(xt, zt, ox, oz, og, cx * ca + cz * sa, s.h - cx * sa + cz * ca,
                              0.0 if z_g is None else z_g, z_g is not None, phi)
-        return phi, mu[:N]
+        return phi, mu
 
     def add_step(self, solver, s, sl):
         """This step's loads of the body in slice ``sl`` of the step record ``s`` (a loads dict)."""

@@ -377,8 +377,7 @@ class VortexSolver:
         self._split = (ElementImpulseLoads(self) if len(self.models) > 1
                        and any(hasattr(m, "influence_matrix") for m in self.models) else None)
         self._soft_cache = (None, None)      # (clock, wake size) -> soft indices
-        self._nodes = None                    # the first body's camber-line nodes (xi, zeta), m
-        self._further_nodes = {}              # the same of further bodies whose leading edge sheds
+        self._nodes = {}                      # body -> its camber-line nodes (xi, zeta), m (_camber_frame)
         #: core (m) through which soft-site vortices and the bodies meet (see _soften)
         self.r_soft = max(self.r_c, SOFT_CORE_ELEMENTS * self.body.chord / self.models[0].n)
         #: sites whose vortices meet the bodies through the wake's core (see _soften)
@@ -706,7 +705,7 @@ class VortexSolver:
             near = idx[np.abs(wx[idx]) + np.abs(wz[idx] - s.h) < reach]
         else:
             # a further element: those within its chord of its camber line
-            g = self.models[body].geometry
+            g = self._camber(body)
             xi, dz = self._camber_frame(wx[idx], wz[idx], s.alpha, s.h, body)
             near = idx[(xi > g.xi_0[0] - g.chord) & (xi < g.xi_te + g.chord) & (np.abs(dz) < g.chord)]
         if near.size == 0:
@@ -730,7 +729,7 @@ class VortexSolver:
         alpha, _, h, _ = self.motion.state(s.t + self.dt)
         wx, wz, _ = self.store.wake()
         xi, dz = self._camber_frame(wx[idx], wz[idx], alpha, h, body)
-        b = self.body if body == 0 else self.models[body].geometry
+        b = self._camber(body)
         over = (xi > b.xi_0[0]) & (xi < b.xi_te)
         crossed = over & (np.sign(dz) != side) & (side != 0)
         if not crossed.any():
@@ -742,22 +741,21 @@ class VortexSolver:
         wx[j] += shift * sa
         wz[j] += shift * ca
 
+    def _camber(self, body):
+        """The camber line the soft vortices are kept off: the first body's as built, a further one's."""
+        return self.body if body == 0 else self.models[body].geometry
+
     def _camber_frame(self, x, z, alpha, h, body=0):
         """Body-frame xi (m) of points and their height above a body's (the first's) camber line (m)."""
-        b = self.body
         ca, sa = math.cos(alpha), math.sin(alpha)
         dx, dzz = x, z - h
         xi = dx * ca - dzz * sa
         zeta = dx * sa + dzz * ca
-        if body != 0:
-            nodes = self._further_nodes.get(body)
-            if nodes is None:
-                g = self.models[body].geometry
-                nodes = self._further_nodes[body] = (np.append(g.xi_0, g.xi_te), np.append(g.zeta_0, g.zeta_te))
-            return xi, zeta - np.interp(xi, *nodes)
-        if self._nodes is None:
-            self._nodes = (np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te))
-        return xi, zeta - np.interp(xi, *self._nodes)
+        nodes = self._nodes.get(body)
+        if nodes is None:
+            b = self._camber(body)
+            nodes = self._nodes[body] = (np.append(b.xi_0, b.xi_te), np.append(b.zeta_0, b.zeta_te))
+        return xi, zeta - np.interp(xi, *nodes)
 
     def _far_wake(self, s):
         """Stage 8: lumps drift at U; each site's oldest chord of wake beyond far_wake merges."""

@@ -92,17 +92,14 @@ class BodySystem:
         cat = (lambda k: pts[0][k] if len(pts) == 1 else np.concatenate([p[k] for p in pts]))
         if len(self.models) == 1 and hasattr(self.models[0], "influence_matrix"):   # surface panels alone
             a = self.models[0].influence_matrix()
-        elif any(hasattr(m, "influence_matrix") for m in self.models):
-            # several bodies with surface panels among them: every body's bound vortices as point
-            # vortices on every collocation point, then each panel body's own block in its place
+        else:
+            # every body's bound vortices as point vortices on every collocation point, then each
+            # surface-panel body's own block in its place
             a = np.empty((self.n, self.n))
             normal_influence(cat(2), cat(3), cat(4), cat(5), cat(0), cat(1), 0.0, a)
             for m, sl in zip(self.models, self.slices):
                 if hasattr(m, "influence_matrix"):
                     a[sl, sl] = m.influence_matrix()
-        else:
-            a = np.empty((self.n, self.n))
-            normal_influence(cat(2), cat(3), cat(4), cat(5), cat(0), cat(1), 0.0, a)
         self.a_inv = np.linalg.inv(a)
         self.version += 1
         self._kelvin = {}
@@ -129,19 +126,15 @@ class BodySystem:
             return False
         if len(self.models) == 1 and hasattr(self.models[0], "ground_matrix"):   # surface panels alone
             a = self.models[0].ground_matrix(step, z_ground)
-        elif any(hasattr(m, "ground_matrix") for m in self.models):
-            # several bodies, surface panels among them: point vortices and their images across
-            # bodies, each panel body's own block with its images in its place
+        else:
+            # point vortices and their images across bodies, then each surface-panel body's own block
+            # with its images in its place
             a = np.empty((self.n, self.n))
             normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
                                     float(z_ground), a)
             for m, sl in zip(self.models, self.slices):
                 if hasattr(m, "ground_matrix"):
                     a[sl, sl] = m.ground_matrix(BodyStep(step, sl), z_ground)
-        else:
-            a = np.empty((self.n, self.n))
-            normal_influence_ground(step.xc, step.zc, step.nx, step.nz, step.xv, step.zv, 0.0,
-                                    float(z_ground), a)
         self.a_inv = np.linalg.inv(a)
         self.version += 1
         self._kelvin = {}
